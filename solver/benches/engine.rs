@@ -1,0 +1,2 @@
+//! Criterion benchmarks of the engine.
+fn main() {}

@@ -1,0 +1,2 @@
+//! Command-line entry: reads a design document and prints the result.
+fn main() {}

@@ -1,0 +1,155 @@
+//! Error type of the solver: every variant names the offending field and value.
+
+use std::fmt;
+
+/// Everything that can go wrong in the solver.
+///
+/// Variants carry the field (a dotted path such as `recipe.target_ph` or a
+/// species name) and the value that was refused, so the page can put the
+/// message next to the right input.
+#[derive(Debug, Clone, PartialEq)]
+#[non_exhaustive]
+pub enum SolverError {
+    /// A number was NaN or infinite.
+    NotFinite {
+        /// Field path.
+        field: String,
+    },
+    /// A quantity that must be zero or positive was negative.
+    Negative {
+        /// Field path.
+        field: String,
+        /// The value given.
+        value: f64,
+    },
+    /// A value outside the range the data or the model supports.
+    OutOfRange {
+        /// Field path.
+        field: String,
+        /// The value given.
+        value: f64,
+        /// Lowest accepted value.
+        min: f64,
+        /// Highest accepted value.
+        max: f64,
+    },
+    /// A name that refers to nothing known (system, reagent form, ion...).
+    Unknown {
+        /// What kind of thing was looked up (`system`, `form`, ...).
+        kind: String,
+        /// The name given.
+        name: String,
+    },
+    /// A chemical formula that could not be parsed.
+    BadFormula {
+        /// The formula text.
+        formula: String,
+        /// Byte position of the problem.
+        position: usize,
+    },
+    /// The root finder could not bracket the charge balance.
+    NoBracket {
+        /// Lower pH searched.
+        lo: f64,
+        /// Upper pH searched.
+        hi: f64,
+    },
+    /// The iteration did not converge.
+    NoConvergence {
+        /// Iterations used.
+        iterations: u32,
+        /// Final residual.
+        residual: f64,
+    },
+    /// A recipe that cannot be made with the chosen reagents.
+    Infeasible {
+        /// Field path of the choice that makes it impossible.
+        field: String,
+        /// Plain explanation for the technician.
+        reason: String,
+    },
+    /// A design document could not be read.
+    Document {
+        /// Field path inside the document (or `document` for syntax errors).
+        field: String,
+        /// What was wrong.
+        reason: String,
+    },
+}
+
+impl fmt::Display for SolverError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            Self::NotFinite { field } => write!(f, "{field}: not a finite number"),
+            Self::Negative { field, value } => {
+                write!(f, "{field}: must not be negative (got {value})")
+            }
+            Self::OutOfRange {
+                field,
+                value,
+                min,
+                max,
+            } => write!(f, "{field}: {value} is outside {min} to {max}"),
+            Self::Unknown { kind, name } => write!(f, "unknown {kind} \"{name}\""),
+            Self::BadFormula { formula, position } => {
+                write!(f, "cannot read formula \"{formula}\" at position {position}")
+            }
+            Self::NoBracket { lo, hi } => {
+                write!(f, "no charge-balance root between pH {lo} and {hi}")
+            }
+            Self::NoConvergence {
+                iterations,
+                residual,
+            } => write!(
+                f,
+                "did not converge after {iterations} iterations (residual {residual:e})"
+            ),
+            Self::Infeasible { field, reason } => write!(f, "{field}: {reason}"),
+            Self::Document { field, reason } => write!(f, "{field}: {reason}"),
+        }
+    }
+}
+
+impl std::error::Error for SolverError {}
+
+/// Result alias used throughout the crate.
+pub type Result<T> = std::result::Result<T, SolverError>;
+
+/// Reject NaN and infinities, naming the field.
+pub(crate) fn finite(field: &str, v: f64) -> Result<f64> {
+    if v.is_finite() {
+        Ok(v)
+    } else {
+        Err(SolverError::NotFinite {
+            field: field.to_string(),
+        })
+    }
+}
+
+/// Reject negative, NaN and infinite values, naming the field.
+pub(crate) fn non_negative(field: &str, v: f64) -> Result<f64> {
+    let v = finite(field, v)?;
+    if v < 0.0 {
+        Err(SolverError::Negative {
+            field: field.to_string(),
+            value: v,
+        })
+    } else {
+        Ok(v)
+    }
+}
+
+/// Reject values outside `[min, max]`, naming the field.
+pub(crate) fn in_range(field: &str, v: f64, min: f64, max: f64) -> Result<f64> {
+    let v = finite(field, v)?;
+    if v < min || v > max {
+        Err(SolverError::OutOfRange {
+            field: field.to_string(),
+            value: v,
+            min,
+            max,
+        })
+    } else {
+        Ok(v)
+    }
+}

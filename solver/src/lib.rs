@@ -2,6 +2,8 @@
 #![forbid(unsafe_code)]
 
 pub mod error;
+pub mod activity;
+pub mod equilibrium;
 pub mod system;
 
 pub use error::{Result, SolverError};

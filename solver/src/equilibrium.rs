@@ -1,0 +1,579 @@
+//! The exact charge balance: pH of a mixture of acid systems and spectator ions.
+//!
+//! # Model
+//!
+//! pH is the activity scale, `pH = −log10 a(H⁺)`. An acid system with total
+//! concentration `C`, fully protonated charge `z₀` and thermodynamic constants
+//! `K₁ … Kₙ` has species `j = 0 … n` (j protons removed) with charge
+//! `z_j = z₀ − j`. With activity coefficients `γ_z` the concentration ratios are
+//!
+//! ```text
+//! [A_j] / [A_{j−1}] = K_j γ_{z_{j−1}} / (a_H γ_{z_j})
+//! ```
+//!
+//! The charge balance solved for `a_H` is
+//!
+//! ```text
+//! F(pH) = [H⁺] − [OH⁻] + Σ_k C_k (z₀,k − n̄_k) + S = 0
+//! [H⁺] = a_H / γ₁,   [OH⁻] = K_w / (a_H γ₁)
+//! ```
+//!
+//! where `n̄_k` is the mean number of protons removed from system `k` and `S`
+//! the net charge of the spectator ions (Na⁺, K⁺, Cl⁻ from salts, strong acids
+//! and bases). Its derivative is
+//!
+//! ```text
+//! dF/dpH = −ln 10 ( [H⁺] + [OH⁻] + Σ_k C_k Var_k(j) ) = −β
+//! ```
+//!
+//! so `F` is strictly decreasing: the root is unique, and Newton steps with a
+//! bisection safeguard inside a sign-checked bracket always converge. The
+//! ionic strength
+//!
+//! ```text
+//! I = ½ ( [H⁺] + [OH⁻] + Σ_k C_k Σ_j z_j² α_j + Σ spectators z² c )
+//! ```
+//!
+//! is found by fixed-point iteration around that inner solve, each inner solve
+//! warm-started from the last. Nothing in the iteration allocates.
+
+use crate::activity::{gamma1, ActivityModel, DAVIES_LIMIT};
+use crate::error::{Result, SolverError};
+use crate::system::MAX_STEPS;
+use serde::{Deserialize, Serialize};
+
+const LN10: f64 = std::f64::consts::LN_10;
+/// Lowest pH the bracket search starts from.
+pub const PH_LO: f64 = -3.0;
+/// Highest pH the bracket search starts from.
+pub const PH_HI: f64 = 17.0;
+
+/// One acid system resolved at a temperature: constants and total concentration.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Acid {
+    /// Charge of the fully protonated species.
+    pub z0: i32,
+    /// Number of dissociation steps in use (≤ [`MAX_STEPS`]).
+    pub n: usize,
+    /// Thermodynamic dissociation constants K₁…Kₙ at the working temperature.
+    pub ka: [f64; MAX_STEPS],
+    /// Total concentration of the system, mol/L.
+    pub total: f64,
+}
+
+impl Acid {
+    /// Build from pK values (at most [`MAX_STEPS`] are used).
+    pub fn from_pks(z0: i32, pks: &[f64], total: f64) -> Self {
+        let mut ka = [0.0; MAX_STEPS];
+        let n = pks.len().min(MAX_STEPS);
+        for (k, pk) in ka.iter_mut().zip(pks.iter()) {
+            *k = 10f64.powf(-pk);
+        }
+        Self { z0, n, ka, total }
+    }
+}
+
+/// Everything the charge balance needs, resolved at one temperature.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Composition {
+    /// Acid systems present.
+    pub acids: Vec<Acid>,
+    /// Net charge of spectator ions, Σ z c (mol/L).
+    pub spectator_charge: f64,
+    /// Σ z² c of spectator ions (mol/L), twice their share of I.
+    pub spectator_z2: f64,
+    /// Ionic product of water at the temperature.
+    pub kw: f64,
+    /// Debye–Hückel A at the temperature.
+    pub a_dh: f64,
+    /// Activity model.
+    pub activity: ActivityModel,
+}
+
+/// Non-fatal conditions a result carries.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Warning {
+    /// Ionic strength beyond the range the Davies equation is trusted in.
+    IonicStrengthBeyondModel,
+    /// pH outside 0–14: the solution is extreme and the model is rough there.
+    ExtremePh,
+}
+
+/// The solved state of a composition.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Equilibrium {
+    /// pH (activity scale).
+    pub ph: f64,
+    /// Ionic strength, mol/L.
+    pub ionic_strength: f64,
+    /// Activity coefficient of singly charged ions.
+    pub gamma1: f64,
+    /// [H⁺], mol/L.
+    pub h: f64,
+    /// [OH⁻], mol/L.
+    pub oh: f64,
+    /// Buffer capacity β = dC_base/dpH, mol/(L·pH), at fixed ionic strength.
+    pub capacity: f64,
+    /// Charge-balance residual at the answer, mol/L.
+    pub residual: f64,
+    /// Charge-balance evaluations used.
+    pub evaluations: u32,
+    /// Warnings.
+    pub warnings: Vec<Warning>,
+}
+
+/// Sums over one acid at one `a_H` and γ₁: Σt, Σ j t, Σ j² t (unnormalised).
+#[inline]
+fn acid_moments(acid: &Acid, inv_h: f64, g1: f64) -> (f64, f64, f64) {
+    // term_j = Π_{i≤j} K'_i / a_H, K'_i = K_i γ_{z_{i−1}} / γ_{z_i}
+    // with γ_z = g1^(z²): γ_{z−1}… ratio exponent z_{i−1}² − z_i² = 2 z_i + 1.
+    let mut term = 1.0;
+    let mut s0 = 1.0;
+    let mut s1 = 0.0;
+    let mut s2 = 0.0;
+    let ideal = g1 == 1.0;
+    for (i, &k) in acid.ka.iter().take(acid.n).enumerate() {
+        let j = (i + 1) as f64;
+        let zj = acid.z0 - (i as i32 + 1);
+        let corr = if ideal { 1.0 } else { g1.powi(2 * zj + 1) };
+        term *= k * corr * inv_h;
+        s0 += term;
+        s1 += j * term;
+        s2 += j * j * term;
+    }
+    (s0, s1, s2)
+}
+
+/// Charge balance, its pH-derivative (−β) and the ionic strength at one pH.
+#[derive(Debug, Clone, Copy)]
+struct Eval {
+    f: f64,
+    beta: f64,
+    ionic: f64,
+    h: f64,
+    oh: f64,
+}
+
+#[inline]
+fn evaluate(c: &Composition, ph: f64, g1: f64) -> Eval {
+    let a_h = 10f64.powf(-ph);
+    let inv_h = 1.0 / a_h;
+    let h = a_h / g1;
+    let oh = c.kw * inv_h / g1;
+    let mut f = h - oh + c.spectator_charge;
+    let mut var_sum = 0.0;
+    let mut z2_sum = c.spectator_z2 + h + oh;
+    for acid in &c.acids {
+        let (s0, s1, s2) = acid_moments(acid, inv_h, g1);
+        let nbar = s1 / s0;
+        let e2 = s2 / s0;
+        let z0 = f64::from(acid.z0);
+        f += acid.total * (z0 - nbar);
+        var_sum += acid.total * (e2 - nbar * nbar).max(0.0);
+        // Σ z_j² α_j = z0² − 2 z0 n̄ + E[j²]
+        z2_sum += acid.total * (z0 * z0 - 2.0 * z0 * nbar + e2);
+    }
+    Eval {
+        f,
+        beta: LN10 * (h + oh + var_sum),
+        ionic: 0.5 * z2_sum,
+        h,
+        oh,
+    }
+}
+
+/// Validate a composition before iterating.
+fn check(c: &Composition) -> Result<()> {
+    let num = |field: &str, v: f64| -> Result<()> {
+        if !v.is_finite() {
+            return Err(SolverError::NotFinite {
+                field: field.to_string(),
+            });
+        }
+        Ok(())
+    };
+    num("kw", c.kw)?;
+    num("a_dh", c.a_dh)?;
+    num("spectator_charge", c.spectator_charge)?;
+    num("spectator_z2", c.spectator_z2)?;
+    if c.kw <= 0.0 {
+        return Err(SolverError::OutOfRange {
+            field: "kw".into(),
+            value: c.kw,
+            min: f64::MIN_POSITIVE,
+            max: 1.0,
+        });
+    }
+    if c.spectator_z2 < 0.0 {
+        return Err(SolverError::Negative {
+            field: "spectator_z2".into(),
+            value: c.spectator_z2,
+        });
+    }
+    for (i, a) in c.acids.iter().enumerate() {
+        if !a.total.is_finite() {
+            return Err(SolverError::NotFinite {
+                field: format!("acids[{i}].total"),
+            });
+        }
+        if a.total < 0.0 {
+            return Err(SolverError::Negative {
+                field: format!("acids[{i}].total"),
+                value: a.total,
+            });
+        }
+        if a.n > MAX_STEPS {
+            return Err(SolverError::OutOfRange {
+                field: format!("acids[{i}].n"),
+                value: a.n as f64,
+                min: 0.0,
+                max: MAX_STEPS as f64,
+            });
+        }
+        for (s, k) in a.ka.iter().take(a.n).enumerate() {
+            if !(k.is_finite() && *k > 0.0) {
+                return Err(SolverError::OutOfRange {
+                    field: format!("acids[{i}].ka[{s}]"),
+                    value: *k,
+                    min: f64::MIN_POSITIVE,
+                    max: f64::MAX,
+                });
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Solve the charge balance at a fixed γ₁: safeguarded Newton in a bracket.
+fn solve_fixed_gamma(c: &Composition, g1: f64, guess: f64, evals: &mut u32) -> Result<Eval> {
+    let mut lo = PH_LO;
+    let mut hi = PH_HI;
+    // Widen the bracket for extreme (very concentrated) inputs.
+    let mut e_lo = evaluate(c, lo, g1);
+    *evals += 1;
+    while e_lo.f < 0.0 && lo > -10.0 {
+        lo -= 3.0;
+        e_lo = evaluate(c, lo, g1);
+        *evals += 1;
+    }
+    let mut e_hi = evaluate(c, hi, g1);
+    *evals += 1;
+    while e_hi.f > 0.0 && hi < 24.0 {
+        hi += 3.0;
+        e_hi = evaluate(c, hi, g1);
+        *evals += 1;
+    }
+    if !(e_lo.f >= 0.0 && e_hi.f <= 0.0) {
+        return Err(SolverError::NoBracket { lo, hi });
+    }
+    let mut x = if guess.is_finite() && guess > lo && guess < hi {
+        guess
+    } else {
+        0.5 * (lo + hi)
+    };
+    let mut last = e_lo;
+    for _ in 0..200 {
+        let e = evaluate(c, x, g1);
+        *evals += 1;
+        last = e;
+        if e.f == 0.0 {
+            return Ok(e);
+        }
+        if e.f > 0.0 {
+            lo = x;
+        } else {
+            hi = x;
+        }
+        // Newton step: F' = −β.
+        let step = if e.beta > 0.0 { e.f / e.beta } else { f64::NAN };
+        if step.abs() < 1e-12 || (hi - lo) < 1e-13 {
+            return Ok(e);
+        }
+        let newton = x + step;
+        x = if newton.is_finite() && newton > lo && newton < hi {
+            newton
+        } else {
+            0.5 * (lo + hi)
+        };
+    }
+    Err(SolverError::NoConvergence {
+        iterations: 200,
+        residual: last.f,
+    })
+}
+
+/// Solve for pH and ionic strength.
+///
+/// `guess` is a starting pH (use the previous answer along a curve, or
+/// `f64::NAN` for none).
+///
+/// # Errors
+///
+/// [`SolverError::NotFinite`], [`SolverError::Negative`] or
+/// [`SolverError::OutOfRange`] for a malformed composition (checked before
+/// iterating); [`SolverError::NoBracket`] or [`SolverError::NoConvergence`]
+/// if no root is found (not seen for physically valid input).
+///
+/// # Example
+///
+/// 1.0×10⁻⁸ M HCl in pure water (Kw = 1.0×10⁻¹⁴, ideal) has pH 6.98, not 8:
+///
+/// ```
+/// use solver::equilibrium::{solve, Composition};
+/// use solver::activity::ActivityModel;
+/// let c = Composition {
+///     acids: vec![],
+///     spectator_charge: -1e-8, // Cl⁻ from HCl
+///     spectator_z2: 1e-8,
+///     kw: 1e-14,
+///     a_dh: 0.5085,
+///     activity: ActivityModel::Ideal,
+/// };
+/// let eq = solve(&c, f64::NAN)?;
+/// assert!((eq.ph - 6.978).abs() < 0.001);
+/// # Ok::<(), solver::SolverError>(())
+/// ```
+pub fn solve(c: &Composition, guess: f64) -> Result<Equilibrium> {
+    check(c)?;
+    let mut evals = 0u32;
+    let mut ionic = 0.5 * c.spectator_z2;
+    let mut g1 = gamma1(c.activity, c.a_dh, ionic);
+    let mut e = solve_fixed_gamma(c, g1, guess, &mut evals)?;
+    let mut ph = phx(c, &e, g1);
+    if c.activity != ActivityModel::Ideal {
+        let mut converged = false;
+        for it in 0..100 {
+            let new_i = e.ionic;
+            // Damp late iterations in case of oscillation at high I.
+            let next_i = if it < 20 {
+                new_i
+            } else {
+                0.5 * (new_i + ionic)
+            };
+            let done = (next_i - ionic).abs() <= 1e-13 + 1e-10 * ionic;
+            ionic = next_i;
+            g1 = gamma1(c.activity, c.a_dh, ionic);
+            e = solve_fixed_gamma(c, g1, ph, &mut evals)?;
+            ph = phx(c, &e, g1);
+            if done {
+                converged = true;
+                break;
+            }
+        }
+        if !converged {
+            return Err(SolverError::NoConvergence {
+                iterations: 100,
+                residual: e.ionic - ionic,
+            });
+        }
+    }
+    let mut warnings = Vec::new();
+    if c.activity == ActivityModel::Davies && e.ionic > DAVIES_LIMIT {
+        warnings.push(Warning::IonicStrengthBeyondModel);
+    }
+    if !(0.0..=14.0).contains(&ph) {
+        warnings.push(Warning::ExtremePh);
+    }
+    Ok(Equilibrium {
+        ph,
+        ionic_strength: e.ionic,
+        gamma1: g1,
+        h: e.h,
+        oh: e.oh,
+        capacity: e.beta,
+        residual: e.f,
+        evaluations: evals,
+        warnings,
+    })
+}
+
+/// Recover the pH of an evaluation from [H⁺] and γ₁.
+fn phx(_c: &Composition, e: &Eval, g1: f64) -> f64 {
+    -(e.h * g1).log10()
+}
+
+/// Net spectator charge the solution would need to sit at `ph` for a given
+/// ionic strength: `S = −([H⁺] − [OH⁻] + Σ C (z₀ − n̄))`.
+///
+/// Also returns the ionic strength contributed by everything except the
+/// spectator ions (`½ Σ z² c` of H⁺, OH⁻ and the acid species).
+pub fn required_spectator_charge(c: &Composition, ph: f64, ionic_strength: f64) -> (f64, f64) {
+    let g1 = gamma1(c.activity, c.a_dh, ionic_strength);
+    let e = evaluate(c, ph, g1);
+    (
+        -(e.f - c.spectator_charge),
+        e.ionic - 0.5 * c.spectator_z2,
+    )
+}
+
+/// Solve for the amount `x` (mol/L) of an addition that changes the spectator
+/// charge by `dcharge·x` and Σz²c by `dz2·x`, such that the pH equals `ph`.
+///
+/// This is the one inverse used by recipes (which form ratio, how much
+/// titrant) and by the tolerance budget (how much acid or base leaves the
+/// window). The ionic strength is iterated to self-consistency, so the answer
+/// is exact under the model, not a linearisation.
+///
+/// # Errors
+///
+/// [`SolverError::Infeasible`] when `dcharge` is zero;
+/// [`SolverError::NoConvergence`] if the ionic strength does not settle.
+pub fn solve_addition(c: &Composition, ph: f64, dcharge: f64, dz2: f64) -> Result<(f64, f64)> {
+    check(c)?;
+    if !ph.is_finite() {
+        return Err(SolverError::NotFinite { field: "ph".into() });
+    }
+    if dcharge == 0.0 || !dcharge.is_finite() || !dz2.is_finite() {
+        return Err(SolverError::Infeasible {
+            field: "addition".into(),
+            reason: "the addition carries no charge, so it cannot move the pH".into(),
+        });
+    }
+    let mut ionic = 0.5 * c.spectator_z2;
+    let mut x = 0.0;
+    for _ in 0..200 {
+        let (need, i_rest) = required_spectator_charge(c, ph, ionic);
+        let new_x = (need - c.spectator_charge) / dcharge;
+        let new_i = (i_rest + 0.5 * (c.spectator_z2 + dz2 * new_x)).max(0.0);
+        let done = (new_i - ionic).abs() <= 1e-13 + 1e-10 * ionic && (new_x - x).abs() <= 1e-15 + 1e-10 * x.abs();
+        x = new_x;
+        ionic = new_i;
+        if done || c.activity == ActivityModel::Ideal {
+            return Ok((x, ionic));
+        }
+    }
+    Err(SolverError::NoConvergence {
+        iterations: 200,
+        residual: x,
+    })
+}
+
+/// Species fractions of one acid at a pH and ionic strength, written into `out`
+/// (most protonated first). Returns the number of species written.
+pub fn fractions_into(
+    acid: &Acid,
+    ph: f64,
+    g1: f64,
+    out: &mut [f64; MAX_STEPS + 1],
+) -> usize {
+    let inv_h = 10f64.powf(ph);
+    let mut term = 1.0;
+    let mut terms = [0.0; MAX_STEPS + 1];
+    terms[0] = 1.0;
+    let mut sum = 1.0;
+    for (i, (&k, t)) in acid
+        .ka
+        .iter()
+        .take(acid.n)
+        .zip(terms.iter_mut().skip(1))
+        .enumerate()
+    {
+        let zj = acid.z0 - (i as i32 + 1);
+        let corr = if g1 == 1.0 { 1.0 } else { g1.powi(2 * zj + 1) };
+        term *= k * corr * inv_h;
+        *t = term;
+        sum += term;
+    }
+    for (o, t) in out.iter_mut().zip(terms.iter()) {
+        *o = t / sum;
+    }
+    acid.n + 1
+}
+
+/// Buffer capacity β (mol/(L·pH)) of a composition at any pH, at fixed
+/// ionic strength, analytic:
+///
+/// ```text
+/// β = ln 10 ( [H⁺] + [OH⁻] + Σ_k C_k ( Σ j² α_j − (Σ j α_j)² ) )
+/// ```
+pub fn capacity_at(c: &Composition, ph: f64, ionic_strength: f64) -> f64 {
+    let g1 = gamma1(c.activity, c.a_dh, ionic_strength);
+    evaluate(c, ph, g1).beta
+}
+
+/// Charge-balance residual at a pH and ionic strength (for tests and checks).
+pub fn charge_residual(c: &Composition, ph: f64, ionic_strength: f64) -> f64 {
+    let g1 = gamma1(c.activity, c.a_dh, ionic_strength);
+    evaluate(c, ph, g1).f
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
+mod tests {
+    use super::*;
+
+    fn water(activity: ActivityModel) -> Composition {
+        Composition {
+            acids: vec![],
+            spectator_charge: 0.0,
+            spectator_z2: 0.0,
+            kw: 1.0e-14,
+            a_dh: 0.5085,
+            activity,
+        }
+    }
+
+    #[test]
+    fn pure_water_is_neutral() {
+        let eq = solve(&water(ActivityModel::Davies), f64::NAN).unwrap();
+        assert!((eq.ph - 7.0).abs() < 1e-9, "{}", eq.ph);
+    }
+
+    #[test]
+    fn dilute_hcl_is_not_ph_8() {
+        // Hill, Petrucci et al., General Chemistry 4th ed., problem 15.109.
+        let mut c = water(ActivityModel::Ideal);
+        c.spectator_charge = -1e-8;
+        c.spectator_z2 = 1e-8;
+        let eq = solve(&c, f64::NAN).unwrap();
+        let h = 10f64.powf(-eq.ph);
+        assert!((h - 1.05e-7).abs() < 0.01e-7, "{h}");
+    }
+
+    #[test]
+    fn acetic_acid_exact_quadratic() {
+        // 0.100 M acetic acid, pKa 4.756, ideal: quadratic gives pH 2.881 (computed).
+        let mut c = water(ActivityModel::Ideal);
+        c.acids.push(Acid::from_pks(0, &[4.756], 0.1));
+        let eq = solve(&c, f64::NAN).unwrap();
+        let ka = 10f64.powf(-4.756);
+        let h = (-ka + (ka * ka + 4.0 * ka * 0.1).sqrt()) / 2.0;
+        assert!((eq.ph + h.log10()).abs() < 1e-4, "{}", eq.ph);
+        assert!((eq.ph - 2.881).abs() < 0.001);
+    }
+
+    #[test]
+    fn strong_base_extremes_bracket() {
+        let mut c = water(ActivityModel::Davies);
+        c.spectator_charge = 5.0;
+        c.spectator_z2 = 5.0;
+        let eq = solve(&c, f64::NAN).unwrap();
+        assert!(eq.ph > 14.0);
+        assert!(eq.warnings.contains(&Warning::IonicStrengthBeyondModel));
+    }
+
+    #[test]
+    fn addition_inverts_solve() {
+        let mut c = water(ActivityModel::Davies);
+        c.acids.push(Acid::from_pks(0, &[2.148, 7.198, 12.35], 0.05));
+        let (x, _) = solve_addition(&c, 7.4, 1.0, 1.0).unwrap();
+        c.spectator_charge += x;
+        c.spectator_z2 += x;
+        let eq = solve(&c, f64::NAN).unwrap();
+        assert!((eq.ph - 7.4).abs() < 1e-8, "{}", eq.ph);
+    }
+
+    #[test]
+    fn bad_input_is_an_error_not_a_panic() {
+        let mut c = water(ActivityModel::Davies);
+        c.acids.push(Acid::from_pks(0, &[f64::NAN], 0.1));
+        assert!(solve(&c, 7.0).is_err());
+        let mut c = water(ActivityModel::Davies);
+        c.acids.push(Acid::from_pks(0, &[4.0], -1.0));
+        assert!(matches!(
+            solve(&c, 7.0),
+            Err(SolverError::Negative { .. })
+        ));
+    }
+}

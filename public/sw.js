@@ -1,0 +1,52 @@
+// Bufferwright service worker: cache-first for same-origin GET requests.
+// This file is a template: scripts/postbuild.mjs (trunk post_build hook) replaces the two
+// placeholders below with a per-build version and the list of hashed files in dist/.
+/* global self, caches, fetch */
+const CACHE_VERSION = '__BUFFERWRIGHT_CACHE_VERSION__';
+const PRECACHE = ['__BUFFERWRIGHT_PRECACHE__'];
+const CACHE_NAME = `bufferwright-${CACHE_VERSION}`;
+
+self.addEventListener('install', (event) => {
+  event.waitUntil(
+    caches
+      .open(CACHE_NAME)
+      .then((cache) => cache.addAll(PRECACHE.map((path) => new Request(path, { cache: 'reload' }))))
+      .then(() => self.skipWaiting()),
+  );
+});
+
+self.addEventListener('activate', (event) => {
+  event.waitUntil(
+    caches
+      .keys()
+      .then((names) =>
+        Promise.all(
+          names
+            .filter((name) => name.startsWith('bufferwright-') && name !== CACHE_NAME)
+            .map((name) => caches.delete(name)),
+        ),
+      )
+      .then(() => self.clients.claim()),
+  );
+});
+
+self.addEventListener('fetch', (event) => {
+  const request = event.request;
+  if (request.method !== 'GET') return;
+  const url = new URL(request.url);
+  if (url.origin !== self.location.origin) return;
+  // Navigations (index.html?embed=1&ws=... etc.) are answered by the cached shell.
+  const key = request.mode === 'navigate' ? new URL('./', self.registration.scope).href : request;
+  event.respondWith(
+    caches.open(CACHE_NAME).then((cache) =>
+      cache.match(key, { ignoreSearch: request.mode === 'navigate' }).then(
+        (hit) =>
+          hit ||
+          fetch(request).then((response) => {
+            if (response.ok && response.type === 'basic') cache.put(request, response.clone());
+            return response;
+          }),
+      ),
+    ),
+  );
+});

@@ -1,0 +1,83 @@
+#!/usr/bin/env bash
+# Command two: the whole check, as CI runs it (.ci/run execs this).
+#   setup -> fmt -> clippy (native, wasm) -> cargo test (native) -> browser tests (wasm) ->
+#   trunk release build -> single-file build -> e2e (node --test tests/e2e/)
+# Every step runs even if an earlier one failed (steps that need the build fail fast without it).
+# The last line is "N passed, N failed" counting steps; exit status is non-zero on any failure.
+set -uo pipefail
+root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+cd "$root"
+export CI="${CI:-}" CARGO_TERM_COLOR="${CARGO_TERM_COLOR:-never}"
+
+passed=0
+failed=0
+failed_names=()
+declare -a report=()
+step() {
+  local name="$1"
+  shift
+  local t0=$SECONDS
+  printf '\n==================== %s ====================\n' "$name"
+  printf '$ %s\n' "$*"
+  if "$@"; then
+    passed=$((passed + 1))
+    report+=("PASS  ${name} ($((SECONDS - t0))s)")
+  else
+    failed=$((failed + 1))
+    failed_names+=("$name")
+    report+=("FAIL  ${name} ($((SECONDS - t0))s)")
+  fi
+}
+
+printf '==================== setup ====================\n'
+# shellcheck source=scripts/setup.sh
+if ! (source scripts/setup.sh); then
+  echo "setup failed: see the message above"
+  echo "0 passed, 1 failed"
+  exit 1
+fi
+export PATH="$root/tests/node_modules/.bin:$HOME/.cargo/bin:$PATH"
+
+wasm_tests() {
+  CARGO_TARGET_WASM32_UNKNOWN_UNKNOWN_RUNNER=wasm-bindgen-test-runner \
+    CHROMEDRIVER=/usr/bin/chromedriver \
+    WASM_BINDGEN_TEST_WEBDRIVER_JSON="$root/tests/webdriver.json" \
+    WASM_BINDGEN_USE_BROWSER=1 \
+    WASM_BINDGEN_TEST_TIMEOUT=120 \
+    cargo test -p app --target wasm32-unknown-unknown
+}
+have_dist() {
+  [[ -f dist/index.html ]] || {
+    echo "no dist/index.html: the trunk build failed"
+    return 1
+  }
+}
+build_trunk() {
+  rm -rf dist dist-single
+  trunk build --release --offline || return 1
+  local wasm
+  wasm="$(ls dist/*_bg.wasm)"
+  echo "wasm size: $(stat -c %s "$wasm") bytes raw, $(gzip -9 -c "$wasm" | wc -c) bytes gzip -9 ($(basename "$wasm"))"
+}
+e2e() {
+  have_dist || return 1
+  [[ -f dist-single/bufferwright.html ]] || { echo "no single-file build"; return 1; }
+  node --test --test-concurrency=1 tests/e2e/
+}
+
+step "cargo fmt --check" cargo fmt --all --check
+step "clippy (native)" cargo clippy --workspace --all-targets -- -D warnings
+step "clippy (wasm32, app)" cargo clippy -p app --target wasm32-unknown-unknown -- -D warnings
+step "cargo test (native)" cargo test --workspace
+step "browser tests (wasm-bindgen-test in Chromium)" wasm_tests
+step "trunk build --release" build_trunk
+step "single-file build" bash -c 'test -f dist/index.html && node scripts/single-file.mjs dist dist-single/bufferwright.html'
+step "e2e (node --test tests/e2e/)" e2e
+
+printf '\n==================== summary ====================\n'
+printf '%s\n' "${report[@]}"
+if [[ $failed -gt 0 ]]; then
+  printf 'failed steps: %s\n' "${failed_names[*]}"
+fi
+echo "${passed} passed, ${failed} failed"
+[[ $failed -eq 0 ]]

@@ -1,0 +1,774 @@
+//! Recipes, the inverse problem: what to weigh and pour to hit a target pH.
+//!
+//! Every method reduces to one unknown `x` that moves the spectator charge
+//! linearly (the base-form share, or the titrant amount), found by
+//! [`solve_addition`] with the ionic strength iterated to self-consistency.
+//! The answer is then checked by a forward [`solve`] of the finished recipe.
+//!
+//! Beside the exact answer the Henderson–Hasselbalch estimate is returned,
+//!
+//! ```text
+//! pH = pK_k + log10( [A_k] / [A_{k−1}] )      (thermodynamic pK, no activity, no water)
+//! ```
+//!
+//! together with the pH that estimate would really give, so the difference is visible.
+
+use crate::activity::{ActivityModel, DAVIES_LIMIT};
+use crate::equilibrium::{solve, solve_addition, Equilibrium};
+use crate::error::{in_range, non_negative, Result, SolverError};
+use crate::formula::molar_mass;
+use crate::library::{counter_charge, find_form};
+use crate::mixture::{
+    lookup, prepare, tolerance, Additive, AdditiveSpec, ComponentSpec, MixtureSpec, Tolerance,
+};
+use crate::system::{AcidSystem, ReagentForm};
+use crate::thermo::system_pks;
+use serde::{Deserialize, Serialize};
+
+/// How the buffer is made.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum Method {
+    /// Weigh two forms of the same system (for example NaH₂PO₄·H₂O and Na₂HPO₄·7H₂O).
+    TwoForms {
+        /// The more protonated form.
+        acid_form: String,
+        /// The less protonated form.
+        base_form: String,
+    },
+    /// Weigh one form and titrate to the target with a strong acid or base stock.
+    Titrate {
+        /// The form weighed.
+        form: String,
+        /// Titrant (HCl, NaOH or KOH).
+        titrant: Additive,
+        /// Titrant stock molarity, mol/L.
+        titrant_m: f64,
+    },
+    /// Mix two stock solutions, then water to volume.
+    TwoStocks {
+        /// Form in the acid stock.
+        acid_form: String,
+        /// Acid stock molarity (formula units), mol/L.
+        acid_stock_m: f64,
+        /// Form in the base stock.
+        base_form: String,
+        /// Base stock molarity (formula units), mol/L.
+        base_stock_m: f64,
+    },
+}
+
+/// Everything the technician enters for a recipe.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct RecipeSpec {
+    /// System id.
+    pub system: String,
+    /// Target pH at the working temperature.
+    pub target_ph: f64,
+    /// Working temperature, °C.
+    pub temperature_c: f64,
+    /// Total buffer concentration (system units), mol/L.
+    pub total_conc_m: f64,
+    /// Final volume, L.
+    pub volume_l: f64,
+    /// Optional inert salt (NaCl or KCl).
+    #[serde(default)]
+    pub salt: Option<AdditiveSpec>,
+    /// Activity model.
+    #[serde(default)]
+    pub activity: ActivityModel,
+    /// Preparation method.
+    pub method: Method,
+    /// Tolerance window half-width, pH units.
+    #[serde(default = "default_tolerance")]
+    pub tolerance_ph: f64,
+}
+
+fn default_tolerance() -> f64 {
+    0.05
+}
+
+/// One thing to weigh or pour.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Ingredient {
+    /// Formula as on the label.
+    pub formula: String,
+    /// Display name.
+    pub name: String,
+    /// Amount, mol (in the final volume).
+    pub mol: f64,
+    /// Molar mass, g/mol, when it is weighed.
+    pub molar_mass: Option<f64>,
+    /// Mass to weigh, g.
+    pub grams: Option<f64>,
+    /// Volume to pour, mL.
+    pub ml: Option<f64>,
+    /// Stock molarity, when it is poured from a stock.
+    pub stock_m: Option<f64>,
+}
+
+/// Conditions worth a warning on a recipe.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum RecipeWarning {
+    /// The target is far from every pK: little buffer capacity.
+    FarFromPk {
+        /// Distance to the nearest pK, pH units.
+        distance: f64,
+        /// That pK.
+        pk: f64,
+    },
+    /// Ionic strength past the Davies model's range.
+    IonicStrengthBeyondModel {
+        /// Ionic strength, mol/L.
+        ionic_strength: f64,
+    },
+    /// The Henderson–Hasselbalch estimate misses the target noticeably.
+    EstimateOff {
+        /// Actual pH of the estimate minus the target.
+        difference: f64,
+    },
+}
+
+/// The Henderson–Hasselbalch estimate beside the exact recipe.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Estimate {
+    /// The pK used (thermodynamic, at the working temperature).
+    pub pk: f64,
+    /// Base-species share predicted by the estimate.
+    pub base_fraction: f64,
+    /// What the estimate says to weigh and pour.
+    pub ingredients: Vec<Ingredient>,
+    /// pH the estimate's recipe really gives (exact solve), if it can be made.
+    pub actual_ph: Option<f64>,
+}
+
+/// A solved recipe.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct RecipeResult {
+    /// What to weigh and pour.
+    pub ingredients: Vec<Ingredient>,
+    /// Step-by-step instructions.
+    pub steps: Vec<String>,
+    /// Forward solve of the finished recipe.
+    pub equilibrium: Equilibrium,
+    /// Tolerance budget around the target.
+    pub tolerance: Tolerance,
+    /// pK values of the system at the temperature.
+    pub pks: Vec<f64>,
+    /// Which step (1-based) buffers the target.
+    pub step: usize,
+    /// The Henderson–Hasselbalch estimate.
+    pub estimate: Estimate,
+    /// Warnings.
+    pub warnings: Vec<RecipeWarning>,
+    /// The finished solution as a mixture (for plots and what-ifs).
+    pub mixture: MixtureSpec,
+}
+
+struct FormInfo<'a> {
+    form: &'a ReagentForm,
+    /// Counter charge per system unit.
+    q: f64,
+    /// Σ z² n per system unit.
+    zz: f64,
+    /// Formula units per system unit.
+    per_unit: f64,
+}
+
+fn form_info<'a>(sys: &'a AcidSystem, id: &str, field: &str) -> Result<FormInfo<'a>> {
+    let form = find_form(sys, id).ok_or_else(|| SolverError::Unknown {
+        kind: format!("form ({field})"),
+        name: id.into(),
+    })?;
+    if !(form.units.is_finite() && form.units > 0.0) {
+        return Err(SolverError::OutOfRange {
+            field: format!("{field}.units"),
+            value: form.units,
+            min: f64::MIN_POSITIVE,
+            max: f64::MAX,
+        });
+    }
+    let zz: f64 = form
+        .counter_ions
+        .iter()
+        .map(|(ion, n)| f64::from(ion.charge() * ion.charge()) * n)
+        .sum();
+    Ok(FormInfo {
+        q: counter_charge(form) / form.units,
+        zz: zz / form.units,
+        per_unit: 1.0 / form.units,
+        form,
+    })
+}
+
+/// Deprotonation level of a form per system unit: counter charge + z₀.
+pub fn form_level(sys: &AcidSystem, form: &ReagentForm) -> f64 {
+    if form.units > 0.0 {
+        counter_charge(form) / form.units + f64::from(sys.z0)
+    } else {
+        f64::NAN
+    }
+}
+
+/// The step (1-based) whose pK at `t_c` is nearest the target pH.
+///
+/// # Errors
+///
+/// Temperature outside the system's data.
+pub fn nearest_step(sys: &AcidSystem, target_ph: f64, t_c: f64) -> Result<(usize, f64)> {
+    let pks = system_pks(sys, t_c)?;
+    let mut best = (1usize, f64::NAN);
+    let mut dist = f64::INFINITY;
+    for (i, pk) in pks.iter().enumerate() {
+        let d = (target_ph - pk).abs();
+        if d < dist {
+            dist = d;
+            best = (i + 1, *pk);
+        }
+    }
+    if best.1.is_nan() {
+        return Err(SolverError::Unknown {
+            kind: "dissociation step".into(),
+            name: sys.id.clone(),
+        });
+    }
+    Ok(best)
+}
+
+/// Suggest the acid and base forms of the adjacent pair that buffers the target:
+/// forms whose deprotonation level is `k−1` and `k` for the nearest step `k`.
+///
+/// # Errors
+///
+/// Unknown system, temperature out of range, or no shelf forms at those levels.
+pub fn suggest_pair(
+    system: &str,
+    target_ph: f64,
+    t_c: f64,
+    custom: &[AcidSystem],
+) -> Result<(String, String)> {
+    let sys = lookup(system, custom)?;
+    let (k, _) = nearest_step(sys, target_ph, t_c)?;
+    let pick = |level: f64| {
+        sys.forms
+            .iter()
+            .filter(|f| (form_level(sys, f) - level).abs() < 1e-9)
+            .map(|f| f.id.clone())
+            .next()
+    };
+    let acid = pick(k as f64 - 1.0);
+    let base = pick(k as f64);
+    match (acid, base) {
+        (Some(a), Some(b)) => Ok((a, b)),
+        _ => Err(SolverError::Infeasible {
+            field: "method".into(),
+            reason: format!(
+                "no shelf forms for both sides of step {k} of {}; choose the forms by hand",
+                sys.name
+            ),
+        }),
+    }
+}
+
+fn validate(spec: &RecipeSpec) -> Result<()> {
+    in_range("target_ph", spec.target_ph, 0.0, 14.0)?;
+    in_range("temperature_c", spec.temperature_c, 0.0, 60.0)?;
+    let c = non_negative("total_conc_m", spec.total_conc_m)?;
+    if c <= 0.0 {
+        return Err(SolverError::OutOfRange {
+            field: "total_conc_m".into(),
+            value: c,
+            min: 1e-9,
+            max: 5.0,
+        });
+    }
+    in_range("total_conc_m", c, 1e-9, 5.0)?;
+    in_range("volume_l", spec.volume_l, 1e-6, 1000.0)?;
+    in_range("tolerance_ph", spec.tolerance_ph, 1e-4, 2.0)?;
+    if let Some(s) = &spec.salt {
+        non_negative("salt.conc_m", s.conc_m)?;
+        if s.additive.charge() != 0.0 {
+            return Err(SolverError::Infeasible {
+                field: "salt.additive".into(),
+                reason: "the added salt must be neutral (NaCl or KCl); use the titration method for acids and bases".into(),
+            });
+        }
+    }
+    match &spec.method {
+        Method::TwoForms { .. } => {}
+        Method::Titrate {
+            titrant, titrant_m, ..
+        } => {
+            in_range("method.titrant_m", *titrant_m, 1e-6, 20.0)?;
+            if titrant.charge() == 0.0 {
+                return Err(SolverError::Infeasible {
+                    field: "method.titrant".into(),
+                    reason: "the titrant must be a strong acid or base (HCl, NaOH, KOH)".into(),
+                });
+            }
+        }
+        Method::TwoStocks {
+            acid_stock_m,
+            base_stock_m,
+            ..
+        } => {
+            in_range("method.acid_stock_m", *acid_stock_m, 1e-6, 20.0)?;
+            in_range("method.base_stock_m", *base_stock_m, 1e-6, 20.0)?;
+        }
+    }
+    Ok(())
+}
+
+/// The unknown's linear effect and the mixture at x = 0.
+struct Setup {
+    base: MixtureSpec,
+    dcharge: f64,
+    dz2: f64,
+}
+
+fn weigh(form: &ReagentForm, mol: f64) -> Result<Ingredient> {
+    let mm = molar_mass(&form.formula)?;
+    Ok(Ingredient {
+        formula: form.formula.clone(),
+        name: form.name.clone(),
+        mol,
+        molar_mass: Some(mm),
+        grams: Some(mol * mm),
+        ml: None,
+        stock_m: None,
+    })
+}
+
+fn pour(formula: &str, name: &str, mol: f64, stock_m: f64) -> Ingredient {
+    Ingredient {
+        formula: formula.into(),
+        name: name.into(),
+        mol,
+        molar_mass: None,
+        grams: None,
+        ml: Some(mol / stock_m * 1000.0),
+        stock_m: Some(stock_m),
+    }
+}
+
+/// Build the finished mixture and ingredient list for a value of the unknown.
+fn finish(
+    spec: &RecipeSpec,
+    sys: &AcidSystem,
+    x: f64,
+    check: bool,
+) -> Result<(MixtureSpec, Vec<Ingredient>)> {
+    let c = spec.total_conc_m;
+    let v = spec.volume_l;
+    let mut mix = MixtureSpec {
+        temperature_c: spec.temperature_c,
+        activity: spec.activity,
+        components: vec![],
+        additives: spec.salt.iter().copied().collect(),
+    };
+    let mut ing = Vec::new();
+    match &spec.method {
+        Method::TwoForms {
+            acid_form,
+            base_form,
+        }
+        | Method::TwoStocks {
+            acid_form,
+            base_form,
+            ..
+        } => {
+            let a = form_info(sys, acid_form, "method.acid_form")?;
+            let b = form_info(sys, base_form, "method.base_form")?;
+            if check && !(-1e-9..=1.0 + 1e-9).contains(&x) {
+                let side = if x < 0.0 {
+                    "below what the acid form alone gives"
+                } else {
+                    "above what the base form alone gives"
+                };
+                return Err(SolverError::Infeasible {
+                    field: "target_ph".into(),
+                    reason: format!(
+                        "the target pH is {side}; choose a more {} pair of forms",
+                        if x < 0.0 { "acidic" } else { "basic" }
+                    ),
+                });
+            }
+            let x = x.clamp(0.0, 1.0);
+            let na = (1.0 - x) * c * a.per_unit;
+            let nb = x * c * b.per_unit;
+            mix.components.push(ComponentSpec {
+                system: sys.id.clone(),
+                form: Some(a.form.id.clone()),
+                conc_m: na,
+            });
+            mix.components.push(ComponentSpec {
+                system: sys.id.clone(),
+                form: Some(b.form.id.clone()),
+                conc_m: nb,
+            });
+            if let Method::TwoStocks {
+                acid_stock_m,
+                base_stock_m,
+                ..
+            } = &spec.method
+            {
+                let ia = pour(&a.form.formula, &a.form.name, na * v, *acid_stock_m);
+                let ib = pour(&b.form.formula, &b.form.name, nb * v, *base_stock_m);
+                let total_ml = ia.ml.unwrap_or(0.0) + ib.ml.unwrap_or(0.0);
+                if check && total_ml > v * 1000.0 * (1.0 + 1e-9) {
+                    return Err(SolverError::Infeasible {
+                        field: "method.acid_stock_m".into(),
+                        reason: format!(
+                            "the stocks are too dilute: they would need {total_ml:.1} mL for a {:.1} mL batch",
+                            v * 1000.0
+                        ),
+                    });
+                }
+                ing.push(ia);
+                ing.push(ib);
+            } else {
+                ing.push(weigh(a.form, na * v)?);
+                ing.push(weigh(b.form, nb * v)?);
+            }
+        }
+        Method::Titrate {
+            form,
+            titrant,
+            titrant_m,
+        } => {
+            let f = form_info(sys, form, "method.form")?;
+            let nf = c * f.per_unit;
+            mix.components.push(ComponentSpec {
+                system: sys.id.clone(),
+                form: Some(f.form.id.clone()),
+                conc_m: nf,
+            });
+            if check && x < -1e-12 {
+                let other = if titrant.charge() > 0.0 {
+                    "a strong acid (HCl)"
+                } else {
+                    "a strong base (NaOH or KOH)"
+                };
+                return Err(SolverError::Infeasible {
+                    field: "method.titrant".into(),
+                    reason: format!(
+                        "this form needs {other} to reach the target, not {}",
+                        titrant.formula()
+                    ),
+                });
+            }
+            let x = x.max(0.0);
+            mix.additives.push(AdditiveSpec {
+                additive: *titrant,
+                conc_m: x,
+            });
+            ing.push(weigh(f.form, nf * v)?);
+            let t = pour(titrant.formula(), titrant_name(*titrant), x * v, *titrant_m);
+            if check && t.ml.unwrap_or(0.0) > v * 1000.0 {
+                return Err(SolverError::Infeasible {
+                    field: "method.titrant_m".into(),
+                    reason: "the titrant is too dilute: it would need more than the final volume"
+                        .into(),
+                });
+            }
+            ing.push(t);
+        }
+    }
+    if let Some(s) = &spec.salt {
+        if s.conc_m > 0.0 {
+            let mm = molar_mass(s.additive.formula())?;
+            ing.push(Ingredient {
+                formula: s.additive.formula().into(),
+                name: titrant_name(s.additive).into(),
+                mol: s.conc_m * v,
+                molar_mass: Some(mm),
+                grams: Some(s.conc_m * v * mm),
+                ml: None,
+                stock_m: None,
+            });
+        }
+    }
+    Ok((mix, ing))
+}
+
+fn titrant_name(a: Additive) -> &'static str {
+    match a {
+        Additive::Hcl => "hydrochloric acid",
+        Additive::Naoh => "sodium hydroxide",
+        Additive::Koh => "potassium hydroxide",
+        Additive::Nacl => "sodium chloride",
+        Additive::Kcl => "potassium chloride",
+    }
+}
+
+fn setup(spec: &RecipeSpec, sys: &AcidSystem) -> Result<Setup> {
+    let c = spec.total_conc_m;
+    let mut base = MixtureSpec {
+        temperature_c: spec.temperature_c,
+        activity: spec.activity,
+        components: vec![],
+        additives: spec.salt.iter().copied().collect(),
+    };
+    let (dcharge, dz2) = match &spec.method {
+        Method::TwoForms {
+            acid_form,
+            base_form,
+        }
+        | Method::TwoStocks {
+            acid_form,
+            base_form,
+            ..
+        } => {
+            let a = form_info(sys, acid_form, "method.acid_form")?;
+            let b = form_info(sys, base_form, "method.base_form")?;
+            base.components.push(ComponentSpec {
+                system: sys.id.clone(),
+                form: Some(a.form.id.clone()),
+                conc_m: c * a.per_unit,
+            });
+            if (b.q - a.q).abs() < 1e-12 {
+                return Err(SolverError::Infeasible {
+                    field: "method.base_form".into(),
+                    reason: "the two forms carry the same protons; choose forms on either side of the target".into(),
+                });
+            }
+            (c * (b.q - a.q), c * (b.zz - a.zz))
+        }
+        Method::Titrate { form, titrant, .. } => {
+            let f = form_info(sys, form, "method.form")?;
+            base.components.push(ComponentSpec {
+                system: sys.id.clone(),
+                form: Some(f.form.id.clone()),
+                conc_m: c * f.per_unit,
+            });
+            (titrant.charge(), 1.0)
+        }
+    };
+    Ok(Setup {
+        base,
+        dcharge,
+        dz2,
+    })
+}
+
+/// Solve a recipe exactly, with the Henderson–Hasselbalch estimate beside it.
+///
+/// # Errors
+///
+/// Field-named validation errors; [`SolverError::Infeasible`] when the chosen
+/// reagents cannot reach the target (wrong side of the pair, wrong titrant,
+/// stocks too dilute).
+///
+/// # Example
+///
+/// ```
+/// use solver::recipe::{solve_recipe, RecipeSpec, Method};
+/// use solver::activity::ActivityModel;
+/// let spec = RecipeSpec {
+///     system: "phosphate".into(),
+///     target_ph: 7.4,
+///     temperature_c: 37.0,
+///     total_conc_m: 0.05,
+///     volume_l: 0.5,
+///     salt: None,
+///     activity: ActivityModel::Davies,
+///     method: Method::TwoForms {
+///         acid_form: "nah2po4_h2o".into(),
+///         base_form: "na2hpo4_7h2o".into(),
+///     },
+///     tolerance_ph: 0.05,
+/// };
+/// let r = solve_recipe(&spec, &[])?;
+/// assert!((r.equilibrium.ph - 7.4).abs() < 1e-6);
+/// let grams: f64 = r.ingredients.iter().filter_map(|i| i.grams).sum();
+/// assert!(grams > 1.0 && grams < 10.0);
+/// # Ok::<(), solver::SolverError>(())
+/// ```
+pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeResult> {
+    validate(spec)?;
+    let sys = lookup(&spec.system, custom)?;
+    let pks = system_pks(sys, spec.temperature_c)?;
+    let (k, pk) = nearest_step(sys, spec.target_ph, spec.temperature_c)?;
+    let st = setup(spec, sys)?;
+    let prepared = prepare(&st.base, custom)?;
+    let (x, _) = solve_addition(&prepared.composition, spec.target_ph, st.dcharge, st.dz2)?;
+    let (mixture, ingredients) = finish(spec, sys, x, true)?;
+    let p = prepare(&mixture, custom)?;
+    let eq = solve(&p.composition, spec.target_ph)?;
+    let tol = tolerance(&p, &eq, spec.tolerance_ph)?;
+
+    // Henderson–Hasselbalch: share f of level k, rest at k−1, spectator
+    // charge S = C (k − 1 + f − z₀); ideal, no water terms.
+    let r = 10f64.powf(spec.target_ph - pk);
+    let f = r / (1.0 + r);
+    let s_hh = spec.total_conc_m * (k as f64 - 1.0 + f - f64::from(sys.z0));
+    let x_hh = (s_hh - prepared.composition.spectator_charge) / st.dcharge;
+    let estimate = match finish(spec, sys, x_hh, true) {
+        Ok((mix_hh, ing_hh)) => {
+            let actual = prepare(&mix_hh, custom)
+                .and_then(|p| p.solve())
+                .ok()
+                .map(|e| e.ph);
+            Estimate {
+                pk,
+                base_fraction: f,
+                ingredients: ing_hh,
+                actual_ph: actual,
+            }
+        }
+        Err(_) => Estimate {
+            pk,
+            base_fraction: f,
+            ingredients: vec![],
+            actual_ph: None,
+        },
+    };
+
+    let mut warnings = Vec::new();
+    let nearest = pks
+        .iter()
+        .map(|p| (spec.target_ph - p).abs())
+        .fold(f64::INFINITY, f64::min);
+    if nearest > 1.0 {
+        warnings.push(RecipeWarning::FarFromPk {
+            distance: nearest,
+            pk,
+        });
+    }
+    if spec.activity == ActivityModel::Davies && eq.ionic_strength > DAVIES_LIMIT {
+        warnings.push(RecipeWarning::IonicStrengthBeyondModel {
+            ionic_strength: eq.ionic_strength,
+        });
+    }
+    if let Some(a) = estimate.actual_ph {
+        let d = a - spec.target_ph;
+        if d.abs() > 0.05 {
+            warnings.push(RecipeWarning::EstimateOff { difference: d });
+        }
+    }
+    let steps = steps_text(spec, &ingredients);
+    Ok(RecipeResult {
+        ingredients,
+        steps,
+        equilibrium: eq,
+        tolerance: tol,
+        pks,
+        step: k,
+        estimate,
+        warnings,
+        mixture,
+    })
+}
+
+/// Format a mass with sensible significant figures (g or mg).
+pub fn format_mass(g: f64) -> String {
+    if !g.is_finite() {
+        return "—".into();
+    }
+    if g.abs() < 1.0 {
+        format!("{} mg", sig(g * 1000.0, 4))
+    } else {
+        format!("{} g", sig(g, 4))
+    }
+}
+
+/// Format a volume (mL or µL) with sensible significant figures.
+pub fn format_volume_ml(ml: f64) -> String {
+    if !ml.is_finite() {
+        return "—".into();
+    }
+    if ml.abs() < 1.0 {
+        format!("{} µL", sig(ml * 1000.0, 3))
+    } else {
+        format!("{} mL", sig(ml, 4))
+    }
+}
+
+/// Round to `n` significant figures and print without exponent.
+pub fn sig(v: f64, n: i32) -> String {
+    if v == 0.0 || !v.is_finite() {
+        return "0".into();
+    }
+    let mag = v.abs().log10().floor() as i32;
+    let decimals = (n - 1 - mag).max(0) as usize;
+    format!("{v:.decimals$}")
+}
+
+fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
+    let v_ml = spec.volume_l * 1000.0;
+    let mut steps = Vec::new();
+    let mut pours = Vec::new();
+    for i in ing {
+        match (i.grams, i.ml) {
+            (Some(g), _) => steps.push(format!("Weigh {} of {} ({}).", format_mass(g), i.formula, i.name)),
+            (None, Some(ml)) => pours.push((i, ml)),
+            _ => {}
+        }
+    }
+    match &spec.method {
+        Method::TwoStocks { .. } => {
+            for (i, ml) in &pours {
+                steps.push(format!(
+                    "Measure {} of {} M {} stock.",
+                    format_volume_ml(*ml),
+                    sig(i.stock_m.unwrap_or(0.0), 3),
+                    i.formula
+                ));
+            }
+            steps.push(format!(
+                "Combine in a {} mL volumetric flask and make up to the mark with water at {} °C.",
+                sig(v_ml, 4),
+                sig(spec.temperature_c, 3)
+            ));
+        }
+        Method::Titrate { .. } => {
+            steps.push(format!(
+                "Dissolve in about {} mL of water.",
+                sig(v_ml * 0.8, 3)
+            ));
+            for (i, ml) in &pours {
+                steps.push(format!(
+                    "Add {} of {} M {} while stirring (predicted); confirm with a calibrated pH meter at {} °C.",
+                    format_volume_ml(*ml),
+                    sig(i.stock_m.unwrap_or(0.0), 3),
+                    i.formula,
+                    sig(spec.temperature_c, 3)
+                ));
+            }
+            steps.push(format!("Make up to {} mL with water.", sig(v_ml, 4)));
+        }
+        Method::TwoForms { .. } => {
+            steps.push(format!(
+                "Dissolve in about {} mL of water, then make up to {} mL at {} °C.",
+                sig(v_ml * 0.8, 3),
+                sig(v_ml, 4),
+                sig(spec.temperature_c, 3)
+            ));
+        }
+    }
+    steps.push(format!(
+        "Check: pH {} at {} °C.",
+        sig_fixed(spec.target_ph, 2),
+        sig(spec.temperature_c, 3)
+    ));
+    steps
+}
+
+fn sig_fixed(v: f64, d: usize) -> String {
+    format!("{v:.d$}")
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn sig_figs() {
+        assert_eq!(sig(3.45678, 4), "3.457");
+        assert_eq!(sig(123.456, 4), "123.5");
+        assert_eq!(sig(0.012345, 3), "0.0123");
+        assert_eq!(format_mass(0.5), "500.0 mg");
+    }
+}

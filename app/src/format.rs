@@ -1,0 +1,1 @@
+//! Number parsing and display helpers for inputs (being written).

@@ -1,0 +1,1 @@
+//! Validated input widgets (being written).

@@ -1,0 +1,1 @@
+//! Canvas plots of species, capacity and titration (being written).

@@ -1,0 +1,1 @@
+//! Share links: a design in the URL fragment (being written).

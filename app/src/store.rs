@@ -1,0 +1,1 @@
+//! Saved designs in browser local storage (being written).

@@ -385,4 +385,130 @@ mod tests {
         assert!((f(PkFormula::HypochlorousMorris) - 7.537).abs() < 2e-3);
         assert!((f(PkFormula::SulfideMillero) - 6.98).abs() < 0.02);
     }
+
+    fn user_system() -> AcidSystem {
+        use crate::system::{Ion, ReagentForm};
+        AcidSystem {
+            id: "user".into(),
+            name: "User acid".into(),
+            z0: 0,
+            steps: vec![vh(4.0, 1.0, -100.0), constant(6.0)],
+            species: vec!["H₂A".into(), "HA⁻".into(), "A²⁻".into()],
+            t_min_c: 5.0,
+            t_max_c: 40.0,
+            forms: vec![ReagentForm {
+                id: "na2a".into(),
+                name: "disodium salt".into(),
+                formula: "C4H4Na2O4".into(),
+                units: 1.0,
+                counter_ions: vec![(Ion::Na, 2.0)],
+            }],
+            source: "user".into(),
+            hazards: vec![],
+        }
+    }
+
+    fn constant(pk25: f64) -> Step {
+        Step {
+            pk25,
+            temp: TempModel::Constant,
+        }
+    }
+
+    fn field_of(e: SolverError) -> String {
+        match e {
+            SolverError::NotFinite { field }
+            | SolverError::OutOfRange { field, .. }
+            | SolverError::Document { field, .. } => field,
+            other => panic!("unexpected {other:?}"),
+        }
+    }
+
+    #[test]
+    fn validate_accepts_a_sane_user_system() {
+        validate_system(&user_system()).unwrap();
+    }
+
+    #[test]
+    fn validate_names_the_field() {
+        let check = |edit: &dyn Fn(&mut AcidSystem), want: &str| {
+            let mut s = user_system();
+            edit(&mut s);
+            let e = validate_system(&s).expect_err(want);
+            assert_eq!(field_of(e), want);
+        };
+        check(&|s| s.steps[1].pk25 = 3.0, "system.steps[1].pk25");
+        check(&|s| s.steps[1].pk25 = f64::NAN, "system.steps[1].pk25");
+        check(&|s| s.steps[0].pk25 = 25.0, "system.steps[0].pk25");
+        check(&|s| s.steps.clear(), "system.steps");
+        check(&|s| s.steps = vec![constant(1.0); 7], "system.steps");
+        check(
+            &|s| {
+                s.species.pop();
+            },
+            "system.species",
+        );
+        check(&|s| s.species[1] = " ".into(), "system.species[1]");
+        check(&|s| s.z0 = 9, "system.z0");
+        check(&|s| s.t_min_c = -5.0, "system.t_min_c");
+        check(&|s| s.t_max_c = 80.0, "system.t_max_c");
+        check(&|s| s.t_max_c = 5.0, "system.t_max_c");
+        check(&|s| s.t_max_c = f64::INFINITY, "system.t_max_c");
+        check(
+            &|s| s.steps[0] = vh(4.0, f64::NAN, 0.0),
+            "system.steps[0].dh_kj",
+        );
+        check(&|s| s.steps[0] = vh(4.0, 1.0, 1e6), "system.steps[0].dcp_j");
+        check(
+            &|s| s.forms[0].formula = "Na2Xq".into(),
+            "system.forms[0].formula",
+        );
+        check(&|s| s.forms[0].units = 0.0, "system.forms[0].units");
+        check(&|s| s.forms[0].units = f64::NAN, "system.forms[0].units");
+        check(
+            &|s| s.forms[0].counter_ions[0].1 = -1.0,
+            "system.forms[0].counter_ions[0]",
+        );
+        check(&|s| s.forms[0].id = String::new(), "system.forms[0].id");
+        check(
+            &|s| {
+                let f = s.forms[0].clone();
+                s.forms.push(f);
+            },
+            "system.forms[1].id",
+        );
+        check(&|s| s.id = String::new(), "system.id");
+    }
+
+    #[test]
+    fn validate_formula_steps_against_their_range_and_value() {
+        let mut s = user_system();
+        s.steps = vec![Step {
+            pk25: PkFormula::HypochlorousMorris.pk_at_kelvin(THETA),
+            temp: TempModel::Formula {
+                formula: PkFormula::HypochlorousMorris,
+            },
+        }];
+        s.species.truncate(2);
+        s.t_min_c = 5.0;
+        s.t_max_c = 35.0;
+        validate_system(&s).unwrap();
+        s.t_max_c = 40.0; // beyond Morris' 5–35 °C
+        assert_eq!(field_of(validate_system(&s).unwrap_err()), "system.t_max_c");
+        s.t_max_c = 35.0;
+        s.steps[0].pk25 = 7.6; // disagrees with the formula at 25 °C
+        assert_eq!(
+            field_of(validate_system(&s).unwrap_err()),
+            "system.steps[0].pk25"
+        );
+    }
+
+    #[test]
+    fn system_pks_refuses_out_of_range_and_nan() {
+        let s = user_system();
+        assert!(system_pks(&s, 25.0).is_ok());
+        for t in [4.9, 40.1, f64::NAN] {
+            assert_eq!(field_of(system_pks(&s, t).unwrap_err()), "temperature_c");
+        }
+    }
 }

@@ -22,7 +22,7 @@ test('embed sample page shows the app in embed mode', async (t) => {
     const marked = await frame.evaluate(() => !!document.querySelector('[data-testid="embed-mode"]'));
     if (!marked) {
       const reason = 'app has no [data-testid="embed-mode"] yet: embed mode not implemented in the UI';
-      console.log(`# SKIP reason: ${reason}`);
+      console.log(`skip reason: ${reason}`);
       t.skip(reason);
       return;
     }
@@ -30,6 +30,7 @@ test('embed sample page shows the app in embed mode', async (t) => {
       () => document.querySelector('[data-testid="embed-mode"]').getAttribute('data-workspace') || '',
     );
     t.diagnostic(`embed workspace attribute: '${ws}'`);
+    assert.equal(ws, 'field', 'ws=field opens the field workspace');
   } finally {
     await s.close();
     await srv.close();

@@ -57,9 +57,15 @@ export async function openSession({ allowedOrigin, view = 'desktop', contextOpti
     // Requests cut on purpose while offline are reported by the offline test itself.
     if (!session.offline) failedRequests.push(`${req.url()} (${req.failure()?.errorText})`);
   });
+  context.on('response', (resp) => {
+    if (resp.status() >= 400) failedRequests.push(`${resp.url()} (HTTP ${resp.status()})`);
+  });
   const watch = (page) => {
     page.on('console', (msg) => {
-      if (msg.type() === 'error') consoleErrors.push(`console.error: ${msg.text()}`);
+      if (msg.type() === 'error') {
+        const at = msg.location()?.url ? ` [${msg.location().url}]` : '';
+        consoleErrors.push(`console.error: ${msg.text()}${at}`);
+      }
     });
     page.on('pageerror', (err) => consoleErrors.push(`uncaught: ${err.message}`));
   };
@@ -120,9 +126,12 @@ export async function waitForApp(page, { timeout = 30_000 } = {}) {
   }));
 }
 
-/** True when the real UI (not the skeleton placeholder) is present. */
+/**
+ * True when the real UI (not the skeleton placeholder) is present: the root element holds at
+ * least one data-testid hook. Until then plot checks are skipped with a printed reason.
+ */
 export async function uiLanded(page) {
-  return page.evaluate(() => !!document.querySelector('#app-root'));
+  return page.evaluate(() => !!document.querySelector('#app-root [data-testid]'));
 }
 
 /**

@@ -39,7 +39,7 @@ test('single-file build works from file://', async (t) => {
       assert.ok(plots.length >= 1, `expected a visible ${HOOKS.plot}`);
       assertCanvasSharpAndDrawn(plots);
     } else {
-      console.log(`# SKIP reason: no ${HOOKS.root} yet (placeholder build); plot checks not run`);
+      console.log(`skip reason: no [data-testid] inside ${HOOKS.root} yet (skeleton UI); plot checks not run`);
     }
   } finally {
     await s.close();

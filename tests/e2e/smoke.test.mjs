@@ -38,8 +38,8 @@ for (const view of ['tablet', 'desktop']) {
       s.assertClean(view);
 
       if (!(await uiLanded(page))) {
-        t.skip(`UI hooks not present yet: no ${HOOKS.root} in the page (placeholder build); canvas checks skipped`);
-        console.log(`# SKIP reason: no ${HOOKS.root} element yet, so plot checks were not run`);
+        t.skip(`UI hooks not present yet: no [data-testid] inside ${HOOKS.root} yet (skeleton UI); canvas checks skipped`);
+        console.log(`skip reason: no [data-testid] inside ${HOOKS.root} yet, so plot checks were not run`);
         return;
       }
       const plots = await canvasFacts(page, HOOKS.plot);

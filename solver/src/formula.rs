@@ -4,7 +4,7 @@
 //!
 //! ```text
 //! formula := part ( sep part )*
-//! sep     := '·' | '.' | '•' | '*'
+//! sep     := '·' | '⋅' | '•' | '.' | '*'
 //! part    := [coefficient] item+          coefficient: 2, 10, 1.5, 0.5
 //! item    := element [count] | '(' item+ ')' [count] | '[' item+ ']' [count]
 //! element := uppercase letter [lowercase letter]

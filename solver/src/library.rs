@@ -921,4 +921,21 @@ mod tests {
             .hazards
             .contains(&Hazard::Corrosive));
     }
+
+    #[test]
+    fn pks_stay_finite_and_ordered_over_each_range() {
+        for s in library() {
+            let n = ((s.t_max_c - s.t_min_c) * 2.0).round() as i32;
+            for k in 0..=n {
+                let t = (s.t_min_c + f64::from(k) * 0.5).min(s.t_max_c);
+                let pk = system_pks(s, t).unwrap();
+                assert!(pk.iter().all(|p| p.is_finite()), "{} at {t}", s.id);
+                assert!(
+                    pk.windows(2).all(|w| w[0] < w[1]),
+                    "{} at {t}: {pk:?}",
+                    s.id
+                );
+            }
+        }
+    }
 }

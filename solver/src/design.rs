@@ -10,8 +10,8 @@ use crate::field::{field_reading, FieldResult, FieldSpec, IonicSource, TotalUnit
 use crate::library::find_form;
 use crate::mixture::{
     lookup, prepare, solve_mixture, species_curves, titration_curve, what_if, Additive,
-    AdditiveSpec, ComponentSpec, MixtureResult, MixtureSpec, SpeciesCurves, TitrationCurve,
-    WhatIf, WhatIfResult,
+    AdditiveSpec, ComponentSpec, MixtureResult, MixtureSpec, SpeciesCurves, TitrationCurve, WhatIf,
+    WhatIfResult,
 };
 use crate::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
 use crate::system::AcidSystem;
@@ -97,9 +97,7 @@ fn migrate(mut value: serde_json::Value) -> Result<serde_json::Value> {
     if version == 0 || version > u64::from(SCHEMA_VERSION) {
         return Err(doc_err(
             "schema",
-            format!(
-                "version {version} is not supported (this page reads 1 to {SCHEMA_VERSION})"
-            ),
+            format!("version {version} is not supported (this page reads 1 to {SCHEMA_VERSION})"),
         ));
     }
     if let Some(obj) = value.as_object_mut() {

@@ -157,8 +157,8 @@ struct Eval {
 
 #[inline]
 fn evaluate(c: &Composition, ph: f64, g1: f64) -> Eval {
-    let a_h = 10f64.powf(-ph);
-    let inv_h = 1.0 / a_h;
+    let inv_h = (ph * LN10).exp();
+    let a_h = 1.0 / inv_h;
     let h = a_h / g1;
     let oh = c.kw * inv_h / g1;
     let mut f = h - oh + c.spectator_charge;
@@ -247,6 +247,18 @@ fn check(c: &Composition) -> Result<()> {
 
 /// Solve the charge balance at a fixed γ₁: safeguarded Newton in a bracket.
 fn solve_fixed_gamma(c: &Composition, g1: f64, guess: f64, evals: &mut u32) -> Result<Eval> {
+    // Warm start: Newton inside the default bracket without evaluating its
+    // ends. F is strictly decreasing, so if the root lies inside, bisection on
+    // the assumed signs is valid; if the iterate ends on an edge the root is
+    // outside and the checked search below takes over.
+    if guess.is_finite() && guess > PH_LO && guess < PH_HI {
+        if let Ok(e) = newton(c, g1, guess, PH_LO, PH_HI, evals) {
+            let ph = -(e.h * g1).log10();
+            if ph > PH_LO + 1e-6 && ph < PH_HI - 1e-6 {
+                return Ok(e);
+            }
+        }
+    }
     let mut lo = PH_LO;
     let mut hi = PH_HI;
     // Widen the bracket for extreme (very concentrated) inputs.
@@ -267,16 +279,22 @@ fn solve_fixed_gamma(c: &Composition, g1: f64, guess: f64, evals: &mut u32) -> R
     if !(e_lo.f >= 0.0 && e_hi.f <= 0.0) {
         return Err(SolverError::NoBracket { lo, hi });
     }
-    let mut x = if guess.is_finite() && guess > lo && guess < hi {
+    let x = if guess.is_finite() && guess > lo && guess < hi {
         guess
     } else {
         0.5 * (lo + hi)
     };
-    let mut last = e_lo;
+    newton(c, g1, x, lo, hi, evals)
+}
+
+/// Safeguarded Newton iteration on F(pH) inside `[lo, hi]`, F(lo) ≥ 0 ≥ F(hi).
+fn newton(c: &Composition, g1: f64, x0: f64, lo: f64, hi: f64, evals: &mut u32) -> Result<Eval> {
+    let (mut lo, mut hi, mut x) = (lo, hi, x0);
+    let mut last_f = f64::NAN;
     for _ in 0..200 {
         let e = evaluate(c, x, g1);
         *evals += 1;
-        last = e;
+        last_f = e.f;
         if e.f == 0.0 {
             return Ok(e);
         }
@@ -299,7 +317,7 @@ fn solve_fixed_gamma(c: &Composition, g1: f64, guess: f64, evals: &mut u32) -> R
     }
     Err(SolverError::NoConvergence {
         iterations: 200,
-        residual: last.f,
+        residual: last_f,
     })
 }
 
@@ -388,6 +406,23 @@ pub fn solve(c: &Composition, guess: f64) -> Result<Equilibrium> {
     })
 }
 
+/// Solve the charge balance with the ionic strength held at `ionic_strength`
+/// (activity coefficients frozen). Returns the pH.
+///
+/// Used to check [`Equilibrium::capacity`], which is defined at fixed ionic
+/// strength, against a finite difference.
+///
+/// # Errors
+///
+/// As [`solve`].
+pub fn solve_at_ionic_strength(c: &Composition, ionic_strength: f64, guess: f64) -> Result<f64> {
+    check(c)?;
+    let g1 = gamma1(c.activity, c.a_dh, ionic_strength);
+    let mut evals = 0;
+    let e = solve_fixed_gamma(c, g1, guess, &mut evals)?;
+    Ok(phx(c, &e, g1))
+}
+
 /// Recover the pH of an evaluation from [H⁺] and γ₁.
 fn phx(_c: &Composition, e: &Eval, g1: f64) -> f64 {
     -(e.h * g1).log10()
@@ -401,10 +436,7 @@ fn phx(_c: &Composition, e: &Eval, g1: f64) -> f64 {
 pub fn required_spectator_charge(c: &Composition, ph: f64, ionic_strength: f64) -> (f64, f64) {
     let g1 = gamma1(c.activity, c.a_dh, ionic_strength);
     let e = evaluate(c, ph, g1);
-    (
-        -(e.f - c.spectator_charge),
-        e.ionic - 0.5 * c.spectator_z2,
-    )
+    (-(e.f - c.spectator_charge), e.ionic - 0.5 * c.spectator_z2)
 }
 
 /// Solve for the amount `x` (mol/L) of an addition that changes the spectator
@@ -436,7 +468,8 @@ pub fn solve_addition(c: &Composition, ph: f64, dcharge: f64, dz2: f64) -> Resul
         let (need, i_rest) = required_spectator_charge(c, ph, ionic);
         let new_x = (need - c.spectator_charge) / dcharge;
         let new_i = (i_rest + 0.5 * (c.spectator_z2 + dz2 * new_x)).max(0.0);
-        let done = (new_i - ionic).abs() <= 1e-13 + 1e-10 * ionic && (new_x - x).abs() <= 1e-15 + 1e-10 * x.abs();
+        let done = (new_i - ionic).abs() <= 1e-13 + 1e-10 * ionic
+            && (new_x - x).abs() <= 1e-15 + 1e-10 * x.abs();
         x = new_x;
         ionic = new_i;
         if done || c.activity == ActivityModel::Ideal {
@@ -451,12 +484,7 @@ pub fn solve_addition(c: &Composition, ph: f64, dcharge: f64, dz2: f64) -> Resul
 
 /// Species fractions of one acid at a pH and ionic strength, written into `out`
 /// (most protonated first). Returns the number of species written.
-pub fn fractions_into(
-    acid: &Acid,
-    ph: f64,
-    g1: f64,
-    out: &mut [f64; MAX_STEPS + 1],
-) -> usize {
+pub fn fractions_into(acid: &Acid, ph: f64, g1: f64, out: &mut [f64; MAX_STEPS + 1]) -> usize {
     let inv_h = 10f64.powf(ph);
     let mut term = 1.0;
     let mut terms = [0.0; MAX_STEPS + 1];
@@ -556,7 +584,8 @@ mod tests {
     #[test]
     fn addition_inverts_solve() {
         let mut c = water(ActivityModel::Davies);
-        c.acids.push(Acid::from_pks(0, &[2.148, 7.198, 12.35], 0.05));
+        c.acids
+            .push(Acid::from_pks(0, &[2.148, 7.198, 12.35], 0.05));
         let (x, _) = solve_addition(&c, 7.4, 1.0, 1.0).unwrap();
         c.spectator_charge += x;
         c.spectator_z2 += x;
@@ -571,9 +600,6 @@ mod tests {
         assert!(solve(&c, 7.0).is_err());
         let mut c = water(ActivityModel::Davies);
         c.acids.push(Acid::from_pks(0, &[4.0], -1.0));
-        assert!(matches!(
-            solve(&c, 7.0),
-            Err(SolverError::Negative { .. })
-        ));
+        assert!(matches!(solve(&c, 7.0), Err(SolverError::Negative { .. })));
     }
 }

@@ -92,7 +92,10 @@ impl fmt::Display for SolverError {
             } => write!(f, "{field}: {value} is outside {min} to {max}"),
             Self::Unknown { kind, name } => write!(f, "unknown {kind} \"{name}\""),
             Self::BadFormula { formula, position } => {
-                write!(f, "cannot read formula \"{formula}\" at position {position}")
+                write!(
+                    f,
+                    "cannot read formula \"{formula}\" at position {position}"
+                )
             }
             Self::NoBracket { lo, hi } => {
                 write!(f, "no charge-balance root between pH {lo} and {hi}")

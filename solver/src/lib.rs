@@ -1,17 +1,17 @@
 //! Bufferwright solver: exact acid–base equilibrium for buffer design.
 #![forbid(unsafe_code)]
 
-pub mod error;
 pub mod activity;
+pub mod design;
 pub mod equilibrium;
-pub mod system;
+pub mod error;
+pub mod field;
 pub mod formula;
-pub mod water;
-pub mod thermo;
 pub mod library;
 pub mod mixture;
 pub mod recipe;
-pub mod field;
-pub mod design;
+pub mod system;
+pub mod thermo;
+pub mod water;
 
 pub use error::{Result, SolverError};

@@ -224,8 +224,16 @@ pub fn prepare(spec: &MixtureSpec, custom: &[AcidSystem]) -> Result<Prepared> {
                 form.units
             }
         };
-        acids.push(Acid::from_pks(sys.z0, &pks, units * conc));
-        systems.push(sys.clone());
+        // Several forms of one system are one system in solution.
+        if let Some(pos) = systems.iter().position(|s: &AcidSystem| s.id == sys.id) {
+            if let Some(a) = acids.get_mut(pos) {
+                let a: &mut Acid = a;
+                a.total += units * conc;
+            }
+        } else {
+            acids.push(Acid::from_pks(sys.z0, &pks, units * conc));
+            systems.push(sys.clone());
+        }
     }
     for (i, add) in spec.additives.iter().enumerate() {
         let conc = non_negative(&format!("additives[{i}].conc_m"), add.conc_m)?;
@@ -304,12 +312,7 @@ impl Prepared {
                 system: sys.id.clone(),
                 name: sys.name.clone(),
                 total: acid.total,
-                pks: acid
-                    .ka
-                    .iter()
-                    .take(acid.n)
-                    .map(|k| -k.log10())
-                    .collect(),
+                pks: acid.ka.iter().take(acid.n).map(|k| -k.log10()).collect(),
                 species,
             });
         }

@@ -545,11 +545,7 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem) -> Result<Setup> {
             (titrant.charge(), 1.0)
         }
     };
-    Ok(Setup {
-        base,
-        dcharge,
-        dz2,
-    })
+    Ok(Setup { base, dcharge, dz2 })
 }
 
 /// Solve a recipe exactly, with the Henderson–Hasselbalch estimate beside it.
@@ -701,7 +697,12 @@ fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
     let mut pours = Vec::new();
     for i in ing {
         match (i.grams, i.ml) {
-            (Some(g), _) => steps.push(format!("Weigh {} of {} ({}).", format_mass(g), i.formula, i.name)),
+            (Some(g), _) => steps.push(format!(
+                "Weigh {} of {} ({}).",
+                format_mass(g),
+                i.formula,
+                i.name
+            )),
             (None, Some(ml)) => pours.push((i, ml)),
             _ => {}
         }

@@ -1,2 +1,175 @@
-//! Command-line entry: reads a design document and prints the result.
-fn main() {}
+//! Command-line entry: reads a design document (file or stdin) and prints the full result.
+//!
+//! ```text
+//! bufferwright [--table] [--demo] [FILE|-]
+//! ```
+//!
+//! Prints JSON by default (every part of the design: recipe, mixture,
+//! what-if, field reading, curves); `--table` prints a readable summary.
+//! `--demo` prints the demo design document instead of reading one.
+//! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
+
+use solver::design::{demo_design, parse_design, report, to_json_pretty, Report};
+use solver::recipe::{format_mass, format_volume_ml, sig};
+use std::io::Read;
+use std::process::ExitCode;
+
+const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]";
+
+fn main() -> ExitCode {
+    let mut table = false;
+    let mut demo = false;
+    let mut path: Option<String> = None;
+    for arg in std::env::args().skip(1) {
+        match arg.as_str() {
+            "--table" => table = true,
+            "--demo" => demo = true,
+            "-h" | "--help" => {
+                println!("{USAGE}");
+                return ExitCode::SUCCESS;
+            }
+            a if a.starts_with("--") => {
+                eprintln!("unknown option {a}\n{USAGE}");
+                return ExitCode::from(2);
+            }
+            a => {
+                if path.is_some() {
+                    eprintln!("only one document at a time\n{USAGE}");
+                    return ExitCode::from(2);
+                }
+                path = Some(a.to_string());
+            }
+        }
+    }
+    if demo {
+        println!("{}", to_json_pretty(&demo_design()));
+        return ExitCode::SUCCESS;
+    }
+    let text = match path.as_deref() {
+        None | Some("-") => {
+            let mut s = String::new();
+            if let Err(e) = std::io::stdin().read_to_string(&mut s) {
+                eprintln!("cannot read stdin: {e}");
+                return ExitCode::from(1);
+            }
+            s
+        }
+        Some(p) => match std::fs::read_to_string(p) {
+            Ok(s) => s,
+            Err(e) => {
+                eprintln!("cannot read {p}: {e}");
+                return ExitCode::from(1);
+            }
+        },
+    };
+    let design = match parse_design(&text) {
+        Ok(d) => d,
+        Err(e) => {
+            eprintln!("invalid design: {e}");
+            return ExitCode::from(1);
+        }
+    };
+    let rep = report(&design);
+    if table {
+        print!("{}", render_table(&rep));
+    } else {
+        match serde_json::to_string_pretty(&rep) {
+            Ok(s) => println!("{s}"),
+            Err(e) => {
+                eprintln!("cannot serialise result: {e}");
+                return ExitCode::from(1);
+            }
+        }
+    }
+    ExitCode::SUCCESS
+}
+
+fn render_table(r: &Report) -> String {
+    let mut out = format!("Design: {}\n\n", r.name);
+    out.push_str("== Recipe\n");
+    match &r.recipe {
+        Ok(rec) => {
+            for i in &rec.ingredients {
+                let amount = match (i.grams, i.ml) {
+                    (Some(g), _) => format_mass(g),
+                    (None, Some(ml)) => format_volume_ml(ml),
+                    _ => String::new(),
+                };
+                out.push_str(&format!(
+                    "  {:<28} {:>12}   {}\n",
+                    i.formula, amount, i.name
+                ));
+            }
+            out.push_str(&format!(
+                "  pH (exact)        {:.3}\n  ionic strength    {} M\n  capacity          {} mM/pH\n",
+                rec.equilibrium.ph,
+                sig(rec.equilibrium.ionic_strength, 3),
+                sig(rec.equilibrium.capacity * 1000.0, 3)
+            ));
+            if let Some(a) = rec.estimate.actual_ph {
+                out.push_str(&format!(
+                    "  HH estimate gives pH {:.3} (off by {:+.3})\n",
+                    a,
+                    a - rec.equilibrium.ph
+                ));
+            }
+            out.push_str(&format!(
+                "  tolerance ±{}: {} mmol/L acid, {} mmol/L base\n",
+                rec.tolerance.window,
+                sig(rec.tolerance.acid_mmol_per_l, 3),
+                sig(rec.tolerance.base_mmol_per_l, 3)
+            ));
+            for (n, s) in rec.steps.iter().enumerate() {
+                out.push_str(&format!("  {}. {}\n", n + 1, s));
+            }
+        }
+        Err(e) => out.push_str(&format!("  error: {e}\n")),
+    }
+    out.push_str("\n== Mixture\n");
+    match &r.mixture {
+        Ok(m) => {
+            out.push_str(&format!(
+                "  pH {:.3}   I = {} M\n",
+                m.equilibrium.ph,
+                sig(m.equilibrium.ionic_strength, 3)
+            ));
+            for s in &m.systems {
+                for sp in &s.species {
+                    out.push_str(&format!(
+                        "  {:<14} {:<12} {:>12} M  {:>7.3} %\n",
+                        s.name,
+                        sp.name,
+                        sig(sp.conc, 4),
+                        sp.fraction * 100.0
+                    ));
+                }
+            }
+        }
+        Err(e) => out.push_str(&format!("  error: {e}\n")),
+    }
+    if let Ok(w) = &r.what_if {
+        out.push_str(&format!(
+            "  what-if: diluted {:.3}, +acid {:.3}, +base {:.3}, other temperature {:.3}\n",
+            w.diluted_ph, w.after_acid_ph, w.after_base_ph, w.at_temperature_ph
+        ));
+    }
+    out.push_str("\n== Field reading\n");
+    match &r.field {
+        Ok(f) => {
+            for sp in &f.species {
+                let conc = sp
+                    .mg_l_as
+                    .map(|v| format!("{} mg/L as {}", sig(v, 3), f.basis))
+                    .unwrap_or_default();
+                out.push_str(&format!(
+                    "  {:<12} {:>8.3} %  {}\n",
+                    sp.name,
+                    sp.fraction * 100.0,
+                    conc
+                ));
+            }
+        }
+        Err(e) => out.push_str(&format!("  error: {e}\n")),
+    }
+    out
+}

@@ -380,3 +380,58 @@ pub fn report(d: &Design) -> Report {
         titration: titration.map_err(s),
     }
 }
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn demo_round_trips_and_reports() {
+        let d = demo_design();
+        assert_eq!(parse_design(&to_json_pretty(&d)).unwrap(), d);
+        let r = report(&d);
+        assert!(r.recipe.is_ok() && r.mixture.is_ok() && r.field.is_ok());
+        assert!(r.what_if.is_ok() && r.curves.is_ok() && r.titration.is_ok());
+    }
+
+    #[test]
+    fn future_and_missing_schema_are_refused() {
+        let j = to_json(&demo_design());
+        let future = j.replace("\"schema\":1", "\"schema\":99");
+        let e = parse_design(&future).unwrap_err().to_string();
+        assert!(e.starts_with("schema"), "{e}");
+        let missing = j.replace("\"schema\":1,", "");
+        assert!(parse_design(&missing)
+            .unwrap_err()
+            .to_string()
+            .starts_with("schema"));
+    }
+
+    #[test]
+    fn type_errors_name_the_path() {
+        let j = to_json(&demo_design()).replace("\"volume_l\":0.5", "\"volume_l\":\"half\"");
+        let e = parse_design(&j).unwrap_err().to_string();
+        assert!(e.contains("recipe.volume_l"), "{e}");
+    }
+
+    #[test]
+    fn unknown_form_is_named() {
+        let j = to_json(&demo_design()).replace("na2hpo4_7h2o", "unobtainium");
+        let e = parse_design(&j).unwrap_err().to_string();
+        assert!(
+            e.contains("unobtainium") && e.contains("recipe.method"),
+            "{e}"
+        );
+    }
+
+    #[test]
+    fn negative_mixture_amount_is_named() {
+        let mut d = demo_design();
+        if let Some(c) = d.mixture.components.first_mut() {
+            c.conc_m = -1.0;
+        }
+        let e = parse_design(&to_json(&d)).unwrap_err().to_string();
+        assert!(e.contains("mixture.components[0].conc_m"), "{e}");
+    }
+}

@@ -1,0 +1,78 @@
+//! The command-line entry answers design documents for each recipe method and a mixture.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
+
+use std::io::Write;
+use std::process::{Command, Stdio};
+
+fn run(args: &[&str], stdin: Option<&str>) -> (i32, String, String) {
+    let mut child = Command::new(env!("CARGO_BIN_EXE_bufferwright"))
+        .args(args)
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    if let Some(s) = stdin {
+        child.stdin.take().unwrap().write_all(s.as_bytes()).unwrap();
+    } else {
+        drop(child.stdin.take());
+    }
+    let out = child.wait_with_output().unwrap();
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into_owned(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+fn example(name: &str) -> String {
+    format!("{}/examples/{name}", env!("CARGO_MANIFEST_DIR"))
+}
+
+#[test]
+fn each_method_example_gives_a_recipe_at_target() {
+    for (file, target) in [
+        ("two-forms.json", 7.4),
+        ("titrate.json", 8.0),
+        ("two-stocks.json", 4.8),
+    ] {
+        let (code, out, err) = run(&[&example(file)], None);
+        assert_eq!(code, 0, "{file}: {err}");
+        let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+        let ph = v["recipe"]["Ok"]["equilibrium"]["ph"].as_f64().unwrap();
+        assert!((ph - target).abs() < 1e-6, "{file}: {ph}");
+        assert!(v["mixture"]["Ok"]["equilibrium"]["ph"].as_f64().is_some());
+        assert!(v["field"]["Ok"]["species"].as_array().unwrap().len() == 2);
+    }
+}
+
+#[test]
+fn table_output_from_stdin() {
+    let (_, demo, _) = run(&["--demo"], None);
+    let (code, out, err) = run(&["--table", "-"], Some(&demo));
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("== Recipe") && out.contains("pH (exact)"),
+        "{out}"
+    );
+    assert!(out.contains("== Mixture") && out.contains("== Field reading"));
+}
+
+#[test]
+fn invalid_document_names_the_field() {
+    let (_, demo, _) = run(&["--demo"], None);
+    let bad = demo.replace("\"temperature_c\": 37.0", "\"temperature_c\": -5.0");
+    assert_ne!(bad, demo);
+    let (code, _, err) = run(&[], Some(&bad));
+    assert_eq!(code, 1);
+    assert!(err.contains("recipe.temperature_c"), "{err}");
+    let (code, _, err) = run(&[], Some("{not json"));
+    assert_eq!(code, 1);
+    assert!(err.contains("not valid JSON"), "{err}");
+}
+
+#[test]
+fn usage_errors_exit_2() {
+    let (code, _, _) = run(&["--bogus"], None);
+    assert_eq!(code, 2);
+}

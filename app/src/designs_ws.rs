@@ -1,8 +1,420 @@
-//! Placeholder for the designs_ws component (being written).
-use leptos::prelude::*;
+//! Designs panel: save, open, rename, duplicate, delete, export, import and share designs.
+//!
+//! A thin component: every decision lives in [`crate::store`] (plain
+//! functions over a key-value store, tested natively) and
+//! [`crate::share`]; this file only wires buttons to those functions.
 
-/// Placeholder.
+use crate::state::use_app;
+use crate::store::{
+    export_many, export_one, file_name, local_when, use_store, NoticeAction, NoticeKind, Store,
+    Summary, FILE_EXTENSION, MAX_NAME_CHARS,
+};
+use leptos::prelude::*;
+use wasm_bindgen::{closure::Closure, JsCast, JsValue};
+
+/// Styles of the panel and the embed bar (scoped by class; inline styles are allowed by the CSP).
+const PANEL_CSS: &str = include_str!("designs.css");
+
+fn notice_class(kind: NoticeKind) -> &'static str {
+    match kind {
+        NoticeKind::Info => "bw-notice bw-notice-info",
+        NoticeKind::Warn => "bw-notice bw-notice-warn",
+        NoticeKind::Error => "bw-notice bw-notice-error",
+    }
+}
+
+/// Read the chosen file and hand its text to the store.
+fn import_from_input(store: Store, input: web_sys::HtmlInputElement) {
+    let Some(file) = input.files().and_then(|f| f.get(0)) else {
+        return;
+    };
+    let name = file.name();
+    if file.size() > crate::store::MAX_IMPORT_BYTES as f64 {
+        store.notify(
+            NoticeKind::Error,
+            format!("“{name}” was not imported: it is too large to be a design file. Nothing was changed."),
+            None,
+        );
+        input.set_value("");
+        return;
+    }
+    let on_text = Closure::once(move |v: JsValue| {
+        let text = v.as_string().unwrap_or_default();
+        store.import_text(&name, &text);
+        input.set_value("");
+    });
+    let on_error = Closure::once(move |_: JsValue| {
+        store.notify(
+            NoticeKind::Error,
+            "The file could not be read. Nothing was changed.",
+            None,
+        );
+    });
+    let _ = file.text().then(&on_text).catch(&on_error);
+    on_text.forget();
+    on_error.forget();
+}
+
+/// Copy text with the asynchronous clipboard API when the page may use it.
+fn copy_text(store: Store, text: String) {
+    let nav = window().navigator();
+    let has_clipboard = js_sys::Reflect::get(&nav, &JsValue::from_str("clipboard"))
+        .map(|c| !c.is_undefined() && !c.is_null())
+        .unwrap_or(false);
+    if !has_clipboard {
+        store.notify(
+            NoticeKind::Warn,
+            "This browser does not allow copying from here: the link is selected, copy it by hand.",
+            None,
+        );
+        return;
+    }
+    let done = Closure::once(move |_: JsValue| {
+        store.notify(NoticeKind::Info, "Share link copied.", None);
+    });
+    let failed = Closure::once(move |_: JsValue| {
+        store.notify(
+            NoticeKind::Warn,
+            "The browser refused to copy: the link is selected, copy it by hand.",
+            None,
+        );
+    });
+    let _ = nav.clipboard().write_text(&text).then(&done).catch(&failed);
+    done.forget();
+    failed.forget();
+}
+
+/// One notice with its buttons.
+fn notice_view(store: Store, n: crate::store::Notice) -> impl IntoView {
+    let id = n.id;
+    let state = store.state;
+    let actions = match n.action {
+        Some(NoticeAction::UndoDelete { id: did, design }) => view! {
+            <button type="button" class="bw-btn bw-btn-small" data-testid="undo-delete"
+                on:click=move |_| {
+                    store.undo_delete(&did, &design);
+                    store.dismiss(id);
+                }>"Undo"</button>
+        }
+        .into_any(),
+        Some(NoticeAction::Conflict { id: cid }) => {
+            let cid2 = cid.clone();
+            let cid3 = cid.clone();
+            view! {
+                <button type="button" class="bw-btn bw-btn-small" data-testid="conflict-copy"
+                    on:click=move |_| { store.dismiss(id); store.resolve_copy(); }>
+                    "Save mine as a copy"</button>
+                <button type="button" class="bw-btn bw-btn-small" data-testid="conflict-overwrite"
+                    on:click=move |_| { store.dismiss(id); store.resolve_overwrite(&cid2); }>
+                    "Overwrite with mine"</button>
+                <button type="button" class="bw-btn bw-btn-small" data-testid="conflict-theirs"
+                    on:click=move |_| { store.dismiss(id); store.open_design(&cid3); }>
+                    "Discard mine, open theirs"</button>
+            }
+            .into_any()
+        }
+        Some(NoticeAction::RestorePrevious) => view! {
+            <button type="button" class="bw-btn bw-btn-small" data-testid="restore-previous"
+                disabled=move || state.view.get().readonly
+                on:click=move |_| { store.dismiss(id); store.restore_previous(); }>
+                "Bring back my previous work"</button>
+        }
+        .into_any(),
+        None => ().into_any(),
+    };
+    view! {
+        <div class=notice_class(n.kind) data-testid="notice">
+            <span class="bw-notice-text">{n.text}</span>
+            <span class="bw-notice-actions">
+                {actions}
+                <button type="button" class="bw-btn-dismiss" aria-label="Dismiss message"
+                    on:click=move |_| store.dismiss(id)>"×"</button>
+            </span>
+        </div>
+    }
+}
+
+/// One row of the saved-designs table.
+fn row_view(
+    store: Store,
+    index: usize,
+    s: Summary,
+    renaming: RwSignal<Option<String>>,
+    rename_text: RwSignal<String>,
+) -> impl IntoView {
+    let state = store.state;
+    let readonly = move || state.view.get().readonly;
+    let id = s.id.clone();
+    let is_open = {
+        let id = id.clone();
+        move || store.open.with(|o| o.as_ref().is_some_and(|o| o.id == id))
+    };
+    let is_renaming = {
+        let id = id.clone();
+        move || renaming.with(|r| r.as_deref() == Some(id.as_str()))
+    };
+    let commit = {
+        let id = id.clone();
+        move || {
+            store.rename(&id, &rename_text.get_untracked());
+            renaming.set(None);
+        }
+    };
+    let commit2 = commit.clone();
+    let name = s.name.clone();
+    let name_for_rename = s.name.clone();
+    let (id_open, id_ren, id_dup, id_del) = (id.clone(), id.clone(), id.clone(), id.clone());
+    let label = |verb: &str| format!("{verb} “{}”", s.name);
+    let (l_open, l_ren, l_dup, l_del) = (
+        label("Open"),
+        label("Rename"),
+        label("Duplicate"),
+        label("Delete"),
+    );
+    view! {
+        <tr data-testid=format!("design-row-{index}") data-id=id.clone()
+            class:bw-row-open=is_open.clone()
+            aria-current=move || if is_open() { Some("true") } else { None }>
+            <td class="bw-col-name">
+                <Show when=is_renaming.clone() fallback=move || view! {
+                    <span class="bw-design-name" data-testid="design-row-name">{name.clone()}</span>
+                }>
+                    <input type="text" class="bw-rename-input" data-testid="rename-input"
+                        aria-label="New name" maxlength=MAX_NAME_CHARS.to_string()
+                        prop:value=move || rename_text.get()
+                        on:input=move |ev| rename_text.set(event_target_value(&ev))
+                        on:keydown={
+                            let commit = commit.clone();
+                            move |ev: web_sys::KeyboardEvent| match ev.key().as_str() {
+                                "Enter" => commit(),
+                                "Escape" => renaming.set(None),
+                                _ => {}
+                            }
+                        } />
+                    <button type="button" class="bw-btn bw-btn-small" data-testid="rename-ok"
+                        on:click={ let commit = commit2.clone(); move |_| commit() }>"OK"</button>
+                    <button type="button" class="bw-btn bw-btn-small"
+                        on:click=move |_| renaming.set(None)>"Cancel"</button>
+                </Show>
+            </td>
+            <td class="bw-col-system">{s.system.clone()}</td>
+            <td class="bw-col-ph">{format!("{:.2}", s.target_ph)}</td>
+            <td class="bw-col-date">{local_when(s.saved_at_ms)}</td>
+            <td class="bw-col-actions">
+                <button type="button" class="bw-btn bw-btn-small" data-testid="open-design"
+                    aria-label=l_open on:click=move |_| store.open_design(&id_open)>"Open"</button>
+                <button type="button" class="bw-btn bw-btn-small" data-testid="rename-design"
+                    aria-label=l_ren hidden=readonly
+                    on:click=move |_| {
+                        rename_text.set(name_for_rename.clone());
+                        renaming.set(Some(id_ren.clone()));
+                    }>"Rename"</button>
+                <button type="button" class="bw-btn bw-btn-small" data-testid="duplicate-design"
+                    aria-label=l_dup hidden=readonly
+                    on:click=move |_| store.duplicate(&id_dup)>"Duplicate"</button>
+                <button type="button" class="bw-btn bw-btn-small bw-btn-danger" data-testid="delete-design"
+                    aria-label=l_del hidden=readonly
+                    on:click=move |_| store.delete(&id_del)>"Delete"</button>
+            </td>
+        </tr>
+    }
+}
+
+/// The designs panel (mounted by the shell; needs [`crate::store::init`] to have run).
 #[component]
 pub fn DesignsPanel() -> impl IntoView {
-    view! { <section></section> }
+    let Some(store) = use_store() else {
+        return view! {
+            <section class="designs-panel" data-testid="designs-panel">
+                <p>"Saved designs are not available: the page did not start its storage."</p>
+            </section>
+        }
+        .into_any();
+    };
+    let state = use_app();
+    let readonly = move || state.view.get().readonly;
+    let available = move || store.available.get();
+    let renaming = RwSignal::new(None::<String>);
+    let rename_text = RwSignal::new(String::new());
+
+    let status = move || {
+        if store.ephemeral {
+            return "This view does not keep changes. Open the full page to save designs."
+                .to_string();
+        }
+        if !available() {
+            return "Saving is not possible in this browser: use Export to keep your work."
+                .to_string();
+        }
+        let dirty = store.dirty();
+        match store.open.get() {
+            Some(o) if !dirty => format!(
+                "Showing saved design “{}” (saved {}).",
+                o.saved.name,
+                local_when(o.saved.saved_at_ms)
+            ),
+            Some(o) => format!(
+                "Unsaved changes to “{}”. They are kept automatically in this browser until you save.",
+                o.saved.name
+            ),
+            None => "Not saved yet. Your work is kept automatically in this browser until you save it."
+                .to_string(),
+        }
+    };
+    let save_label = move || {
+        if store.open.with(Option::is_some) {
+            "Save changes"
+        } else {
+            "Save"
+        }
+    };
+    let share_link = Memo::new(move |_| {
+        let d = state.design.get();
+        let href = window().location().href().unwrap_or_default();
+        crate::share::share_url(crate::share::page_base(&href), &d)
+    });
+    let share_input = NodeRef::<leptos::html::Input>::new();
+    let file_input = NodeRef::<leptos::html::Input>::new();
+
+    let export_current = move |_| {
+        let d = state.design.get_untracked();
+        crate::store::download(&file_name(&d.name), &export_one(&d));
+    };
+    let export_all = move |_| {
+        let all = store.all_saved();
+        if all.is_empty() {
+            store.notify(
+                NoticeKind::Warn,
+                "There are no saved designs to export.",
+                None,
+            );
+            return;
+        }
+        let day = local_when(js_sys::Date::now());
+        let day = day.split(' ').next().unwrap_or("designs").to_string();
+        crate::store::download(
+            &format!("bufferwright-saved-designs-{day}{FILE_EXTENSION}"),
+            &export_many(&all),
+        );
+    };
+    let copy_link = move |_| {
+        if let Some(input) = share_input.get_untracked() {
+            input.select();
+        }
+        copy_text(store, share_link.get_untracked());
+    };
+    let on_file = move |ev: leptos::ev::Event| {
+        if let Some(input) = ev
+            .target()
+            .and_then(|t| t.dyn_into::<web_sys::HtmlInputElement>().ok())
+        {
+            import_from_input(store, input);
+        }
+    };
+    let _ = file_input;
+
+    view! {
+        <section class="designs-panel" data-testid="designs-panel" aria-labelledby="designs-title">
+            <style>{PANEL_CSS}</style>
+            <h2 id="designs-title" class="bw-panel-title">"Saved designs"</h2>
+            <div class="bw-notices" data-testid="storage-message" role="status" aria-live="polite">
+                {move || store.notices.get().into_iter().map(|n| notice_view(store, n)).collect_view()}
+            </div>
+
+            <div class="bw-current">
+                <label class="bw-name-field" for="bw-design-name">"Design name"</label>
+                <div class="bw-current-row">
+                    <input id="bw-design-name" type="text" data-testid="design-name"
+                        maxlength=MAX_NAME_CHARS.to_string()
+                        readonly=readonly
+                        prop:value=move || {
+                            state.revision.track();
+                            state.design.with_untracked(|d| d.name.clone())
+                        }
+                        on:input=move |ev| {
+                            let v = event_target_value(&ev);
+                            if v.chars().count() <= MAX_NAME_CHARS {
+                                state.design.update(|d| d.name = v);
+                            }
+                        } />
+                    <button type="button" class="bw-btn bw-btn-primary" data-testid="save-design"
+                        disabled=move || readonly() || store.ephemeral
+                        on:click=move |_| store.save(false)>{save_label}</button>
+                    <button type="button" class="bw-btn" data-testid="save-as-new"
+                        hidden=move || readonly() || store.ephemeral || store.open.with(Option::is_none)
+                        on:click=move |_| store.save(true)>"Save as new"</button>
+                </div>
+                <p class="bw-status" data-testid="design-status">{status}</p>
+            </div>
+
+            <div class="bw-table-wrap">
+                <Show when=move || store.list.with(|l| !l.is_empty()) fallback=move || view! {
+                    <p class="bw-empty" data-testid="designs-empty">
+                        "No saved designs in this browser yet."
+                    </p>
+                }>
+                    <table class="bw-designs" data-testid="designs-table">
+                        <caption class="bw-visually-hidden">"Designs saved in this browser, newest first"</caption>
+                        <thead>
+                            <tr>
+                                <th scope="col">"Name"</th>
+                                <th scope="col">"System"</th>
+                                <th scope="col">"Target pH"</th>
+                                <th scope="col">"Saved"</th>
+                                <th scope="col"><span class="bw-visually-hidden">"Actions"</span></th>
+                            </tr>
+                        </thead>
+                        <tbody>
+                            {move || {
+                                store
+                                    .list
+                                    .get()
+                                    .into_iter()
+                                    .enumerate()
+                                    .map(|(i, s)| row_view(store, i, s, renaming, rename_text))
+                                    .collect_view()
+                            }}
+                        </tbody>
+                    </table>
+                </Show>
+            </div>
+
+            <div class="bw-files">
+                <h3 class="bw-sub">"Files"</h3>
+                <div class="bw-buttons">
+                    <button type="button" class="bw-btn" data-testid="export-design"
+                        on:click=export_current>"Export this design"</button>
+                    <button type="button" class="bw-btn" data-testid="export-all"
+                        disabled=move || !available() || store.list.with(Vec::is_empty)
+                        on:click=export_all>"Export all saved"</button>
+                    <label class="bw-btn bw-file-label" hidden=readonly>
+                        "Import from file…"
+                        <input type="file" class="bw-file-input" data-testid="import-file"
+                            node_ref=file_input
+                            accept=".json,application/json" on:change=on_file />
+                    </label>
+                </div>
+                <p class="bw-hint">"Files are Bufferwright design files ("{FILE_EXTENSION}"): plain JSON you can keep, mail or check in."</p>
+            </div>
+
+            <div class="bw-share">
+                <h3 class="bw-sub"><label for="bw-share-link">"Share link"</label></h3>
+                <div class="bw-current-row">
+                    <input id="bw-share-link" type="text" readonly data-testid="share-link"
+                        node_ref=share_input
+                        prop:value=move || share_link.get()
+                        on:focus=move |ev| {
+                            if let Some(i) = ev.target().and_then(|t| t.dyn_into::<web_sys::HtmlInputElement>().ok()) {
+                                i.select();
+                            }
+                        } />
+                    <button type="button" class="bw-btn" data-testid="copy-share-link" on:click=copy_link>
+                        "Copy link"
+                    </button>
+                </div>
+                <p class="bw-hint">"The whole design travels inside the link (after the #); opening it shows the design. Nothing is uploaded."</p>
+            </div>
+        </section>
+    }
+    .into_any()
 }

@@ -4,6 +4,7 @@
 //! shell/inputs/workspaces, plots/species, store/share/designs.
 
 pub mod designs_ws;
+pub mod embed;
 pub mod field_ws;
 pub mod format;
 pub mod inputs;

@@ -1,1 +1,472 @@
-//! Number parsing and display helpers for inputs (being written).
+//! Reading what technicians type and writing solver numbers for people.
+//!
+//! Parsing is strict so nothing malformed ever reaches the solver: empty
+//! text, words, `inf`/`NaN`, negative values and values outside a field's
+//! [`Rule`] all come back as a message for the field. A comma decimal mark
+//! (`7,4`) is accepted. Display helpers never compute chemistry; they only
+//! round and pick units for numbers the solver returned.
+
+use solver::recipe::sig;
+use solver::SolverError;
+
+/// A unit a field can be entered in: its label and the factor to the base unit
+/// (value in base unit = typed value × factor).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Unit {
+    /// Label shown in the unit picker.
+    pub label: &'static str,
+    /// Multiply by this to get the base unit.
+    pub factor: f64,
+}
+
+/// Concentration units (base: mol/L).
+pub const CONC_UNITS: &[Unit] = &[
+    Unit {
+        label: "M",
+        factor: 1.0,
+    },
+    Unit {
+        label: "mM",
+        factor: 1e-3,
+    },
+    Unit {
+        label: "µM",
+        factor: 1e-6,
+    },
+];
+
+/// Volume units (base: L).
+pub const VOLUME_UNITS: &[Unit] = &[
+    Unit {
+        label: "mL",
+        factor: 1e-3,
+    },
+    Unit {
+        label: "L",
+        factor: 1.0,
+    },
+];
+
+/// What a field accepts, in base units, and what to say otherwise.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Rule {
+    /// Lowest accepted value (base unit).
+    pub min: f64,
+    /// Highest accepted value (base unit).
+    pub max: f64,
+    /// Message when the value is outside `min..=max` (and not negative).
+    pub range_msg: &'static str,
+}
+
+/// pH on the activity scale.
+pub const PH: Rule = Rule {
+    min: 0.0,
+    max: 14.0,
+    range_msg: "pH must be between 0 and 14.",
+};
+/// Temperature, °C: the water data cover 0–60 °C.
+pub const TEMPERATURE: Rule = Rule {
+    min: 0.0,
+    max: 60.0,
+    range_msg: "Temperature must be between 0 and 60 °C.",
+};
+/// Total buffer concentration, mol/L (must be above zero).
+pub const BUFFER_CONC: Rule = Rule {
+    min: 1e-9,
+    max: 5.0,
+    range_msg: "Must be above zero and at most 5 M (the model's range).",
+};
+/// An amount that may be zero, mol/L.
+pub const AMOUNT: Rule = Rule {
+    min: 0.0,
+    max: 5.0,
+    range_msg: "At most 5 M: beyond the model's range.",
+};
+/// Final volume, L.
+pub const VOLUME: Rule = Rule {
+    min: 1e-6,
+    max: 1000.0,
+    range_msg: "The volume must be between 1 µL and 1000 L.",
+};
+/// Tolerance window half-width, pH units.
+pub const TOLERANCE: Rule = Rule {
+    min: 1e-4,
+    max: 2.0,
+    range_msg: "The window must be between 0.0001 and 2 pH units.",
+};
+/// Stock or titrant molarity, mol/L.
+pub const STOCK: Rule = Rule {
+    min: 1e-6,
+    max: 20.0,
+    range_msg: "Stock strength must be above zero and at most 20 M.",
+};
+/// Dilution factor.
+pub const DILUTION: Rule = Rule {
+    min: 1.0,
+    max: 1e9,
+    range_msg: "The dilution factor must be 1 or more (1 = undiluted).",
+};
+/// A field total (mg/L or mmol/L or µmol/L).
+pub const FIELD_TOTAL: Rule = Rule {
+    min: 0.0,
+    max: 1e6,
+    range_msg: "That total is beyond the model's range.",
+};
+/// Ionic strength typed directly, mol/L.
+pub const IONIC: Rule = Rule {
+    min: 0.0,
+    max: 5.0,
+    range_msg: "Ionic strength must be at most 5 mol/L.",
+};
+/// Specific conductance, µS/cm.
+pub const CONDUCTIVITY: Rule = Rule {
+    min: 0.0,
+    max: 200_000.0,
+    range_msg: "At most 200 000 µS/cm.",
+};
+/// Total dissolved solids, mg/L.
+pub const TDS: Rule = Rule {
+    min: 0.0,
+    max: 100_000.0,
+    range_msg: "At most 100 000 mg/L.",
+};
+
+/// Parse a typed number: trims, accepts a comma or a point as the decimal mark
+/// and a typographic minus; refuses empty text, words and non-finite values.
+///
+/// # Errors
+///
+/// A message for the field.
+pub fn parse_number(text: &str) -> Result<f64, String> {
+    let t = text.trim().replace('\u{2212}', "-");
+    if t.is_empty() {
+        return Err("Enter a value.".into());
+    }
+    if t.contains(',') && t.contains('.') {
+        return Err("Use one decimal mark: a comma or a point, not both.".into());
+    }
+    if t.matches(',').count() > 1 {
+        return Err(format!("“{}” is not a number.", text.trim()));
+    }
+    let t = t.replace(',', ".");
+    let allowed = |c: char| c.is_ascii_digit() || matches!(c, '.' | '-' | '+' | 'e' | 'E');
+    if !t.chars().all(allowed) || !t.chars().any(|c| c.is_ascii_digit()) {
+        return Err(format!("“{}” is not a number.", text.trim()));
+    }
+    match t.parse::<f64>() {
+        Ok(v) if v.is_finite() => Ok(if v == 0.0 { 0.0 } else { v }),
+        _ => Err(format!("“{}” is not a number.", text.trim())),
+    }
+}
+
+/// Parse typed text in a unit with `factor` and check it against `rule`.
+/// Returns the value in the base unit.
+///
+/// # Errors
+///
+/// A message for the field: empty, not a number, negative or out of range.
+pub fn check(text: &str, rule: Rule, factor: f64) -> Result<f64, String> {
+    let v = parse_number(text)?;
+    if v < 0.0 {
+        return Err("Must not be negative.".into());
+    }
+    let base = v * factor;
+    // A hair of slack so that "5000 mM" is still 5 M after the multiplication.
+    if base < rule.min * (1.0 - 1e-12) || base > rule.max * (1.0 + 1e-12) {
+        return Err(rule.range_msg.into());
+    }
+    Ok(base.clamp(rule.min, rule.max))
+}
+
+/// Text for an input from a stored value: up to six significant figures, no
+/// trailing zeros, no exponent.
+pub fn fmt_input(v: f64) -> String {
+    if !v.is_finite() {
+        return String::new();
+    }
+    let s = sig(v, 6);
+    trim_zeros(&s)
+}
+
+fn trim_zeros(s: &str) -> String {
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s.to_string()
+    }
+}
+
+/// The unit (index into `units`) that shows `base` as a number between 1 and 1000 if possible.
+pub fn best_unit(units: &[Unit], base: f64) -> usize {
+    if units.is_empty() || !base.is_finite() || base == 0.0 {
+        return 0;
+    }
+    let mut best = 0;
+    let mut best_score = f64::INFINITY;
+    for (i, u) in units.iter().enumerate() {
+        let shown = (base / u.factor).abs();
+        let score = if (1.0..1000.0).contains(&shown) {
+            0.0
+        } else if shown < 1.0 {
+            -shown.log10() + 1.0
+        } else {
+            shown.log10() - 2.0
+        };
+        if score < best_score {
+            best_score = score;
+            best = i;
+        }
+    }
+    best
+}
+
+fn with_minus(s: String) -> String {
+    if let Some(rest) = s.strip_prefix('-') {
+        format!("\u{2212}{rest}")
+    } else {
+        s
+    }
+}
+
+/// A pH value to two decimals.
+pub fn fmt_ph(v: f64) -> String {
+    if !v.is_finite() {
+        return "—".into();
+    }
+    with_minus(format!("{v:.2}"))
+}
+
+/// A signed pH change to two decimals (`+0.05`, `−0.12`, `0.00`).
+pub fn fmt_dph(d: f64) -> String {
+    if !d.is_finite() {
+        return "—".into();
+    }
+    let s = format!("{d:.2}");
+    if s == "0.00" || s == "-0.00" {
+        "0.00".into()
+    } else if d > 0.0 {
+        format!("+{s}")
+    } else {
+        with_minus(s)
+    }
+}
+
+/// A concentration in mol/L, shown in M, mM, µM or nM with three significant figures.
+pub fn fmt_conc(m: f64) -> String {
+    if !m.is_finite() {
+        return "—".into();
+    }
+    let a = m.abs();
+    let (v, u) = if a == 0.0 {
+        (0.0, "M")
+    } else if a >= 0.1 {
+        (m, "M")
+    } else if a >= 1e-4 {
+        (m * 1e3, "mM")
+    } else if a >= 1e-7 {
+        (m * 1e6, "µM")
+    } else {
+        (m * 1e9, "nM")
+    };
+    with_minus(format!("{} {u}", trim_zeros(&sig(v, 3))))
+}
+
+/// A number with `n` significant figures and no trailing zeros.
+pub fn fmt_sig(v: f64, n: i32) -> String {
+    if !v.is_finite() {
+        return "—".into();
+    }
+    with_minus(trim_zeros(&sig(v, n)))
+}
+
+/// A fraction (0–1) as a percentage with three significant figures.
+pub fn fmt_pct(f: f64) -> String {
+    if !f.is_finite() {
+        return "—".into();
+    }
+    let p = f * 100.0;
+    if (99.995..100.0).contains(&p) {
+        return "> 99.99 %".into();
+    }
+    if p != 0.0 && p.abs() < 1e-4 {
+        return "< 0.0001 %".into();
+    }
+    format!("{} %", trim_zeros(&sig(p, 3)))
+}
+
+/// Buffer capacity β (mol/(L·pH)) in mM per pH unit.
+pub fn fmt_capacity(beta: f64) -> String {
+    format!("{} mM/pH", fmt_sig(beta * 1e3, 3))
+}
+
+/// mg/L with three significant figures.
+pub fn fmt_mg_l(v: f64) -> String {
+    format!("{} mg/L", fmt_sig(v, 3))
+}
+
+/// The dotted field path a solver error names, if any (`target_ph`, `method.titrant_m`...).
+pub fn error_field(e: &SolverError) -> Option<String> {
+    match e {
+        SolverError::NotFinite { field }
+        | SolverError::Negative { field, .. }
+        | SolverError::OutOfRange { field, .. }
+        | SolverError::Infeasible { field, .. }
+        | SolverError::Document { field, .. } => Some(field.clone()),
+        SolverError::Unknown { kind, .. } => {
+            // "form (method.acid_form)" names its field in brackets.
+            let open = kind.find('(')?;
+            let close = kind.rfind(')')?;
+            kind.get(open + 1..close).map(str::to_string)
+        }
+        _ => None,
+    }
+}
+
+fn capitalise(s: &str) -> String {
+    let mut c = s.chars();
+    match c.next() {
+        Some(f) => f.to_uppercase().collect::<String>() + c.as_str(),
+        None => String::new(),
+    }
+}
+
+/// A message for a technician from a solver error (without the field path).
+pub fn error_message(e: &SolverError) -> String {
+    match e {
+        SolverError::OutOfRange {
+            field,
+            value,
+            min,
+            max,
+        } if field.ends_with("temperature_c") => format!(
+            "No data for this system at {} °C: its constants cover {} to {} °C.",
+            fmt_sig(*value, 4),
+            fmt_sig(*min, 3),
+            fmt_sig(*max, 3)
+        ),
+        SolverError::OutOfRange {
+            value, min, max, ..
+        } => format!(
+            "{} is outside the accepted range ({} to {}).",
+            fmt_sig(*value, 4),
+            fmt_sig(*min, 3),
+            fmt_sig(*max, 3)
+        ),
+        SolverError::Negative { .. } => "Must not be negative.".into(),
+        SolverError::NotFinite { .. } => "Not a finite number.".into(),
+        SolverError::Infeasible { reason, .. } => {
+            format!("{}.", capitalise(reason.trim_end_matches('.')))
+        }
+        SolverError::NoBracket { .. } | SolverError::NoConvergence { .. } => {
+            format!("The equilibrium could not be solved for these inputs ({e}).")
+        }
+        other => capitalise(&other.to_string()),
+    }
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn parses_plain_and_comma_decimals() {
+        assert_eq!(parse_number("7.4"), Ok(7.4));
+        assert_eq!(parse_number("7,4"), Ok(7.4));
+        assert_eq!(parse_number("  37 "), Ok(37.0));
+        assert_eq!(parse_number(".5"), Ok(0.5));
+        assert_eq!(parse_number("1e-3"), Ok(0.001));
+        assert_eq!(parse_number("\u{2212}2"), Ok(-2.0));
+        assert_eq!(parse_number("-0"), Ok(0.0));
+    }
+
+    #[test]
+    fn refuses_empty_words_and_non_finite() {
+        assert_eq!(parse_number(""), Err("Enter a value.".into()));
+        assert_eq!(parse_number("   "), Err("Enter a value.".into()));
+        assert!(parse_number("abc").unwrap_err().contains("not a number"));
+        assert!(parse_number("inf").is_err());
+        assert!(parse_number("NaN").is_err());
+        assert!(parse_number("1e999").is_err());
+        assert!(parse_number("7.4.1").is_err());
+        assert!(parse_number("1,2,3").is_err());
+        assert!(parse_number("1.000,5")
+            .unwrap_err()
+            .contains("decimal mark"));
+        assert!(parse_number("-").is_err());
+        assert!(parse_number("e").is_err());
+        assert!(parse_number("7 4").is_err());
+    }
+
+    #[test]
+    fn checks_rules() {
+        assert_eq!(check("7,4", PH, 1.0), Ok(7.4));
+        assert_eq!(check("15", PH, 1.0), Err(PH.range_msg.into()));
+        assert_eq!(check("-1", PH, 1.0), Err("Must not be negative.".into()));
+        assert_eq!(check("", PH, 1.0), Err("Enter a value.".into()));
+        assert_eq!(check("0", PH, 1.0), Ok(0.0));
+        assert_eq!(check("14", PH, 1.0), Ok(14.0));
+        assert!(check("61", TEMPERATURE, 1.0).is_err());
+        assert_eq!(check("50", BUFFER_CONC, 1e-3), Ok(0.05));
+        assert_eq!(
+            check("0", BUFFER_CONC, 1e-3),
+            Err(BUFFER_CONC.range_msg.into())
+        );
+        assert_eq!(check("5000", BUFFER_CONC, 1e-3), Ok(5.0));
+        assert!(check("6", BUFFER_CONC, 1.0).is_err());
+        assert_eq!(check("500", VOLUME, 1e-3), Ok(0.5));
+        assert!(check("0.5", DILUTION, 1.0).is_err());
+        assert_eq!(check("0", AMOUNT, 1e-3), Ok(0.0));
+    }
+
+    #[test]
+    fn formats_inputs_and_units() {
+        assert_eq!(fmt_input(7.4), "7.4");
+        assert_eq!(fmt_input(0.05), "0.05");
+        assert_eq!(fmt_input(37.0), "37");
+        assert_eq!(fmt_input(1e-7), "0.0000001");
+        assert_eq!(best_unit(CONC_UNITS, 0.05), 1);
+        assert_eq!(best_unit(CONC_UNITS, 1.0), 0);
+        assert_eq!(best_unit(CONC_UNITS, 5e-6), 2);
+        assert_eq!(best_unit(VOLUME_UNITS, 0.5), 0);
+        assert_eq!(best_unit(VOLUME_UNITS, 2.0), 1);
+    }
+
+    #[test]
+    fn formats_results() {
+        assert_eq!(fmt_ph(7.4), "7.40");
+        assert_eq!(fmt_dph(0.0321), "+0.03");
+        assert_eq!(fmt_dph(-0.12), "\u{2212}0.12");
+        assert_eq!(fmt_dph(-0.001), "0.00");
+        assert_eq!(fmt_conc(0.05), "50 mM");
+        assert_eq!(fmt_conc(0.15), "0.15 M");
+        assert_eq!(fmt_conc(2.5e-6), "2.5 µM");
+        assert_eq!(fmt_pct(0.0396), "3.96 %");
+        assert_eq!(fmt_pct(0.5), "50 %");
+        assert_eq!(fmt_pct(1e-9), "< 0.0001 %");
+        assert_eq!(fmt_capacity(0.0284), "28.4 mM/pH");
+        assert_eq!(fmt_mg_l(0.0317), "0.0317 mg/L");
+    }
+
+    #[test]
+    fn maps_solver_errors_to_fields() {
+        let e = SolverError::OutOfRange {
+            field: "temperature_c".into(),
+            value: 55.0,
+            min: 0.0,
+            max: 50.0,
+        };
+        assert_eq!(error_field(&e).as_deref(), Some("temperature_c"));
+        assert!(error_message(&e).contains("0 to 50 °C"));
+        let u = SolverError::Unknown {
+            kind: "form (method.acid_form)".into(),
+            name: "x".into(),
+        };
+        assert_eq!(error_field(&u).as_deref(), Some("method.acid_form"));
+        let i = SolverError::Infeasible {
+            field: "target_ph".into(),
+            reason: "the target pH is above what the base form alone gives".into(),
+        };
+        assert!(error_message(&i).starts_with("The target pH"));
+    }
+}

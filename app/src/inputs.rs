@@ -1,1 +1,378 @@
-//! Validated input widgets (being written).
+//! Validated input widgets: a number field with inline messages and units, and a segmented choice.
+//!
+//! A [`NumberField`] keeps the raw text the user typed; the design holds only
+//! the last *valid* value. Valid text is written to the design from the input
+//! handler (never from an effect). When the design is replaced wholesale
+//! (`AppState::load` bumps `revision`), the typed text is forgotten and the
+//! field shows the design's value again.
+
+use crate::format::{best_unit, check, fmt_input, Rule, Unit};
+use crate::state::use_app;
+use leptos::prelude::*;
+use solver::library::library;
+use solver::system::AcidSystem;
+use solver::thermo::system_pks;
+
+/// A labelled number input with optional unit picker and an inline message.
+///
+/// The message is the parser's (empty, not a number, negative, out of range)
+/// or, when the text is valid, `error` (a solver message for this field).
+/// The message element carries `data-testid="error-<id>"`.
+#[component]
+pub fn NumberField(
+    /// DOM id of the input; the message is `error-<id>`.
+    #[prop(into)]
+    id: String,
+    /// Visible label.
+    #[prop(into)]
+    label: String,
+    /// Current value in the base unit, read from the design.
+    #[prop(into)]
+    value: Signal<f64>,
+    /// Receives each valid value (base unit).
+    #[prop(into)]
+    on_value: Callback<f64>,
+    /// What the field accepts.
+    rule: Rule,
+    /// Unit choices; empty for a unitless field.
+    #[prop(optional)]
+    units: &'static [Unit],
+    /// Fixed unit text after the input (when there is no unit choice).
+    #[prop(optional, into)]
+    suffix: Option<String>,
+    /// A solver message for this field, shown when the text itself is fine.
+    #[prop(optional, into)]
+    error: Option<Signal<Option<String>>>,
+    /// Short help under the label.
+    #[prop(optional, into)]
+    hint: Option<String>,
+) -> impl IntoView {
+    let app = use_app();
+    let rev = app.revision;
+    let unit = RwSignal::new(best_unit(units, value.get_untracked()));
+    let factor = move |i: usize| units.get(i).map_or(1.0, |u| u.factor);
+    // Text typed by the user, tagged with the revision it was typed against.
+    let typed: RwSignal<Option<(u64, String)>> = RwSignal::new(None);
+    let text = Memo::new(move |_| match typed.get() {
+        Some((r, t)) if r == rev.get() => t,
+        _ => fmt_input(value.get() / factor(unit.get())),
+    });
+    let parsed = Memo::new(move |_| check(&text.get(), rule, factor(unit.get())));
+    let message = move || match parsed.get() {
+        Err(m) => Some(m),
+        Ok(_) => error.and_then(|e| e.get()),
+    };
+    let invalid = move || message().is_some();
+    let readonly = move || app.view.with(|v| v.readonly);
+
+    let accept = {
+        let id = id.clone();
+        move |t: String, i: usize| {
+            let result = check(&t, rule, factor(i));
+            typed.set(Some((rev.get_untracked(), t)));
+            app.mark_field(&id, result.is_ok());
+            if let Ok(v) = result {
+                on_value.run(v);
+            }
+        }
+    };
+    let on_input = {
+        let accept = accept.clone();
+        move |ev: leptos::ev::Event| accept(event_target_value(&ev), unit.get_untracked())
+    };
+    let on_unit = move |ev: leptos::ev::Event| {
+        let i: usize = event_target_value(&ev).parse().unwrap_or(0);
+        unit.set(i);
+        accept(text.get_untracked(), i);
+    };
+    {
+        // A field that goes away (tab switch, row removed) takes its typed text with it.
+        let id = id.clone();
+        on_cleanup(move || app.mark_field(&id, true));
+    }
+
+    let msg_id = format!("error-{id}");
+    let hint_id = format!("hint-{id}");
+    let described = {
+        let msg_id = msg_id.clone();
+        let hint_id = hint_id.clone();
+        let has_hint = hint.is_some();
+        move || {
+            let mut parts = Vec::new();
+            if has_hint {
+                parts.push(hint_id.clone());
+            }
+            if invalid() {
+                parts.push(msg_id.clone());
+            }
+            (!parts.is_empty()).then(|| parts.join(" "))
+        }
+    };
+    let unit_picker = (!units.is_empty()).then(|| {
+        let unit_label = format!("{label}: unit");
+        view! {
+            <select class="unit" aria-label=unit_label disabled=readonly on:change=on_unit
+                prop:value=move || unit.get().to_string()>
+                {units
+                    .iter()
+                    .enumerate()
+                    .map(|(i, u)| {
+                        view! {
+                            <option value=i.to_string() selected=move || unit.get() == i>
+                                {u.label}
+                            </option>
+                        }
+                    })
+                    .collect_view()}
+            </select>
+        }
+    });
+    let suffix_view = suffix.map(|s| view! { <span class="suffix" aria-hidden="true">{s}</span> });
+    let hint_view = hint.map(|h| view! { <p class="hint" id=hint_id.clone()>{h}</p> });
+    let id_for = id.clone();
+    view! {
+        <div class="field" class:invalid=invalid>
+            <label for=id_for>{label}</label>
+            {hint_view}
+            <div class="field-row">
+                <input
+                    id=id
+                    type="text"
+                    inputmode="decimal"
+                    autocomplete="off"
+                    spellcheck="false"
+                    prop:value=move || text.get()
+                    aria-invalid=move || if invalid() { "true" } else { "false" }
+                    aria-describedby=described
+                    disabled=readonly
+                    on:input=on_input
+                />
+                {unit_picker}
+                {suffix_view}
+            </div>
+            {move || {
+                message()
+                    .map(|m| {
+                        view! {
+                            <p class="field-msg" id=msg_id.clone() data-testid=msg_id.clone() role="alert">
+                                {m}
+                            </p>
+                        }
+                    })
+            }}
+        </div>
+    }
+}
+
+/// One option of a [`Choice`].
+#[derive(Debug, Clone, PartialEq)]
+pub struct ChoiceOption {
+    /// Value reported on change.
+    pub value: String,
+    /// Visible text.
+    pub label: String,
+}
+
+impl ChoiceOption {
+    /// Build an option.
+    pub fn new(value: impl Into<String>, label: impl Into<String>) -> Self {
+        Self {
+            value: value.into(),
+            label: label.into(),
+        }
+    }
+}
+
+/// A segmented control: radio buttons in a fieldset with a legend.
+#[component]
+pub fn Choice(
+    /// Name of the radio group (unique on the page); option ids are `<name>-<value>`.
+    #[prop(into)]
+    name: String,
+    /// Legend.
+    #[prop(into)]
+    legend: String,
+    /// Options.
+    options: Vec<ChoiceOption>,
+    /// The selected value.
+    #[prop(into)]
+    selected: Signal<String>,
+    /// Receives the new value.
+    #[prop(into)]
+    on_change: Callback<String>,
+) -> impl IntoView {
+    let app = use_app();
+    let readonly = move || app.view.with(|v| v.readonly);
+    let items = options
+        .into_iter()
+        .map(|o| {
+            let id = format!("{name}-{}", o.value);
+            let v = o.value.clone();
+            let v2 = o.value.clone();
+            view! {
+                <input
+                    type="radio"
+                    class="seg-input"
+                    id=id.clone()
+                    name=name.clone()
+                    value=o.value.clone()
+                    data-testid=id.clone()
+                    prop:checked=move || selected.get() == v
+                    disabled=readonly
+                    on:change=move |_| on_change.run(v2.clone())
+                />
+                <label class="seg-label" for=id>{o.label}</label>
+            }
+        })
+        .collect_view();
+    view! {
+        <fieldset class="choice">
+            <legend>{legend}</legend>
+            <div class="seg">{items}</div>
+        </fieldset>
+    }
+}
+
+/// Label of a system in pickers: its name and its pK values at `t_c`
+/// (from the solver), or a note when its data do not reach `t_c`.
+pub fn system_label(sys: &AcidSystem, t_c: f64) -> String {
+    match system_pks(sys, t_c) {
+        Ok(pks) => {
+            let list: Vec<String> = pks.iter().map(|p| fmt_sig_fixed(*p, 2)).collect();
+            format!(
+                "{} — pK {} at {} °C",
+                sys.name,
+                list.join(", "),
+                fmt_input(t_c)
+            )
+        }
+        Err(_) => format!(
+            "{} — no data at {} °C ({}–{} °C)",
+            sys.name,
+            fmt_input(t_c),
+            fmt_input(sys.t_min_c),
+            fmt_input(sys.t_max_c)
+        ),
+    }
+}
+
+fn fmt_sig_fixed(v: f64, d: usize) -> String {
+    format!("{v:.d$}")
+}
+
+/// Does `sys` match a search text? Words match the name, id or species; a
+/// number matches systems with a pK within one unit of it at `t_c`.
+pub fn system_matches(sys: &AcidSystem, query: &str, t_c: f64) -> bool {
+    let q = query.trim().to_lowercase();
+    if q.is_empty() {
+        return true;
+    }
+    if let Ok(x) = crate::format::parse_number(&q) {
+        return system_pks(sys, t_c).is_ok_and(|pks| pks.iter().any(|p| (p - x).abs() <= 1.0));
+    }
+    sys.name.to_lowercase().contains(&q)
+        || sys.id.contains(&q)
+        || sys.species.iter().any(|s| s.to_lowercase().contains(&q))
+        || sys
+            .forms
+            .iter()
+            .any(|f| f.name.to_lowercase().contains(&q) || f.formula.to_lowercase().contains(&q))
+}
+
+/// All systems the design can use: its custom ones, then the library.
+pub fn all_systems(custom: &[AcidSystem]) -> Vec<AcidSystem> {
+    custom.iter().chain(library().iter()).cloned().collect()
+}
+
+/// A searchable system picker: a search box (name, species, formula, or a pH
+/// to find systems with a pK near it) filtering a labelled list whose entries
+/// show each system's pK values at the working temperature.
+#[component]
+pub fn SystemPicker(
+    /// DOM id of the select; the search box is `<id>-search`.
+    #[prop(into)]
+    id: String,
+    /// Visible label.
+    #[prop(into)]
+    label: String,
+    /// Selected system id.
+    #[prop(into)]
+    selected: Signal<String>,
+    /// Temperature for the pK values, °C.
+    #[prop(into)]
+    temperature: Signal<f64>,
+    /// Receives the chosen system id.
+    #[prop(into)]
+    on_change: Callback<String>,
+) -> impl IntoView {
+    let app = use_app();
+    let readonly = move || app.view.with(|v| v.readonly);
+    let query = RwSignal::new(String::new());
+    let custom = Memo::new(move |_| app.design.with(|d| d.custom_systems.clone()));
+    let shown = Memo::new(move |_| {
+        let t = temperature.get();
+        let q = query.get();
+        let sel = selected.get();
+        custom.with(|c| {
+            let mut v: Vec<(String, String)> = all_systems(c)
+                .iter()
+                .filter(|s| s.id == sel || system_matches(s, &q, t))
+                .map(|s| (s.id.clone(), system_label(s, t)))
+                .collect();
+            if !v.iter().any(|(i, _)| *i == sel) {
+                v.insert(0, (sel.clone(), format!("{sel} (not in the library)")));
+            }
+            v
+        })
+    });
+    let count = move || shown.with(Vec::len);
+    let search_id = format!("{id}-search");
+    let search_label = format!("{label}: search");
+    view! {
+        <div class="field system-picker">
+            <label for=id.clone()>{label}</label>
+            <input
+                type="search"
+                id=search_id
+                class="search"
+                placeholder="Search by name, formula or a pH such as 7.4"
+                aria-label=search_label
+                autocomplete="off"
+                prop:value=move || query.get()
+                on:input=move |ev| query.set(event_target_value(&ev))
+            />
+            <select
+                id=id
+                data-testid="system-select"
+                disabled=readonly
+                prop:value=move || selected.get()
+                on:change=move |ev| on_change.run(event_target_value(&ev))
+            >
+                {move || {
+                    shown
+                        .get()
+                        .into_iter()
+                        .map(|(sid, text)| {
+                            let s2 = sid.clone();
+                            view! {
+                                <option value=sid selected=move || selected.get() == s2>
+                                    {text}
+                                </option>
+                            }
+                        })
+                        .collect_view()
+                }}
+            </select>
+            <p class="hint" aria-live="polite">
+                {move || {
+                    let n = count();
+                    if query.with(|q| q.trim().is_empty()) {
+                        format!("{n} systems")
+                    } else {
+                        format!("{n} shown (the selected one always stays in the list)")
+                    }
+                }}
+            </p>
+        </div>
+    }
+}

@@ -2,6 +2,7 @@
 
 use leptos::prelude::*;
 use solver::design::{demo_design, Design};
+use std::collections::BTreeSet;
 
 /// How the page is shown (from URL parameters).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -26,6 +27,10 @@ pub struct AppState {
     pub revision: RwSignal<u64>,
     /// View options.
     pub view: RwSignal<ViewOptions>,
+    /// Ids of the input fields whose typed text is not valid right now (the
+    /// design still holds their last valid value, so results that depend on
+    /// them are stale and the workspaces say so instead of showing numbers).
+    pub pending: RwSignal<BTreeSet<String>>,
 }
 
 impl AppState {
@@ -35,13 +40,39 @@ impl AppState {
             design: RwSignal::new(demo_design()),
             revision: RwSignal::new(0),
             view: RwSignal::new(ViewOptions::default()),
+            pending: RwSignal::new(BTreeSet::new()),
         }
     }
 
     /// Replace the whole design (load, import, share link) and tell inputs to re-read.
     pub fn load(&self, d: Design) {
         self.design.set(d);
+        self.pending.update(BTreeSet::clear);
         self.revision.update(|r| *r += 1);
+    }
+
+    /// Record whether the input `id` holds valid text (called from input handlers).
+    pub fn mark_field(&self, id: &str, valid: bool) {
+        let known = self.pending.with_untracked(|p| p.contains(id));
+        if valid && known {
+            self.pending.update(|p| {
+                p.remove(id);
+            });
+        } else if !valid && !known {
+            self.pending.update(|p| {
+                p.insert(id.to_string());
+            });
+        }
+    }
+
+    /// Ids of invalid fields whose id starts with `prefix` (`recipe-`, `mixture-`...).
+    pub fn pending_in(&self, prefix: &str) -> Vec<String> {
+        self.pending.with(|p| {
+            p.iter()
+                .filter(|id| id.starts_with(prefix))
+                .cloned()
+                .collect()
+        })
     }
 }
 

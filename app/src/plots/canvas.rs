@@ -1,0 +1,322 @@
+//! The plot canvas: backing store at CSS size × devicePixelRatio, redrawn on resize, ratio change and data change.
+//!
+//! plotters-canvas lays out in backing-store pixels, which is blurry on
+//! tablets. [`HiDpiCanvas`] wraps it: it reports the CSS size to plotters and
+//! the 2D context carries a `set_transform` scale (absolute, never cumulative)
+//! so every line and glyph is drawn at full device resolution.
+
+use super::draw::Frame;
+use leptos::html::Canvas;
+use leptos::prelude::*;
+use plotters::coord::Shift;
+use plotters::prelude::*;
+use plotters_backend::{
+    BackendColor, BackendCoord, BackendStyle, BackendTextStyle, DrawingErrorKind,
+};
+use plotters_canvas::CanvasBackend;
+use std::cell::RefCell;
+use std::rc::Rc;
+use wasm_bindgen::closure::Closure;
+use wasm_bindgen::JsCast;
+use web_sys::{CanvasRenderingContext2d, HtmlCanvasElement, MediaQueryList, ResizeObserver};
+
+/// A canvas backend that lays out in CSS pixels over a device-pixel backing store.
+pub struct HiDpiCanvas {
+    inner: CanvasBackend,
+    size: (u32, u32),
+}
+
+type CanvasError = <CanvasBackend as DrawingBackend>::ErrorType;
+
+impl DrawingBackend for HiDpiCanvas {
+    type ErrorType = CanvasError;
+
+    fn get_size(&self) -> (u32, u32) {
+        self.size
+    }
+    fn ensure_prepared(&mut self) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.ensure_prepared()
+    }
+    fn present(&mut self) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.present()
+    }
+    fn draw_pixel(
+        &mut self,
+        point: BackendCoord,
+        color: BackendColor,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_pixel(point, color)
+    }
+    fn draw_line<S: BackendStyle>(
+        &mut self,
+        from: BackendCoord,
+        to: BackendCoord,
+        style: &S,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_line(from, to, style)
+    }
+    fn draw_rect<S: BackendStyle>(
+        &mut self,
+        upper_left: BackendCoord,
+        bottom_right: BackendCoord,
+        style: &S,
+        fill: bool,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_rect(upper_left, bottom_right, style, fill)
+    }
+    fn draw_path<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
+        &mut self,
+        path: I,
+        style: &S,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_path(path, style)
+    }
+    fn draw_circle<S: BackendStyle>(
+        &mut self,
+        center: BackendCoord,
+        radius: u32,
+        style: &S,
+        fill: bool,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_circle(center, radius, style, fill)
+    }
+    fn fill_polygon<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
+        &mut self,
+        vert: I,
+        style: &S,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.fill_polygon(vert, style)
+    }
+    fn draw_text<TStyle: BackendTextStyle>(
+        &mut self,
+        text: &str,
+        style: &TStyle,
+        pos: BackendCoord,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_text(text, style, pos)
+    }
+}
+
+/// The drawing area the page's plots paint into.
+pub type CanvasArea = DrawingArea<HiDpiCanvas, Shift>;
+
+/// CSS size and device pixel ratio of a canvas.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct Size {
+    /// CSS width, px.
+    pub w: f64,
+    /// CSS height, px.
+    pub h: f64,
+    /// `window.devicePixelRatio`.
+    pub dpr: f64,
+}
+
+fn device_pixel_ratio() -> f64 {
+    web_sys::window()
+        .map(|w| w.device_pixel_ratio())
+        .filter(|r| r.is_finite() && *r > 0.0)
+        .unwrap_or(1.0)
+}
+
+fn measure(canvas: &HtmlCanvasElement) -> Size {
+    let rect = canvas.get_bounding_client_rect();
+    Size {
+        w: rect.width(),
+        h: rect.height(),
+        dpr: device_pixel_ratio(),
+    }
+}
+
+fn now_ms() -> f64 {
+    web_sys::window()
+        .and_then(|w| w.performance())
+        .map_or(0.0, |p| p.now())
+}
+
+/// Size the backing store, set the scale, and run `paint` on a CSS-pixel area.
+fn repaint<P>(canvas: &HtmlCanvasElement, size: Size, paint: &P) -> Option<Frame>
+where
+    P: Fn(&CanvasArea) -> Option<Frame>,
+{
+    if size.w < 2.0 || size.h < 2.0 {
+        return None; // hidden (display: none) or not laid out yet
+    }
+    let bw = (size.w * size.dpr).round().max(1.0);
+    let bh = (size.h * size.dpr).round().max(1.0);
+    // Setting width/height clears the canvas and resets the context state.
+    if f64::from(canvas.width()) != bw {
+        canvas.set_width(bw as u32);
+    }
+    if f64::from(canvas.height()) != bh {
+        canvas.set_height(bh as u32);
+    }
+    let ctx: CanvasRenderingContext2d = canvas.get_context("2d").ok()??.dyn_into().ok()?;
+    // Absolute transform: CSS px → device px, whatever was set before.
+    ctx.set_transform(bw / size.w, 0.0, 0.0, bh / size.h, 0.0, 0.0)
+        .ok()?;
+    ctx.set_line_join("round");
+    let backend = HiDpiCanvas {
+        inner: CanvasBackend::with_canvas_object(canvas.clone())?,
+        size: (size.w.floor() as u32, size.h.floor() as u32),
+    };
+    let area = backend.into_drawing_area();
+    let frame = paint(&area);
+    let _ = area.present();
+    frame
+}
+
+type SharedClosure = Rc<RefCell<Option<Closure<dyn FnMut()>>>>;
+
+/// Watches `(resolution: Ndppx)` so a move to a screen with another pixel ratio
+/// (or a zoom) re-measures; re-armed with the new ratio on every change.
+#[derive(Clone)]
+struct DprWatch {
+    query: Rc<RefCell<Option<MediaQueryList>>>,
+    handler: SharedClosure,
+}
+
+impl DprWatch {
+    fn start(on_change: Rc<dyn Fn()>) -> Self {
+        let watch = DprWatch {
+            query: Rc::new(RefCell::new(None)),
+            handler: Rc::new(RefCell::new(None)),
+        };
+        let again = watch.clone();
+        let cb = Closure::<dyn FnMut()>::new(move || {
+            on_change();
+            again.arm();
+        });
+        *watch.handler.borrow_mut() = Some(cb);
+        watch.arm();
+        watch
+    }
+
+    fn arm(&self) {
+        if let Some(old) = self.query.borrow_mut().take() {
+            old.set_onchange(None);
+        }
+        let q = format!("(resolution: {}dppx)", device_pixel_ratio());
+        let mql = web_sys::window().and_then(|w| w.match_media(&q).ok().flatten());
+        if let (Some(mql), Some(cb)) = (mql, self.handler.borrow().as_ref()) {
+            mql.set_onchange(Some(cb.as_ref().unchecked_ref()));
+            *self.query.borrow_mut() = Some(mql);
+        }
+    }
+
+    fn stop(&self) {
+        if let Some(old) = self.query.borrow_mut().take() {
+            old.set_onchange(None);
+        }
+        self.handler.borrow_mut().take();
+    }
+}
+
+/// A plot on a canvas with class `plot`.
+///
+/// `paint` draws the whole plot and returns its frame; it runs inside an
+/// effect, so the signals it reads (data, options, cursor) trigger a redraw,
+/// as do size and pixel-ratio changes. `on_point` receives the data x under
+/// the pointer; `on_step` receives −1/+1 (±10 with Shift) from the arrow
+/// keys, so the readout works without a pointer too.
+#[component]
+pub fn PlotCanvas<P>(
+    /// `data-testid` of the canvas.
+    testid: &'static str,
+    /// Accessible summary (the canvas is `role="img"`).
+    #[prop(into)]
+    label: Signal<String>,
+    /// Paints the plot.
+    paint: P,
+    /// Pointer position in data units.
+    on_point: Callback<f64>,
+    /// Keyboard steps.
+    on_step: Callback<i32>,
+) -> impl IntoView
+where
+    P: Fn(&CanvasArea) -> Option<Frame> + 'static,
+{
+    let canvas_ref = NodeRef::<Canvas>::new();
+    let size = RwSignal::new(Size::default());
+    let frame = StoredValue::new(None::<Frame>);
+    let observer = StoredValue::new_local(None::<(ResizeObserver, Closure<dyn FnMut()>)>);
+    let dpr_watch = StoredValue::new_local(None::<DprWatch>);
+    let draws = StoredValue::new(0_u64);
+
+    canvas_ref.on_load(move |canvas: HtmlCanvasElement| {
+        let remeasure: Rc<dyn Fn()> = {
+            let canvas = canvas.clone();
+            Rc::new(move || {
+                let s = measure(&canvas);
+                if size.get_untracked() != s {
+                    size.set(s);
+                }
+            })
+        };
+        let on_resize = remeasure.clone();
+        let cb = Closure::<dyn FnMut()>::new(move || on_resize());
+        if let Ok(ro) = ResizeObserver::new(cb.as_ref().unchecked_ref()) {
+            ro.observe(&canvas);
+            observer.set_value(Some((ro, cb)));
+        }
+        dpr_watch.set_value(Some(DprWatch::start(remeasure.clone())));
+        remeasure();
+    });
+    on_cleanup(move || {
+        observer.update_value(|o| {
+            if let Some((ro, _)) = o.take() {
+                ro.disconnect();
+            }
+        });
+        dpr_watch.update_value(|w| {
+            if let Some(w) = w.take() {
+                w.stop();
+            }
+        });
+    });
+
+    // Sync with the canvas: the only effect here.
+    Effect::new(move |_| {
+        let s = size.get();
+        let Some(canvas) = canvas_ref.get() else {
+            return;
+        };
+        let t0 = now_ms();
+        let f = repaint(&canvas, s, &paint);
+        if f.is_some() {
+            frame.set_value(f);
+            draws.update_value(|n| *n += 1);
+            let t1 = now_ms();
+            let _ = canvas.set_attribute("data-draw-count", &draws.get_value().to_string());
+            let _ = canvas.set_attribute("data-draw-ms", &format!("{:.2}", t1 - t0));
+            let _ = canvas.set_attribute("data-drawn-at", &format!("{t1:.2}"));
+        }
+    });
+
+    let point = move |x: i32| {
+        if let Some(v) = frame.get_value().and_then(|f| f.x_at(f64::from(x))) {
+            on_point.run(v);
+        }
+    };
+    view! {
+        <canvas
+            node_ref=canvas_ref
+            class="plot"
+            data-testid=testid
+            role="img"
+            tabindex="0"
+            aria-label=move || label.get()
+            on:pointermove=move |ev| point(ev.offset_x())
+            on:pointerdown=move |ev| point(ev.offset_x())
+            on:keydown=move |ev| {
+                let step = if ev.shift_key() { 10 } else { 1 };
+                let dir = match ev.key().as_str() {
+                    "ArrowLeft" | "ArrowDown" => -step,
+                    "ArrowRight" | "ArrowUp" => step,
+                    _ => return,
+                };
+                ev.prevent_default();
+                on_step.run(dir);
+            }
+        ></canvas>
+    }
+}

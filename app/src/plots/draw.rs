@@ -1,0 +1,780 @@
+//! Drawing the three plots, generic over the plotters backend (canvas in the page, SVG in tests).
+//!
+//! Each `draw_*` function paints a whole plot into the given area and returns
+//! the [`Frame`] of its plotting rectangle, which the page uses to map a
+//! pointer position back to a pH or an added amount. Sizes are in CSS pixels:
+//! the page's canvas backend scales to device pixels underneath.
+
+use super::data::{added_label, short, sig, PlotData, Quantity, PH_MAX, PH_MIN};
+use plotters::coord::types::RangedCoordf64;
+use plotters::coord::{CoordTranslate, Shift};
+use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
+
+/// Species colours: our own palette, each at least 3:1 against white.
+pub const PALETTE: [RGBColor; 8] = [
+    RGBColor(0x1d, 0x5f, 0xa6),
+    RGBColor(0xc0, 0x4a, 0x0b),
+    RGBColor(0x0e, 0x7c, 0x5a),
+    RGBColor(0x9c, 0x27, 0x7b),
+    RGBColor(0x5b, 0x45, 0xb8),
+    RGBColor(0x8a, 0x6a, 0x00),
+    RGBColor(0xb4, 0x23, 0x3c),
+    RGBColor(0x2c, 0x6e, 0x7f),
+];
+/// Text and the working-pH marker.
+pub const INK: RGBColor = RGBColor(0x1b, 0x1f, 0x24);
+/// Axis labels and pK markers.
+pub const MUTED: RGBColor = RGBColor(0x5f, 0x66, 0x70);
+/// Grid lines.
+pub const GRID: RGBColor = RGBColor(0xe3, 0xe7, 0xeb);
+/// Pointer cursor.
+pub const CURSOR: RGBColor = RGBColor(0x8a, 0x93, 0x9e);
+/// Buffer capacity curve.
+pub const CAPACITY: RGBColor = RGBColor(0x0f, 0x6b, 0x74);
+/// Titration curve.
+pub const TITRATION: RGBColor = RGBColor(0x3d, 0x3a, 0x9e);
+
+/// Font family for every plot label: generic, measured by the browser.
+const FAMILY: &str = "sans-serif";
+const FONT_PX: f64 = 13.0;
+const SMALL_PX: f64 = 12.0;
+const LEGEND_ROW: i32 = 20;
+
+/// Species colour for series `i`.
+pub fn species_color(i: usize) -> RGBColor {
+    PALETTE.get(i % PALETTE.len()).copied().unwrap_or(INK)
+}
+
+/// The plotting rectangle (CSS px) and the data ranges it shows.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Frame {
+    /// Left edge, px.
+    pub left: i32,
+    /// Right edge, px.
+    pub right: i32,
+    /// Top edge, px.
+    pub top: i32,
+    /// Bottom edge, px.
+    pub bottom: i32,
+    /// Data x at the left and right edges.
+    pub x: (f64, f64),
+}
+
+impl Frame {
+    /// Data x under pixel column `px` (clamped to the range), or `None` when the
+    /// frame is degenerate.
+    pub fn x_at(&self, px: f64) -> Option<f64> {
+        let w = f64::from(self.right - self.left);
+        if w < 1.0 {
+            return None;
+        }
+        let t = ((px - f64::from(self.left)) / w).clamp(0.0, 1.0);
+        Some(self.x.0 + t * (self.x.1 - self.x.0))
+    }
+}
+
+/// What a legend entry's swatch looks like.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum Swatch {
+    Line(RGBColor),
+    Dashed(RGBColor),
+    Dot(RGBColor),
+}
+
+type DrawResult<T, DB> = Result<T, DrawingAreaErrorKind<<DB as DrawingBackend>::ErrorType>>;
+
+fn font(px: f64) -> TextStyle<'static> {
+    TextStyle::from((FAMILY, px).into_font()).color(&INK)
+}
+
+fn line(color: RGBColor, width: u32) -> ShapeStyle {
+    ShapeStyle {
+        color: color.to_rgba(),
+        filled: false,
+        stroke_width: width,
+    }
+}
+
+/// Short axis tick text: at most three decimals, trailing zeros dropped.
+pub fn tick(v: f64) -> String {
+    if v.abs() < 1e-9 {
+        return "0".into();
+    }
+    let s = format!("{v:.3}");
+    let s = s.trim_end_matches('0').trim_end_matches('.');
+    s.to_string()
+}
+
+/// Lay legend entries out in rows across `width`; returns (x, row) for each entry and the row count.
+fn legend_layout<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    labels: &[String],
+) -> (Vec<(i32, i32)>, i32) {
+    let width = i32::try_from(area.dim_in_pixel().0).unwrap_or(i32::MAX);
+    let style = font(FONT_PX);
+    let mut x = 8;
+    let mut row = 0;
+    let mut pos = Vec::with_capacity(labels.len());
+    for label in labels {
+        let tw = area
+            .estimate_text_size(label, &style)
+            .map_or(8 * label.chars().count() as i32, |(w, _)| {
+                i32::try_from(w).unwrap_or(0)
+            });
+        let w = 28 + tw + 14;
+        if x > 8 && x + w > width - 8 {
+            row += 1;
+            x = 8;
+        }
+        pos.push((x, row));
+        x += w;
+    }
+    (pos, row + 1)
+}
+
+/// Draw the legend at the top of `area`; returns the remaining area below it.
+fn legend<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    entries: &[(Swatch, String)],
+) -> DrawResult<DrawingArea<DB, Shift>, DB> {
+    let labels: Vec<String> = entries.iter().map(|e| e.1.clone()).collect();
+    let (pos, rows) = legend_layout(area, &labels);
+    let (top, rest) = area.split_vertically(rows * LEGEND_ROW + 8);
+    let style = font(FONT_PX).pos(Pos::new(HPos::Left, VPos::Center));
+    for ((swatch, label), (x, row)) in entries.iter().zip(pos) {
+        let y = 6 + row * LEGEND_ROW + LEGEND_ROW / 2;
+        match swatch {
+            Swatch::Line(c) => {
+                top.draw(&PathElement::new(vec![(x, y), (x + 22, y)], line(*c, 3)))?;
+            }
+            Swatch::Dashed(c) => {
+                for k in 0..3 {
+                    let x0 = x + k * 8;
+                    top.draw(&PathElement::new(vec![(x0, y), (x0 + 5, y)], line(*c, 2)))?;
+                }
+            }
+            Swatch::Dot(c) => {
+                top.draw(&Circle::new((x + 11, y), 4, c.filled()))?;
+            }
+        }
+        top.draw(&Text::new(label.clone(), (x + 28, y), style.clone()))?;
+    }
+    Ok(rest)
+}
+
+/// A message in the middle of an otherwise empty plot (no data to show).
+///
+/// # Errors
+///
+/// Backend drawing errors.
+pub fn draw_message<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    message: &str,
+) -> DrawResult<(), DB> {
+    area.fill(&WHITE)?;
+    let (w, h) = area.dim_in_pixel();
+    let center = (
+        i32::try_from(w / 2).unwrap_or(0),
+        i32::try_from(h / 2).unwrap_or(0),
+    );
+    let style = font(FONT_PX)
+        .color(&MUTED)
+        .pos(Pos::new(HPos::Center, VPos::Center));
+    area.draw(&Text::new(message.to_string(), center, style))?;
+    Ok(())
+}
+
+fn frame_of<DB: DrawingBackend, CT: CoordTranslate>(
+    area: &DrawingArea<DB, CT>,
+    x: (f64, f64),
+) -> Frame {
+    let (xr, yr) = area.get_pixel_range();
+    Frame {
+        left: xr.start,
+        right: xr.end,
+        top: yr.start,
+        bottom: yr.end,
+        x,
+    }
+}
+
+/// pK entry for a legend: "pKa (I = 0, 37 °C): 2.15, 7.20, 12.3".
+fn pk_legend(data: &PlotData) -> String {
+    let list: Vec<String> = data
+        .pk_marks()
+        .iter()
+        .map(|(_, _, pk)| format!("{pk:.2}"))
+        .collect();
+    format!(
+        "pKa at {} °C, I = 0: {}",
+        short(data.temperature_c, 3),
+        list.join(", ")
+    )
+}
+
+/// Draw the dashed pK lines (vertical, on a pH x-axis) with their values in the top margin.
+fn pk_lines_vertical<DB: DrawingBackend>(
+    chart: &mut ChartContext<'_, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>,
+    data: &PlotData,
+    y_top: f64,
+) -> DrawResult<(), DB> {
+    let mut last_right = i32::MIN;
+    let label_style = font(SMALL_PX)
+        .color(&MUTED)
+        .pos(Pos::new(HPos::Center, VPos::Bottom));
+    for (_, step, pk) in data.pk_marks() {
+        if !(PH_MIN..=PH_MAX).contains(&pk) {
+            continue;
+        }
+        chart.draw_series(DashedLineSeries::new(
+            vec![(pk, 0.0), (pk, y_top)],
+            5,
+            4,
+            line(MUTED, 1),
+        ))?;
+        let (px, py) = chart.backend_coord(&(pk, y_top));
+        let text = format!("pK{} {pk:.2}", subscript(step));
+        let half = 4 * text.chars().count() as i32;
+        if px - half > last_right {
+            let root = chart.plotting_area().strip_coord_spec();
+            let (ox, oy) = {
+                let (xr, yr) = root.get_pixel_range();
+                (xr.start, yr.start)
+            };
+            root.draw(&Text::new(
+                text,
+                (px - ox, py - oy - 3),
+                label_style.clone(),
+            ))?;
+            last_right = px + half;
+        }
+    }
+    Ok(())
+}
+
+fn subscript(n: usize) -> String {
+    n.to_string()
+        .chars()
+        .map(|c| match c {
+            '0' => '₀',
+            '1' => '₁',
+            '2' => '₂',
+            '3' => '₃',
+            '4' => '₄',
+            '5' => '₅',
+            '6' => '₆',
+            '7' => '₇',
+            '8' => '₈',
+            '9' => '₉',
+            other => other,
+        })
+        .collect()
+}
+
+/// Species plot: the fraction (or concentration) of every species over pH 0–14,
+/// with pK markers, the working pH and an optional pointer cursor.
+///
+/// # Errors
+///
+/// Backend drawing errors.
+pub fn draw_species<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    data: &PlotData,
+    quantity: Quantity,
+    cursor: Option<f64>,
+) -> DrawResult<Frame, DB> {
+    area.fill(&WHITE)?;
+    let mut entries: Vec<(Swatch, String)> = data
+        .series
+        .iter()
+        .enumerate()
+        .map(|(i, s)| (Swatch::Line(species_color(i)), data.label(s)))
+        .collect();
+    entries.push((Swatch::Line(INK), format!("working pH {:.2}", data.ph)));
+    entries.push((Swatch::Dashed(MUTED), pk_legend(data)));
+    let plot_area = legend(area, &entries)?;
+
+    let (y_top, y_desc) = match quantity {
+        Quantity::Fraction => (1.0, "fraction of system total"),
+        Quantity::Concentration => (
+            super::data::nice_ceiling(data.max_total_mm() * 1.02),
+            "concentration, mmol/L",
+        ),
+    };
+    let mut chart = ChartBuilder::on(&plot_area)
+        .margin_top(18)
+        .margin_right(16)
+        .margin_left(6)
+        .x_label_area_size(42)
+        .y_label_area_size(60)
+        .build_cartesian_2d(PH_MIN..PH_MAX, 0.0..y_top)?;
+    let y_fmt = |v: &f64| tick(*v);
+    let x_fmt = |v: &f64| tick(*v);
+    chart
+        .configure_mesh()
+        .x_labels(15)
+        .y_labels(6)
+        .max_light_lines(0)
+        .bold_line_style(GRID)
+        .axis_style(MUTED)
+        .x_label_formatter(&x_fmt)
+        .y_label_formatter(&y_fmt)
+        .label_style(font(SMALL_PX))
+        .axis_desc_style(font(FONT_PX))
+        .x_desc("pH")
+        .y_desc(y_desc)
+        .draw()?;
+    pk_lines_vertical(&mut chart, data, y_top)?;
+
+    for (i, s) in data.series.iter().enumerate() {
+        let pts = data
+            .grid
+            .iter()
+            .enumerate()
+            .map(|(j, x)| (*x, data.value(s, j, quantity)));
+        chart.draw_series(LineSeries::new(pts, line(species_color(i), 2)))?;
+    }
+    chart.draw_series(std::iter::once(PathElement::new(
+        vec![(data.ph, 0.0), (data.ph, y_top)],
+        line(INK, 2),
+    )))?;
+    if let Some(c) = cursor.and_then(|c| super::data::nearest(&data.grid, c)) {
+        if let Some(x) = data.grid.get(c).copied() {
+            chart.draw_series(std::iter::once(PathElement::new(
+                vec![(x, 0.0), (x, y_top)],
+                line(CURSOR, 1),
+            )))?;
+            for (i, s) in data.series.iter().enumerate() {
+                let y = data.value(s, c, quantity);
+                chart.draw_series(std::iter::once(Circle::new(
+                    (x, y),
+                    4,
+                    species_color(i).filled(),
+                )))?;
+            }
+        }
+    }
+    Ok(frame_of(chart.plotting_area(), (PH_MIN, PH_MAX)))
+}
+
+/// Split a curve into the runs that stay within `y ≤ top`, cutting each run
+/// where it crosses `top` (linear between grid points).
+pub fn clip_top(xs: &[f64], ys: &[f64], top: f64) -> Vec<Vec<(f64, f64)>> {
+    let mut runs: Vec<Vec<(f64, f64)>> = Vec::new();
+    let mut cur: Vec<(f64, f64)> = Vec::new();
+    let mut prev: Option<(f64, f64)> = None;
+    for (&x, &y) in xs.iter().zip(ys.iter()) {
+        if !y.is_finite() {
+            continue;
+        }
+        if let Some((px, py)) = prev {
+            let crossing = (py <= top) != (y <= top);
+            if crossing && (y - py).abs() > 0.0 {
+                let t = (top - py) / (y - py);
+                cur.push((px + t * (x - px), top));
+                if y > top {
+                    runs.push(std::mem::take(&mut cur));
+                }
+            }
+        }
+        if y <= top {
+            cur.push((x, y));
+        }
+        prev = Some((x, y));
+    }
+    if !cur.is_empty() {
+        runs.push(cur);
+    }
+    runs.retain(|r| r.len() > 1);
+    runs
+}
+
+/// Buffer capacity plot: β (mmol/(L·pH)) over pH 0–14, clipped where water's
+/// own capacity runs off the scale.
+///
+/// # Errors
+///
+/// Backend drawing errors.
+pub fn draw_capacity<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    data: &PlotData,
+    cursor: Option<f64>,
+) -> DrawResult<Frame, DB> {
+    area.fill(&WHITE)?;
+    let entries = vec![
+        (Swatch::Line(CAPACITY), "buffer capacity β".to_string()),
+        (
+            Swatch::Line(INK),
+            format!(
+                "working pH {:.2} (β = {} mM/pH)",
+                data.ph,
+                sig(data.capacity_at_ph * 1000.0, 3)
+            ),
+        ),
+        (Swatch::Dashed(MUTED), pk_legend(data)),
+    ];
+    let plot_area = legend(area, &entries)?;
+    let top = data.capacity_ceiling();
+    let mut chart = ChartBuilder::on(&plot_area)
+        .margin_top(18)
+        .margin_right(16)
+        .margin_left(6)
+        .x_label_area_size(42)
+        .y_label_area_size(60)
+        .build_cartesian_2d(PH_MIN..PH_MAX, 0.0..top)?;
+    let fmt = |v: &f64| tick(*v);
+    chart
+        .configure_mesh()
+        .x_labels(15)
+        .y_labels(6)
+        .max_light_lines(0)
+        .bold_line_style(GRID)
+        .axis_style(MUTED)
+        .x_label_formatter(&fmt)
+        .y_label_formatter(&fmt)
+        .label_style(font(SMALL_PX))
+        .axis_desc_style(font(FONT_PX))
+        .x_desc("pH")
+        .y_desc("β, mmol/(L·pH)")
+        .draw()?;
+    pk_lines_vertical(&mut chart, data, top)?;
+    let filled: Vec<(f64, f64)> = data
+        .grid
+        .iter()
+        .zip(data.capacity_mm.iter())
+        .map(|(x, b)| (*x, b.min(top)))
+        .collect();
+    chart.draw_series(AreaSeries::new(filled, 0.0, CAPACITY.mix(0.12)))?;
+    for run in clip_top(&data.grid, &data.capacity_mm, top) {
+        chart.draw_series(LineSeries::new(run, line(CAPACITY, 2)))?;
+    }
+    chart.draw_series(std::iter::once(PathElement::new(
+        vec![(data.ph, 0.0), (data.ph, top)],
+        line(INK, 2),
+    )))?;
+    if let Some(c) = cursor.and_then(|c| super::data::nearest(&data.grid, c)) {
+        if let (Some(x), Some(b)) = (data.grid.get(c), data.capacity_mm.get(c)) {
+            chart.draw_series(std::iter::once(PathElement::new(
+                vec![(*x, 0.0), (*x, top)],
+                line(CURSOR, 1),
+            )))?;
+            if *b <= top {
+                chart.draw_series(std::iter::once(Circle::new((*x, *b), 4, CAPACITY.filled())))?;
+            }
+        }
+    }
+    Ok(frame_of(chart.plotting_area(), (PH_MIN, PH_MAX)))
+}
+
+/// Titration plot: pH against strong acid (left, HCl) or base (right, NaOH)
+/// added, mmol/L, with the starting point and pK levels marked.
+///
+/// # Errors
+///
+/// Backend drawing errors.
+pub fn draw_titration<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    data: &PlotData,
+    cursor: Option<f64>,
+) -> DrawResult<Frame, DB> {
+    area.fill(&WHITE)?;
+    let x0 = data.added_mm.first().copied().unwrap_or(-1.0);
+    let x1 = data.added_mm.last().copied().unwrap_or(1.0);
+    let (x0, x1) = if x1 > x0 { (x0, x1) } else { (-1.0, 1.0) };
+    let entries = vec![
+        (Swatch::Line(TITRATION), "pH after adding".to_string()),
+        (
+            Swatch::Dot(INK),
+            format!("start: nothing added, pH {:.2}", data.ph),
+        ),
+        (Swatch::Dashed(MUTED), pk_legend(data)),
+    ];
+    let plot_area = legend(area, &entries)?;
+    let mut chart = ChartBuilder::on(&plot_area)
+        .margin_top(10)
+        .margin_right(16)
+        .margin_left(6)
+        .x_label_area_size(42)
+        .y_label_area_size(60)
+        .build_cartesian_2d(x0..x1, PH_MIN..PH_MAX)?;
+    let x_fmt = |v: &f64| tick(v.abs());
+    let y_fmt = |v: &f64| tick(*v);
+    chart
+        .configure_mesh()
+        .x_labels(9)
+        .y_labels(8)
+        .max_light_lines(0)
+        .bold_line_style(GRID)
+        .axis_style(MUTED)
+        .x_label_formatter(&x_fmt)
+        .y_label_formatter(&y_fmt)
+        .label_style(font(SMALL_PX))
+        .axis_desc_style(font(FONT_PX))
+        .x_desc("← HCl added   mmol/L   NaOH added →")
+        .y_desc("pH")
+        .draw()?;
+    let pk_label = font(SMALL_PX)
+        .color(&MUTED)
+        .pos(Pos::new(HPos::Right, VPos::Bottom));
+    for (_, step, pk) in data.pk_marks() {
+        if !(PH_MIN..=PH_MAX).contains(&pk) {
+            continue;
+        }
+        chart.draw_series(DashedLineSeries::new(
+            vec![(x0, pk), (x1, pk)],
+            5,
+            4,
+            line(MUTED, 1),
+        ))?;
+        chart.draw_series(std::iter::once(Text::new(
+            format!("pK{} {pk:.2}", subscript(step)),
+            (x1, pk),
+            pk_label.clone(),
+        )))?;
+    }
+    chart.draw_series(std::iter::once(PathElement::new(
+        vec![(0.0, PH_MIN), (0.0, PH_MAX)],
+        line(GRID, 1),
+    )))?;
+    let pts = data
+        .added_mm
+        .iter()
+        .zip(data.titration_ph.iter())
+        .map(|(x, y)| (*x, *y));
+    chart.draw_series(LineSeries::new(pts, line(TITRATION, 2)))?;
+    chart.draw_series(std::iter::once(Circle::new(
+        (0.0, data.ph),
+        5,
+        INK.filled(),
+    )))?;
+    if let Some((x, y)) = cursor.and_then(|c| data.titration_at(c)) {
+        chart.draw_series(std::iter::once(PathElement::new(
+            vec![(x, PH_MIN), (x, PH_MAX)],
+            line(CURSOR, 1),
+        )))?;
+        chart.draw_series(std::iter::once(Circle::new((x, y), 4, TITRATION.filled())))?;
+    }
+    Ok(frame_of(chart.plotting_area(), (x0, x1)))
+}
+
+/// Text for the canvas `aria-label` of the species plot.
+pub fn species_summary(data: &PlotData) -> String {
+    let at = data
+        .species_at(data.ph)
+        .map(|(_, v, _)| {
+            v.iter()
+                .filter(|s| s.fraction >= 0.005)
+                .map(|s| format!("{} {:.0} %", s.label, s.fraction * 100.0))
+                .collect::<Vec<_>>()
+                .join(", ")
+        })
+        .unwrap_or_default();
+    format!(
+        "Species fractions from pH 0 to 14. At the working pH {:.2}: {at}. {}.",
+        data.ph,
+        pk_legend(data)
+    )
+}
+
+/// Text for the canvas `aria-label` of the capacity plot.
+pub fn capacity_summary(data: &PlotData) -> String {
+    let peak = data
+        .pk_marks()
+        .iter()
+        .filter_map(|m| super::data::nearest(&data.grid, m.2))
+        .filter_map(|i| Some((*data.grid.get(i)?, *data.capacity_mm.get(i)?)))
+        .filter(|(x, _)| (2.0..=12.0).contains(x))
+        .max_by(|a, b| a.1.total_cmp(&b.1));
+    let peak = peak.map_or(String::new(), |(x, b)| {
+        format!(
+            " The buffer peak near pH {x:.1} reaches {} mM/pH.",
+            sig(b, 3)
+        )
+    });
+    format!(
+        "Buffer capacity from pH 0 to 14. At the working pH {:.2}, β = {} mmol/(L·pH).{peak}",
+        data.ph,
+        sig(data.capacity_at_ph * 1000.0, 3)
+    )
+}
+
+/// Text for the canvas `aria-label` of the titration plot.
+pub fn titration_summary(data: &PlotData) -> String {
+    let first = data.added_mm.first().zip(data.titration_ph.first());
+    let last = data.added_mm.last().zip(data.titration_ph.last());
+    match (first, last) {
+        (Some((a0, p0)), Some((a1, p1))) => format!(
+            "Titration curve starting at pH {:.2}: adding {} brings it to pH {p0:.2}; adding {} to pH {p1:.2}.",
+            data.ph,
+            added_label(*a0),
+            added_label(*a1)
+        ),
+        _ => "Titration curve: no data.".into(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::super::data::tests::{mixture_data, recipe_data};
+    use super::*;
+    use plotters_svg::SVGBackend;
+
+    fn svg_of(f: impl FnOnce(&DrawingArea<SVGBackend<'_>, Shift>)) -> String {
+        let mut out = String::new();
+        {
+            let root = SVGBackend::with_string(&mut out, (720, 420)).into_drawing_area();
+            f(&root);
+            let _ = root.present();
+        }
+        out
+    }
+
+    fn hex(c: RGBColor) -> String {
+        format!("#{:02X}{:02X}{:02X}", c.0, c.1, c.2)
+    }
+
+    /// Curves (polylines of more than 20 points) stroked in `c` at full opacity;
+    /// legend swatches and markers are shorter.
+    fn polylines(svg: &str, c: RGBColor) -> usize {
+        let want = format!("stroke=\"{}\"", hex(c));
+        svg.split("<polyline")
+            .skip(1)
+            .filter_map(|p| p.split("/>").next())
+            .filter(|p| p.contains(&want) && p.contains("opacity=\"1\""))
+            .filter(|p| p.matches(',').count() > 20)
+            .count()
+    }
+
+    /// Every `<text>` content, trimmed.
+    fn texts(svg: &str) -> Vec<String> {
+        svg.split("<text")
+            .skip(1)
+            .filter_map(|t| t.split_once('>'))
+            .filter_map(|(_, rest)| rest.split("</text>").next())
+            .map(|t| t.trim().to_string())
+            .collect()
+    }
+
+    fn has_text(svg: &str, want: &str) -> bool {
+        texts(svg).iter().any(|t| t == want)
+    }
+
+    fn has_text_starting(svg: &str, want: &str) -> bool {
+        texts(svg).iter().any(|t| t.starts_with(want))
+    }
+
+    #[test]
+    fn species_svg_has_axes_one_path_per_species_legend_and_pk() {
+        let d = recipe_data();
+        let mut frame = None;
+        let svg = svg_of(|a| frame = draw_species(a, &d, Quantity::Fraction, None).ok());
+        let frame = frame.unwrap_or_else(|| unreachable!("drawing failed"));
+        assert!(has_text(&svg, "pH"), "x-axis label");
+        assert!(svg.contains("fraction of system total"), "y-axis label");
+        for (i, s) in d.series.iter().enumerate() {
+            assert_eq!(
+                polylines(&svg, species_color(i)),
+                1,
+                "one path for {}",
+                s.name
+            );
+            assert!(has_text(&svg, &s.name), "legend {}", s.name);
+        }
+        assert!(has_text(&svg, "working pH 7.40"), "working pH in legend");
+        assert!(has_text_starting(&svg, "pK₂ 7."), "pK₂ marker label");
+        assert!(svg.contains("pKa at 37 °C"), "pK legend entry");
+        assert!(frame.left > 0 && frame.right > frame.left && frame.bottom > frame.top);
+        let mid = f64::from(frame.left + frame.right) / 2.0;
+        assert!((frame.x_at(mid).unwrap_or(0.0) - 7.0).abs() < 0.05);
+    }
+
+    #[test]
+    fn concentration_mode_and_cursor() {
+        let d = mixture_data();
+        let svg = svg_of(|a| {
+            let _ = draw_species(a, &d, Quantity::Concentration, Some(8.0));
+        });
+        assert!(svg.contains("concentration, mmol/L"));
+        assert_eq!(polylines(&svg, species_color(0)), 1);
+        assert_eq!(polylines(&svg, species_color(1)), 1);
+        assert_eq!(
+            svg.matches(&format!("stroke=\"{}\"", hex(CURSOR))).count(),
+            1,
+            "cursor line"
+        );
+        assert!(svg.matches("<circle").count() >= 2, "cursor dots");
+    }
+
+    #[test]
+    fn capacity_svg() {
+        let d = recipe_data();
+        let svg = svg_of(|a| {
+            let _ = draw_capacity(a, &d, None);
+        });
+        assert!(has_text(&svg, "pH"));
+        assert!(svg.contains("β, mmol/(L·pH)"));
+        assert!(svg.contains("buffer capacity β"));
+        assert!(polylines(&svg, CAPACITY) >= 1);
+        assert!(has_text_starting(&svg, "pK₂ 7."));
+        assert!(svg.contains("working pH 7.40 (β = "));
+    }
+
+    #[test]
+    fn titration_svg() {
+        let d = recipe_data();
+        let svg = svg_of(|a| {
+            let _ = draw_titration(a, &d, Some(10.0));
+        });
+        assert!(svg.contains("HCl added"));
+        assert!(has_text(&svg, "pH"));
+        assert_eq!(polylines(&svg, TITRATION), 1);
+        assert!(has_text_starting(&svg, "pK₂ 7."));
+        assert!(svg.contains("start: nothing added, pH 7.40"));
+    }
+
+    #[test]
+    fn clip_top_cuts_runs() {
+        let xs = [0.0, 1.0, 2.0, 3.0, 4.0];
+        let ys = [5.0, 1.0, 1.0, 5.0, 1.0];
+        let runs = clip_top(&xs, &ys, 2.0);
+        assert_eq!(runs.len(), 2);
+        let first = runs.first().cloned().unwrap_or_default();
+        assert_eq!(first.first().copied(), Some((0.75, 2.0)));
+        assert_eq!(first.last().copied(), Some((2.25, 2.0)));
+    }
+
+    fn luminance(c: RGBColor) -> f64 {
+        let ch = |v: u8| {
+            let s = f64::from(v) / 255.0;
+            if s <= 0.040_45 {
+                s / 12.92
+            } else {
+                ((s + 0.055) / 1.055).powf(2.4)
+            }
+        };
+        0.2126 * ch(c.0) + 0.7152 * ch(c.1) + 0.0722 * ch(c.2)
+    }
+
+    #[test]
+    fn palette_contrast_on_white_is_at_least_3_to_1() {
+        for c in PALETTE
+            .iter()
+            .chain([INK, MUTED, CAPACITY, TITRATION].iter())
+        {
+            let ratio = 1.05 / (luminance(*c) + 0.05);
+            assert!(ratio >= 3.0, "{c:?}: {ratio:.2}");
+        }
+    }
+
+    #[test]
+    fn summaries_name_the_numbers() {
+        let d = recipe_data();
+        assert!(species_summary(&d).contains("working pH 7.40"));
+        assert!(capacity_summary(&d).contains("β = "));
+        assert!(titration_summary(&d).contains("mmol/L HCl"));
+        assert_eq!(tick(0.5), "0.5");
+        assert_eq!(tick(10.0), "10");
+        assert_eq!(subscript(12), "₁₂");
+    }
+}

@@ -44,7 +44,7 @@ wasm_tests() {
     WASM_BINDGEN_TEST_WEBDRIVER_JSON="$root/tests/webdriver.json" \
     WASM_BINDGEN_USE_BROWSER=1 \
     WASM_BINDGEN_TEST_TIMEOUT=120 \
-    cargo test -p app --target wasm32-unknown-unknown
+    cargo test -p app --target wasm32-unknown-unknown --tests
 }
 have_dist() {
   [[ -f dist/index.html ]] || {

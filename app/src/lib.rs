@@ -3,6 +3,7 @@
 //! Module owners while the first version is built (see DEVELOPERS.md):
 //! shell/inputs/workspaces, plots/species, store/share/designs.
 
+pub mod bench;
 pub mod cautions;
 pub mod designs_ws;
 pub mod embed;

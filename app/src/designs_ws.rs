@@ -324,7 +324,7 @@ pub fn DesignsPanel() -> impl IntoView {
             <div class="bw-current">
                 <label class="bw-name-field" for="bw-design-name">"Design name"</label>
                 <div class="bw-current-row">
-                    <input id="bw-design-name" type="text" data-testid="design-name"
+                    <input id="bw-design-name" type="text" data-testid="design-name-input"
                         maxlength=MAX_NAME_CHARS.to_string()
                         readonly=readonly
                         prop:value=move || {

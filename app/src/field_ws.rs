@@ -1,8 +1,398 @@
-//! Placeholder for the field_ws component (being written).
-use leptos::prelude::*;
+//! Field reading workspace: a measured pH and temperature → the share of each species.
+//!
+//! Built for one-handed tablet use at a tank or a sampling point: quick
+//! buttons for the common questions, big touch targets, big numbers. The
+//! result is one `Memo` over `solver::field::field_reading`.
 
-/// Placeholder.
+use crate::cautions::{cautions_for, CautionPanel};
+use crate::format::{
+    error_field, error_message, fmt_conc, fmt_input, fmt_mg_l, fmt_pct, fmt_ph, fmt_sig,
+    CONDUCTIVITY, FIELD_TOTAL, IONIC, PH, TDS, TEMPERATURE,
+};
+use crate::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
+use crate::state::use_app;
+use leptos::prelude::*;
+use solver::field::{
+    field_reading, reporting_basis, FieldResult, FieldSpec, IonicSource, TotalUnit,
+};
+use solver::mixture::lookup;
+use solver::SolverError;
+
+/// Quick picks: (system id, button text).
+pub const QUICK: [(&str, &str); 4] = [
+    ("ammonium", "Ammonia (NH₃)"),
+    ("sulfide", "Sulfide (H₂S)"),
+    ("hypochlorous", "Free chlorine (HOCl)"),
+    ("carbonate", "Carbonate (CO₂)"),
+];
+
+/// The species that usually matters for a system, with a short reason.
+pub fn key_species(system: &str) -> Option<(usize, &'static str)> {
+    match system {
+        "ammonium" => Some((1, "Un-ionized ammonia, the form toxic to fish")),
+        "sulfide" => Some((0, "Hydrogen sulfide, the toxic form that escapes as gas")),
+        "hypochlorous" => Some((0, "Hypochlorous acid, the stronger disinfectant")),
+        "carbonate" => Some((0, "Dissolved CO₂")),
+        _ => None,
+    }
+}
+
+fn ionic_key(i: &IonicSource) -> &'static str {
+    match i {
+        IonicSource::Zero => "zero",
+        IonicSource::Direct { .. } => "direct",
+        IonicSource::Conductivity { .. } => "conductivity",
+        IonicSource::Tds { .. } => "tds",
+    }
+}
+
+fn total_key(spec: &FieldSpec) -> &'static str {
+    match (spec.total, spec.total_unit) {
+        (None, _) => "none",
+        (Some(_), TotalUnit::MgPerLAs) => "mg",
+        (Some(_), TotalUnit::MmolPerL) => "mmol",
+        (Some(_), TotalUnit::UmolPerL) => "umol",
+    }
+}
+
+/// Unit text of the per-species amount for a reporting basis.
+fn amount_unit(basis: &str) -> String {
+    if basis == "mmol" {
+        "mmol/L".into()
+    } else {
+        format!("mg/L as {basis}")
+    }
+}
+
+/// The field reading workspace.
 #[component]
 pub fn FieldWorkspace() -> impl IntoView {
-    view! { <section></section> }
+    let app = use_app();
+    let design = app.design;
+    let spec = Memo::new(move |_| design.with(|d| d.field.clone()));
+    let custom = Memo::new(move |_| design.with(|d| d.custom_systems.clone()));
+    let result = Memo::new(move |_| spec.with(|s| custom.with(|c| field_reading(s, c))));
+    let pending = Memo::new(move |_| !app.pending_in("field-").is_empty());
+    let readonly = move || app.view.with(|v| v.readonly);
+    let last_total = StoredValue::new(spec.with_untracked(|s| s.total.unwrap_or(1.0)));
+
+    let err_for = move |path: &'static str| -> Signal<Option<String>> {
+        Signal::derive(move || {
+            result.with(|r| match r {
+                Err(e) if error_field(e).as_deref() == Some(path) => Some(error_message(e)),
+                _ => None,
+            })
+        })
+    };
+    let set_system = move |id: String| design.update(|d| d.field.system = id);
+    let basis = Memo::new(move |_| spec.with(|s| reporting_basis(&s.system).0.to_string()));
+
+    let total_options = move || {
+        let b = basis.get();
+        let mut v = vec![ChoiceOption::new("none", "Not measured")];
+        if b != "mmol" {
+            v.push(ChoiceOption::new("mg", format!("mg/L as {b}")));
+        }
+        v.push(ChoiceOption::new("mmol", "mmol/L"));
+        v.push(ChoiceOption::new("umol", "µmol/L"));
+        v
+    };
+    let on_total_unit = Callback::new(move |k: String| {
+        design.update(|d| {
+            let f = &mut d.field;
+            if let Some(t) = f.total {
+                last_total.set_value(t);
+            }
+            match k.as_str() {
+                "none" => f.total = None,
+                other => {
+                    f.total = Some(f.total.unwrap_or_else(|| last_total.get_value()));
+                    f.total_unit = match other {
+                        "mmol" => TotalUnit::MmolPerL,
+                        "umol" => TotalUnit::UmolPerL,
+                        _ => TotalUnit::MgPerLAs,
+                    };
+                }
+            }
+        })
+    });
+    let on_ionic_kind = Callback::new(move |k: String| {
+        design.update(|d| {
+            d.field.ionic = match k.as_str() {
+                "direct" => IonicSource::Direct {
+                    ionic_strength: 0.01,
+                },
+                "conductivity" => IonicSource::Conductivity { us_cm: 500.0 },
+                "tds" => IonicSource::Tds { mg_l: 300.0 },
+                _ => IonicSource::Zero,
+            };
+        })
+    });
+    let ionic_field = move || {
+        let kind = spec.with(|s| ionic_key(&s.ionic));
+        let (label, rule, suffix) = match kind {
+            "direct" => ("Ionic strength", IONIC, "mol/L"),
+            "conductivity" => ("Conductivity", CONDUCTIVITY, "µS/cm"),
+            "tds" => ("Total dissolved solids", TDS, "mg/L"),
+            _ => return None,
+        };
+        let path = match kind {
+            "direct" => "ionic.ionic_strength",
+            "conductivity" => "ionic.us_cm",
+            _ => "ionic.mg_l",
+        };
+        Some(view! {
+            <NumberField
+                id=format!("field-ionic-{kind}")
+                label=label
+                value=Signal::derive(move || {
+                    spec.with(|s| match s.ionic {
+                        IonicSource::Direct { ionic_strength } => ionic_strength,
+                        IonicSource::Conductivity { us_cm } => us_cm,
+                        IonicSource::Tds { mg_l } => mg_l,
+                        IonicSource::Zero => 0.0,
+                    })
+                })
+                on_value=Callback::new(move |v: f64| {
+                    design.update(|d| match &mut d.field.ionic {
+                        IonicSource::Direct { ionic_strength } => *ionic_strength = v,
+                        IonicSource::Conductivity { us_cm } => *us_cm = v,
+                        IonicSource::Tds { mg_l } => *mg_l = v,
+                        IonicSource::Zero => {}
+                    })
+                })
+                rule=rule
+                suffix=suffix
+                error=err_for(path)
+            />
+        })
+    };
+    let cautions = Signal::derive(move || {
+        spec.with(|s| custom.with(|c| cautions_for(lookup(&s.system, c).ok(), &[], &[])))
+    });
+
+    view! {
+        <div class="ws-grid field-ws">
+            <div class="inputs card">
+                <h2 class="card-title">"Reading"</h2>
+                <div class="quick" role="group" aria-label="Common questions">
+                    {QUICK
+                        .iter()
+                        .map(|(id, text)| {
+                            let id = *id;
+                            view! {
+                                <button
+                                    type="button"
+                                    class="btn quick-btn"
+                                    data-testid=format!("field-quick-{id}")
+                                    aria-pressed=move || if spec.with(|s| s.system == id) { "true" } else { "false" }
+                                    disabled=readonly
+                                    on:click=move |_| set_system(id.to_string())
+                                >
+                                    {*text}
+                                </button>
+                            }
+                        })
+                        .collect_view()}
+                </div>
+                <SystemPicker
+                    id="field-system"
+                    label="System"
+                    selected=Signal::derive(move || spec.with(|s| s.system.clone()))
+                    temperature=Signal::derive(move || spec.with(|s| s.temperature_c))
+                    on_change=Callback::new(set_system)
+                />
+                <div class="row-2">
+                    <NumberField
+                        id="field-ph"
+                        label="Measured pH"
+                        value=Signal::derive(move || spec.with(|s| s.ph))
+                        on_value=Callback::new(move |v| design.update(|d| d.field.ph = v))
+                        rule=PH
+                        error=err_for("ph")
+                    />
+                    <NumberField
+                        id="field-temp"
+                        label="Sample temperature"
+                        value=Signal::derive(move || spec.with(|s| s.temperature_c))
+                        on_value=Callback::new(move |v| design.update(|d| d.field.temperature_c = v))
+                        rule=TEMPERATURE
+                        suffix="°C"
+                        error=err_for("temperature_c")
+                    />
+                </div>
+                {move || {
+                    let opts = total_options();
+                    view! {
+                        <Choice
+                            name="field-total-unit"
+                            legend="Total concentration (optional)"
+                            options=opts
+                            selected=Signal::derive(move || spec.with(|s| total_key(s).to_string()))
+                            on_change=on_total_unit
+                        />
+                    }
+                }}
+                {move || {
+                    let key = spec.with(total_key);
+                    (key != "none")
+                        .then(|| {
+                            let suffix = match key {
+                                "mmol" => "mmol/L".to_string(),
+                                "umol" => "µmol/L".to_string(),
+                                _ => format!("mg/L as {}", basis.get()),
+                            };
+                            view! {
+                                <NumberField
+                                    id="field-total"
+                                    label="Total"
+                                    value=Signal::derive(move || spec.with(|s| s.total.unwrap_or(0.0)))
+                                    on_value=Callback::new(move |v| design.update(|d| d.field.total = Some(v)))
+                                    rule=FIELD_TOTAL
+                                    suffix=suffix
+                                    error=err_for("total")
+                                />
+                            }
+                        })
+                }}
+                <Choice
+                    name="field-ionic"
+                    legend="Ionic strength from"
+                    options=vec![
+                        ChoiceOption::new("zero", "Nothing (I = 0)"),
+                        ChoiceOption::new("conductivity", "Conductivity"),
+                        ChoiceOption::new("tds", "TDS"),
+                        ChoiceOption::new("direct", "Known I"),
+                    ]
+                    selected=Signal::derive(move || spec.with(|s| ionic_key(&s.ionic).to_string()))
+                    on_change=on_ionic_kind
+                />
+                {ionic_field}
+            </div>
+            <div class="results">
+                <FieldResultView spec=spec result=result pending=pending />
+                <CautionPanel items=cautions testid="field-cautions" />
+            </div>
+        </div>
+    }
+}
+
+#[component]
+fn FieldResultView(
+    spec: Memo<FieldSpec>,
+    result: Memo<Result<FieldResult, SolverError>>,
+    pending: Memo<bool>,
+) -> impl IntoView {
+    let body = move || {
+        if pending.get() {
+            return view! {
+                <p class="stale" data-testid="field-stale" role="status">
+                    "Correct the marked fields to see the reading."
+                </p>
+            }
+            .into_any();
+        }
+        match result.get() {
+            Err(e) => view! {
+                <p class="result-error" data-testid="field-error" role="alert">
+                    <strong>"No reading: "</strong>
+                    {error_message(&e)}
+                </p>
+            }
+            .into_any(),
+            Ok(r) => {
+                let s = spec.get();
+                let key = key_species(&s.system);
+                let unit = amount_unit(&r.basis);
+                let hero = key.and_then(|(i, why)| {
+                    let sp = r.species.get(i)?;
+                    let amount = sp.mg_l_as.map(|v| {
+                        if r.basis == "mmol" {
+                            format!("{} mmol/L", fmt_sig(v, 3))
+                        } else {
+                            format!("{} as {}", fmt_mg_l(v), r.basis)
+                        }
+                    });
+                    Some(view! {
+                        <div class="hero" data-testid="field-hero">
+                            <p class="hero-label">{why}</p>
+                            <p class="hero-value">
+                                <span class="formula">{sp.name.clone()}</span>
+                                " "
+                                <span class="hero-pct">{fmt_pct(sp.fraction)}</span>
+                            </p>
+                            {amount.map(|a| view! { <p class="hero-amount">{a}</p> })}
+                        </div>
+                    })
+                });
+                let pks = r
+                    .pks
+                    .iter()
+                    .map(|p| fmt_ph(*p))
+                    .collect::<Vec<_>>()
+                    .join(", ");
+                let apks = r
+                    .apparent_pks
+                    .iter()
+                    .map(|p| fmt_ph(*p))
+                    .collect::<Vec<_>>()
+                    .join(", ");
+                view! {
+                    {hero}
+                    <div class="species-cards">
+                        {r
+                            .species
+                            .iter()
+                            .enumerate()
+                            .map(|(i, sp)| {
+                                let is_key = key.is_some_and(|(k, _)| k == i);
+                                view! {
+                                    <div class="species-card" class:key=is_key data-testid=format!("field-species-{i}")>
+                                        <p class="formula species-name">{sp.name.clone()}</p>
+                                        <p class="species-pct" data-testid=format!("field-fraction-{i}")>
+                                            {fmt_pct(sp.fraction)}
+                                        </p>
+                                        <p class="species-conc" data-testid=format!("field-conc-{i}")>
+                                            {match (sp.mg_l_as, sp.conc_m) {
+                                                (Some(v), Some(c)) => format!("{} {unit} · {}", fmt_sig(v, 3), fmt_conc(c)),
+                                                _ => "Enter a total for amounts".to_string(),
+                                            }}
+                                        </p>
+                                    </div>
+                                }
+                            })
+                            .collect_view()}
+                    </div>
+                    <dl class="facts">
+                        <div>
+                            <dt>{format!("pK at {} °C", fmt_input(s.temperature_c))}</dt>
+                            <dd data-testid="field-pk">{pks}</dd>
+                        </div>
+                        <div>
+                            <dt>"Apparent pK in this water"</dt>
+                            <dd>{apks}</dd>
+                        </div>
+                        <div>
+                            <dt>"Ionic strength used"</dt>
+                            <dd data-testid="field-ionic-used">{fmt_conc(r.ionic_strength)}</dd>
+                        </div>
+                    </dl>
+                }
+                .into_any()
+            }
+        }
+    };
+    view! {
+        <section class="card result-card" aria-labelledby="field-result-title">
+            <h2 class="card-title" id="field-result-title">
+                {move || {
+                    spec.with(|s| {
+                        let name = result.with(|r| r.as_ref().map(|r| r.system_name.clone()).unwrap_or_default());
+                        format!("{name} at pH {} and {} °C", fmt_ph(s.ph), fmt_input(s.temperature_c))
+                    })
+                }}
+            </h2>
+            <div aria-live="polite">{body}</div>
+        </section>
+    }
 }

@@ -34,8 +34,11 @@
 //! I = ½ ( [H⁺] + [OH⁻] + Σ_k C_k Σ_j z_j² α_j + Σ spectators z² c )
 //! ```
 //!
-//! is found by fixed-point iteration around that inner solve, each inner solve
-//! warm-started from the last. Nothing in the iteration allocates.
+//! is solved together with the pH: Newton's method on (pH, I) with the
+//! analytic Jacobian (derivatives in g = ln γ₁ are covariances of the
+//! protonation moments, like the pH derivatives). If that ever fails, a
+//! bisection-safeguarded Newton in pH nested in a fixed-point loop on I takes
+//! over. Nothing in the iteration allocates.
 
 use crate::activity::{gamma1, ActivityModel, DAVIES_LIMIT};
 use crate::error::{Result, SolverError};
@@ -113,7 +116,9 @@ pub struct Equilibrium {
     pub h: f64,
     /// [OH⁻], mol/L.
     pub oh: f64,
-    /// Buffer capacity β = dC_base/dpH, mol/(L·pH), at fixed ionic strength.
+    /// Buffer capacity β = dC_base/dpH, mol/(L·pH): the pH response to a
+    /// small addition of strong base, with the ionic strength free to follow
+    /// (analytic; equals the fixed-I form in the ideal model).
     pub capacity: f64,
     /// Charge-balance residual at the answer, mol/L.
     pub residual: f64,
@@ -321,6 +326,156 @@ fn newton(c: &Composition, g1: f64, x0: f64, lo: f64, hi: f64, evals: &mut u32) 
     })
 }
 
+/// Charge balance, ionic strength and their partial derivatives in pH and in
+/// g = ln γ₁, for the joint Newton iteration.
+#[derive(Debug, Clone, Copy)]
+struct Jac {
+    e: Eval,
+    /// ∂F/∂g.
+    fg: f64,
+    /// ∂I_out/∂pH.
+    ix: f64,
+    /// ∂I_out/∂g.
+    ig: f64,
+}
+
+/// Moments Σ t j^k (k = 0…4) of one acid.
+#[inline]
+fn acid_moments4(acid: &Acid, inv_h: f64, g1: f64) -> [f64; 5] {
+    let mut term = 1.0;
+    let mut m = [1.0, 0.0, 0.0, 0.0, 0.0];
+    for (i, &k) in acid.ka.iter().take(acid.n).enumerate() {
+        let j = (i + 1) as f64;
+        let zj = acid.z0 - (i as i32 + 1);
+        term *= k * g1.powi(2 * zj + 1) * inv_h;
+        let (j2, t) = (j * j, term);
+        m[0] += t;
+        m[1] += j * t;
+        m[2] += j2 * t;
+        m[3] += j2 * j * t;
+        m[4] += j2 * j2 * t;
+    }
+    m
+}
+
+fn evaluate_jac(c: &Composition, ph: f64, g1: f64) -> Jac {
+    // With g = ln γ₁ and γ_z = γ₁^(z²), species j of an acid carries the factor
+    // exp(g·e_j), e_j = z₀² − z_j² = 2 z₀ j − j², so every derivative is a
+    // covariance of j-moments, the same way the pH derivatives are.
+    let inv_h = (ph * LN10).exp();
+    let a_h = 1.0 / inv_h;
+    let h = a_h / g1;
+    let oh = c.kw * inv_h / g1;
+    let mut f = h - oh + c.spectator_charge;
+    let mut beta = LN10 * (h + oh);
+    let mut fg = -h + oh;
+    let mut z2 = c.spectator_z2 + h + oh;
+    let mut ix = LN10 * (oh - h);
+    let mut ig = -h - oh;
+    for acid in &c.acids {
+        let m = acid_moments4(acid, inv_h, g1);
+        let [s0, s1, s2, s3, s4] = m;
+        let (m1, m2, m3, m4) = (s1 / s0, s2 / s0, s3 / s0, s4 / s0);
+        let z0 = f64::from(acid.z0);
+        let var = (m2 - m1 * m1).max(0.0);
+        let c12 = m3 - m1 * m2; // Cov(j, j²)
+        let cov_je = 2.0 * z0 * var - c12; // Cov(j, e)
+        let cov_j2e = 2.0 * z0 * c12 - (m4 - m2 * m2); // Cov(j², e)
+        let t = acid.total;
+        f += t * (z0 - m1);
+        beta += LN10 * t * var;
+        fg -= t * cov_je;
+        z2 += t * (z0 * z0 - 2.0 * z0 * m1 + m2);
+        ix += LN10 * t * (-2.0 * z0 * var + c12);
+        ig += t * (-2.0 * z0 * cov_je + cov_j2e);
+    }
+    Jac {
+        e: Eval {
+            f,
+            beta,
+            ionic: 0.5 * z2,
+            h,
+            oh,
+        },
+        fg,
+        ix: 0.5 * ix,
+        ig: 0.5 * ig,
+    }
+}
+
+/// d(ln γ₁)/dI for the Davies equation.
+fn dg_di(a_dh: f64, ionic: f64) -> f64 {
+    let i = ionic.max(1e-12);
+    let s = i.sqrt();
+    -a_dh * LN10 * (1.0 / (2.0 * s * (1.0 + s) * (1.0 + s)) - 0.3)
+}
+
+/// Newton's method on both unknowns (pH and I) at once:
+///
+/// ```text
+/// R₁ = F(pH, g(I)) = 0,   R₂ = I_out(pH, g(I)) − I = 0,   g = ln γ₁
+/// ```
+///
+/// with the analytic Jacobian, so it converges quadratically from a warm
+/// start. `None` if a step is implausibly large or it does not settle, and
+/// the caller falls back to the nested bracketed iteration.
+fn joint(c: &Composition, x0: f64, i0: f64, evals: &mut u32) -> Option<(Eval, f64, f64)> {
+    let mut x = x0;
+    let mut ionic = if i0.is_finite() && i0 >= 0.0 {
+        i0
+    } else {
+        0.5 * c.spectator_z2
+    };
+    for _ in 0..40 {
+        let g1 = gamma1(c.activity, c.a_dh, ionic);
+        let jac = evaluate_jac(c, x, g1);
+        *evals += 1;
+        let gp = dg_di(c.a_dh, ionic);
+        let (r1, r2) = (jac.e.f, jac.e.ionic - ionic);
+        let (j11, j12) = (-jac.e.beta, jac.fg * gp);
+        let (j21, j22) = (jac.ix, jac.ig * gp - 1.0);
+        let det = j11 * j22 - j12 * j21;
+        if !det.is_finite() || det == 0.0 {
+            return None;
+        }
+        let dx = (-r1 * j22 + j12 * r2) / det;
+        let di = (-j11 * r2 + r1 * j21) / det;
+        if !(dx.is_finite() && di.is_finite()) || dx.abs() > 2.0 {
+            return None;
+        }
+        if dx.abs() < 1e-11 && di.abs() <= 1e-14 + 1e-10 * ionic {
+            return Some((jac.e, g1, x));
+        }
+        x += dx;
+        ionic = if ionic + di > 0.0 {
+            ionic + di
+        } else {
+            0.5 * ionic
+        };
+        if !(PH_LO..=PH_HI).contains(&x) {
+            return None;
+        }
+    }
+    None
+}
+
+/// Buffer capacity dC_base/dpH with the ionic strength free to change: the
+/// response to adding strong base b (as Na⁺) of the coupled system
+/// `F + b = 0`, `I_out + b/2 − I = 0`, from the same analytic Jacobian.
+/// `None` in the ideal model (where it equals the fixed-I β).
+fn total_capacity(c: &Composition, ph: f64, ionic: f64, g1: f64) -> Option<f64> {
+    if c.activity == ActivityModel::Ideal {
+        return None;
+    }
+    let jac = evaluate_jac(c, ph, g1);
+    let gp = dg_di(c.a_dh, ionic);
+    let (j11, j12) = (-jac.e.beta, jac.fg * gp);
+    let (j21, j22) = (jac.ix, jac.ig * gp - 1.0);
+    let det = j11 * j22 - j12 * j21;
+    let dxdb = (-j22 + 0.5 * j12) / det;
+    (dxdb.is_finite() && dxdb > 0.0).then(|| 1.0 / dxdb)
+}
+
 /// Solve for pH and ionic strength.
 ///
 /// `guess` is a starting pH (use the previous answer along a curve, or
@@ -353,13 +508,50 @@ fn newton(c: &Composition, g1: f64, x0: f64, lo: f64, hi: f64, evals: &mut u32) 
 /// # Ok::<(), solver::SolverError>(())
 /// ```
 pub fn solve(c: &Composition, guess: f64) -> Result<Equilibrium> {
+    solve_hinted(c, guess, f64::NAN)
+}
+
+/// [`solve`] with a starting ionic strength as well as a starting pH (the
+/// previous point's answer along a curve), which saves most of the ionic
+/// strength iterations.
+///
+/// # Errors
+///
+/// As [`solve`].
+pub fn solve_hinted(c: &Composition, guess: f64, ionic_hint: f64) -> Result<Equilibrium> {
     check(c)?;
     let mut evals = 0u32;
     let mut ionic = 0.5 * c.spectator_z2;
     let mut g1 = gamma1(c.activity, c.a_dh, ionic);
-    let mut e = solve_fixed_gamma(c, g1, guess, &mut evals)?;
-    let mut ph = phx(c, &e, g1);
-    if c.activity != ActivityModel::Ideal {
+    let mut e;
+    let mut ph;
+    // Fast path for activity models: one joint iteration that takes a Newton
+    // step in pH and a fixed-point step in I together, from a warm start (or
+    // from the answer at the spectator-only ionic strength). Falls back to the
+    // nested iteration below if it does not settle quickly.
+    let mut i0 = ionic_hint;
+    let start = if guess.is_finite() && guess > PH_LO && guess < PH_HI {
+        Some(guess)
+    } else if c.activity != ActivityModel::Ideal {
+        let e0 = solve_fixed_gamma(c, g1, f64::NAN, &mut evals)?;
+        i0 = e0.ionic;
+        Some(phx(c, &e0, g1))
+    } else {
+        None
+    };
+    let joint_result = match (c.activity, start) {
+        (ActivityModel::Ideal, _) | (_, None) => None,
+        (_, Some(x0)) => joint(c, x0, i0, &mut evals),
+    };
+    if let Some((je, jg, jx)) = joint_result {
+        e = je;
+        g1 = jg;
+        ph = jx;
+    } else {
+        e = solve_fixed_gamma(c, g1, start.unwrap_or(guess), &mut evals)?;
+        ph = phx(c, &e, g1);
+    }
+    if c.activity != ActivityModel::Ideal && joint_result.is_none() {
         let mut converged = false;
         for it in 0..100 {
             let new_i = e.ionic;
@@ -399,7 +591,7 @@ pub fn solve(c: &Composition, guess: f64) -> Result<Equilibrium> {
         gamma1: g1,
         h: e.h,
         oh: e.oh,
-        capacity: e.beta,
+        capacity: total_capacity(c, ph, e.ionic, g1).unwrap_or(e.beta),
         residual: e.f,
         evaluations: evals,
         warnings,

@@ -2,7 +2,8 @@
 
 use crate::activity::{gamma1, gamma_z, ActivityModel};
 use crate::equilibrium::{
-    capacity_at, fractions_into, solve, solve_addition, Acid, Composition, Equilibrium,
+    capacity_at, fractions_into, solve, solve_addition, solve_hinted, Acid, Composition,
+    Equilibrium,
 };
 use crate::error::{in_range, non_negative, Result, SolverError};
 use crate::library::{counter_charge, find_form, find_system};
@@ -573,6 +574,7 @@ pub fn titration_curve(
     let mut ph = Vec::with_capacity(n);
     let mut work = p.clone();
     let mut guess = f64::NAN;
+    let mut ionic = f64::NAN;
     for i in 0..n {
         let x = -a + (a + b) * i as f64 / (n - 1) as f64;
         let mut ions = p.ions;
@@ -584,8 +586,9 @@ pub fn titration_curve(
         let (charge, z2) = spectators(&ions);
         work.composition.spectator_charge = charge;
         work.composition.spectator_z2 = z2;
-        let eq = solve(&work.composition, guess)?;
+        let eq = solve_hinted(&work.composition, guess, ionic)?;
         guess = eq.ph;
+        ionic = eq.ionic_strength;
         added.push(x * 1000.0);
         ph.push(eq.ph);
     }

@@ -41,13 +41,14 @@ type PlotResult = Result<PlotData, String>;
 /// Paint one plot, or a short message when there is nothing to plot.
 fn paint_or_message(
     area: &CanvasArea,
+    scale: f64,
     data: &PlotResult,
     f: impl FnOnce(&CanvasArea, &PlotData) -> Option<Frame>,
 ) -> Option<Frame> {
     match data {
         Ok(d) => f(area, d),
         Err(_) => {
-            let _ = draw::draw_message(area, "Nothing to plot (see the message above).");
+            let _ = draw::draw_message(area, "Nothing to plot (see the message above).", scale);
             Some(Frame {
                 left: 0,
                 right: 0,
@@ -168,18 +169,30 @@ pub fn SpeciesWorkspace() -> impl IntoView {
         cursor.set(Some(Cursor::Added(x)));
     });
 
-    let paint_species = move |area: &CanvasArea| {
+    let paint_species = move |area: &CanvasArea, scale: f64| {
         let q = quantity.get();
         let c = cursor.get().and_then(Cursor::ph);
-        plot.with(|d| paint_or_message(area, d, |a, d| draw::draw_species(a, d, q, c).ok()))
+        plot.with(|d| {
+            paint_or_message(area, scale, d, |a, d| {
+                draw::draw_species(a, d, q, c, scale).ok()
+            })
+        })
     };
-    let paint_capacity = move |area: &CanvasArea| {
+    let paint_capacity = move |area: &CanvasArea, scale: f64| {
         let c = cursor.get().and_then(Cursor::ph);
-        plot.with(|d| paint_or_message(area, d, |a, d| draw::draw_capacity(a, d, c).ok()))
+        plot.with(|d| {
+            paint_or_message(area, scale, d, |a, d| {
+                draw::draw_capacity(a, d, c, scale).ok()
+            })
+        })
     };
-    let paint_titration = move |area: &CanvasArea| {
+    let paint_titration = move |area: &CanvasArea, scale: f64| {
         let c = cursor.get().and_then(Cursor::added);
-        plot.with(|d| paint_or_message(area, d, |a, d| draw::draw_titration(a, d, c).ok()))
+        plot.with(|d| {
+            paint_or_message(area, scale, d, |a, d| {
+                draw::draw_titration(a, d, c, scale).ok()
+            })
+        })
     };
 
     let summary = move |f: fn(&PlotData) -> String| {

@@ -1,9 +1,13 @@
 //! The plot canvas: backing store at CSS size × devicePixelRatio, redrawn on resize, ratio change and data change.
 //!
 //! plotters-canvas lays out in backing-store pixels, which is blurry on
-//! tablets. [`HiDpiCanvas`] wraps it: it reports the CSS size to plotters and
-//! the 2D context carries a `set_transform` scale (absolute, never cumulative)
-//! so every line and glyph is drawn at full device resolution.
+//! tablets when the backing store equals the CSS size. Here the backing store
+//! is CSS size × devicePixelRatio, the context transform is set absolutely
+//! (`set_transform`, never a cumulative `scale`) to map the backing store 1:1,
+//! and the drawing code receives the ratio as its scale: fonts, widths and
+//! margins are multiplied by it while curve vertices keep whole-device-pixel
+//! precision (plotters rounds coordinates to integers, so drawing in CSS px
+//! under a 2× transform would put curve vertices on a 2-pixel grid).
 
 use super::draw::Frame;
 use leptos::html::Canvas;
@@ -20,7 +24,8 @@ use wasm_bindgen::closure::Closure;
 use wasm_bindgen::JsCast;
 use web_sys::{CanvasRenderingContext2d, HtmlCanvasElement, MediaQueryList, ResizeObserver};
 
-/// A canvas backend that lays out in CSS pixels over a device-pixel backing store.
+/// The plotters canvas backend, sized to the backing store (kept as a wrapper so
+/// the reported size is the one this module chose, whatever the element says).
 pub struct HiDpiCanvas {
     inner: CanvasBackend,
     size: (u32, u32),
@@ -133,10 +138,11 @@ fn now_ms() -> f64 {
         .map_or(0.0, |p| p.now())
 }
 
-/// Size the backing store, set the scale, and run `paint` on a CSS-pixel area.
+/// Size the backing store, reset the transform, and run `paint` on a device-pixel
+/// area with the scale (device px per CSS px). Returns the frame in device px.
 fn repaint<P>(canvas: &HtmlCanvasElement, size: Size, paint: &P) -> Option<Frame>
 where
-    P: Fn(&CanvasArea) -> Option<Frame>,
+    P: Fn(&CanvasArea, f64) -> Option<Frame>,
 {
     if size.w < 2.0 || size.h < 2.0 {
         return None; // hidden (display: none) or not laid out yet
@@ -151,16 +157,15 @@ where
         canvas.set_height(bh as u32);
     }
     let ctx: CanvasRenderingContext2d = canvas.get_context("2d").ok()??.dyn_into().ok()?;
-    // Absolute transform: CSS px → device px, whatever was set before.
-    ctx.set_transform(bw / size.w, 0.0, 0.0, bh / size.h, 0.0, 0.0)
-        .ok()?;
+    // Absolute transform (identity: one unit = one backing-store pixel), whatever was set before.
+    ctx.set_transform(1.0, 0.0, 0.0, 1.0, 0.0, 0.0).ok()?;
     ctx.set_line_join("round");
     let backend = HiDpiCanvas {
         inner: CanvasBackend::with_canvas_object(canvas.clone())?,
-        size: (size.w.floor() as u32, size.h.floor() as u32),
+        size: (bw as u32, bh as u32),
     };
     let area = backend.into_drawing_area();
-    let frame = paint(&area);
+    let frame = paint(&area, bw / size.w);
     let _ = area.present();
     frame
 }
@@ -213,7 +218,8 @@ impl DprWatch {
 
 /// A plot on a canvas with class `plot`.
 ///
-/// `paint` draws the whole plot and returns its frame; it runs inside an
+/// `paint` draws the whole plot at the given scale (device px per CSS px) and
+/// returns its frame in device px; it runs inside an
 /// effect, so the signals it reads (data, options, cursor) trigger a redraw,
 /// as do size and pixel-ratio changes. `on_point` receives the data x under
 /// the pointer; `on_step` receives −1/+1 (±10 with Shift) from the arrow
@@ -233,7 +239,7 @@ pub fn PlotCanvas<P>(
     on_step: Callback<i32>,
 ) -> impl IntoView
 where
-    P: Fn(&CanvasArea) -> Option<Frame> + 'static,
+    P: Fn(&CanvasArea, f64) -> Option<Frame> + 'static,
 {
     let canvas_ref = NodeRef::<Canvas>::new();
     let size = RwSignal::new(Size::default());
@@ -293,7 +299,16 @@ where
     });
 
     let point = move |x: i32| {
-        if let Some(v) = frame.get_value().and_then(|f| f.x_at(f64::from(x))) {
+        let ratio = size.get_untracked();
+        let to_device = if ratio.w > 0.0 {
+            (ratio.w * ratio.dpr).round() / ratio.w
+        } else {
+            1.0
+        };
+        if let Some(v) = frame
+            .get_value()
+            .and_then(|f| f.x_at(f64::from(x) * to_device))
+        {
             on_point.run(v);
         }
     };

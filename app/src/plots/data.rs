@@ -285,27 +285,20 @@ impl PlotData {
         rows
     }
 
-    /// Largest β worth showing: the highest value over pH 3–11 and at pK values
-    /// within pH 2–12 (outside, water's own H⁺/OH⁻ capacity would flatten the plot).
+    /// Largest β worth showing: 1.2 × the highest value over pH 3–11 or at the
+    /// working pH, rounded up (outside 3–11, water's own H⁺/OH⁻ capacity would
+    /// flatten the buffer's peaks; the curve is cut where it leaves the scale).
     pub fn capacity_ceiling(&self) -> f64 {
-        let in_window = self
+        let top = self
             .grid
             .iter()
             .zip(self.capacity_mm.iter())
             .filter(|(x, _)| (3.0..=11.0).contains(*x))
-            .map(|(_, b)| *b);
-        let at_pks = self
-            .pk_marks()
-            .into_iter()
-            .filter(|m| (2.0..=12.0).contains(&m.2))
-            .filter_map(|m| nearest(&self.grid, m.2))
-            .filter_map(|i| self.capacity_mm.get(i).copied());
-        let top = in_window
-            .chain(at_pks)
+            .map(|(_, b)| *b)
             .chain(std::iter::once(self.capacity_at_ph * 1000.0))
             .filter(|b| b.is_finite())
             .fold(0.0_f64, f64::max);
-        nice_ceiling(top * 1.1)
+        nice_ceiling(top * 1.2)
     }
 
     /// Largest concentration any species reaches, mmol/L.
@@ -317,14 +310,14 @@ impl PlotData {
     }
 }
 
-/// Round up to 1, 2, 2.5 or 5 × a power of ten (at least 1e-3).
+/// Round up to 1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6 or 8 × a power of ten (at least 1e-3).
 pub fn nice_ceiling(x: f64) -> f64 {
     if !(x.is_finite() && x > 1e-3) {
         return 1e-3;
     }
     let p = 10f64.powf(x.log10().floor());
     let m = x / p;
-    let step = [1.0, 2.0, 2.5, 5.0, 10.0]
+    let step = [1.0, 1.2, 1.5, 2.0, 2.5, 3.0, 4.0, 5.0, 6.0, 8.0, 10.0]
         .into_iter()
         .find(|s| m <= *s + 1e-9)
         .unwrap_or(10.0);
@@ -442,8 +435,9 @@ pub(crate) mod tests {
         let d = recipe_data();
         let top = d.capacity_ceiling();
         let beta = d.capacity_at_ph * 1000.0;
-        assert!(top > beta && top < 10.0 * beta, "ceiling {top} vs β {beta}");
-        assert_eq!(nice_ceiling(27.0), 50.0);
+        assert!(top > beta && top < 3.0 * beta, "ceiling {top} vs β {beta}");
+        assert_eq!(nice_ceiling(27.0), 30.0);
+        assert_eq!(nice_ceiling(52.0), 60.0);
         assert_eq!(nice_ceiling(2.1), 2.5);
         assert_eq!(nice_ceiling(100.0), 100.0);
     }

@@ -84,15 +84,38 @@ enum Swatch {
 
 type DrawResult<T, DB> = Result<T, DrawingAreaErrorKind<<DB as DrawingBackend>::ErrorType>>;
 
-fn font(px: f64) -> TextStyle<'static> {
-    TextStyle::from((FAMILY, px).into_font()).color(&INK)
+/// Size factor from CSS pixels to backend pixels (the device pixel ratio on
+/// the page's canvas, 1 in SVG tests): every length, width and font size goes through it.
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct Sc(f64);
+
+impl Sc {
+    fn new(scale: f64) -> Self {
+        Sc(if scale.is_finite() && scale > 0.0 {
+            scale.clamp(0.25, 8.0)
+        } else {
+            1.0
+        })
+    }
+    /// A length in backend pixels.
+    fn i(self, css_px: i32) -> i32 {
+        (f64::from(css_px) * self.0).round() as i32
+    }
+    /// A width or radius in backend pixels (at least 1).
+    fn u(self, css_px: u32) -> u32 {
+        (f64::from(css_px) * self.0).round().max(1.0) as u32
+    }
 }
 
-fn line(color: RGBColor, width: u32) -> ShapeStyle {
+fn font(s: Sc, px: f64) -> TextStyle<'static> {
+    TextStyle::from((FAMILY, px * s.0).into_font()).color(&INK)
+}
+
+fn line(s: Sc, color: RGBColor, width: u32) -> ShapeStyle {
     ShapeStyle {
         color: color.to_rgba(),
         filled: false,
-        stroke_width: width,
+        stroke_width: s.u(width),
     }
 }
 
@@ -108,24 +131,25 @@ pub fn tick(v: f64) -> String {
 
 /// Lay legend entries out in rows across `width`; returns (x, row) for each entry and the row count.
 fn legend_layout<DB: DrawingBackend>(
+    s: Sc,
     area: &DrawingArea<DB, Shift>,
     labels: &[String],
 ) -> (Vec<(i32, i32)>, i32) {
     let width = i32::try_from(area.dim_in_pixel().0).unwrap_or(i32::MAX);
-    let style = font(FONT_PX);
-    let mut x = 8;
+    let style = font(s, FONT_PX);
+    let mut x = s.i(8);
     let mut row = 0;
     let mut pos = Vec::with_capacity(labels.len());
     for label in labels {
         let tw = area
             .estimate_text_size(label, &style)
-            .map_or(8 * label.chars().count() as i32, |(w, _)| {
+            .map_or(s.i(8) * label.chars().count() as i32, |(w, _)| {
                 i32::try_from(w).unwrap_or(0)
             });
-        let w = 28 + tw + 14;
-        if x > 8 && x + w > width - 8 {
+        let w = s.i(28) + tw + s.i(14);
+        if x > s.i(8) && x + w > width - s.i(8) {
             row += 1;
-            x = 8;
+            x = s.i(8);
         }
         pos.push((x, row));
         x += w;
@@ -135,30 +159,38 @@ fn legend_layout<DB: DrawingBackend>(
 
 /// Draw the legend at the top of `area`; returns the remaining area below it.
 fn legend<DB: DrawingBackend>(
+    s: Sc,
     area: &DrawingArea<DB, Shift>,
     entries: &[(Swatch, String)],
 ) -> DrawResult<DrawingArea<DB, Shift>, DB> {
     let labels: Vec<String> = entries.iter().map(|e| e.1.clone()).collect();
-    let (pos, rows) = legend_layout(area, &labels);
-    let (top, rest) = area.split_vertically(rows * LEGEND_ROW + 8);
-    let style = font(FONT_PX).pos(Pos::new(HPos::Left, VPos::Center));
+    let (pos, rows) = legend_layout(s, area, &labels);
+    let row_h = s.i(LEGEND_ROW);
+    let (top, rest) = area.split_vertically(rows * row_h + s.i(8));
+    let style = font(s, FONT_PX).pos(Pos::new(HPos::Left, VPos::Center));
     for ((swatch, label), (x, row)) in entries.iter().zip(pos) {
-        let y = 6 + row * LEGEND_ROW + LEGEND_ROW / 2;
+        let y = s.i(6) + row * row_h + row_h / 2;
         match swatch {
             Swatch::Line(c) => {
-                top.draw(&PathElement::new(vec![(x, y), (x + 22, y)], line(*c, 3)))?;
+                top.draw(&PathElement::new(
+                    vec![(x, y), (x + s.i(22), y)],
+                    line(s, *c, 3),
+                ))?;
             }
             Swatch::Dashed(c) => {
                 for k in 0..3 {
-                    let x0 = x + k * 8;
-                    top.draw(&PathElement::new(vec![(x0, y), (x0 + 5, y)], line(*c, 2)))?;
+                    let x0 = x + s.i(k * 8);
+                    top.draw(&PathElement::new(
+                        vec![(x0, y), (x0 + s.i(5), y)],
+                        line(s, *c, 2),
+                    ))?;
                 }
             }
             Swatch::Dot(c) => {
-                top.draw(&Circle::new((x + 11, y), 4, c.filled()))?;
+                top.draw(&Circle::new((x + s.i(11), y), s.u(4), c.filled()))?;
             }
         }
-        top.draw(&Text::new(label.clone(), (x + 28, y), style.clone()))?;
+        top.draw(&Text::new(label.clone(), (x + s.i(28), y), style.clone()))?;
     }
     Ok(rest)
 }
@@ -171,14 +203,16 @@ fn legend<DB: DrawingBackend>(
 pub fn draw_message<DB: DrawingBackend>(
     area: &DrawingArea<DB, Shift>,
     message: &str,
+    scale: f64,
 ) -> DrawResult<(), DB> {
+    let s = Sc::new(scale);
     area.fill(&WHITE)?;
     let (w, h) = area.dim_in_pixel();
     let center = (
         i32::try_from(w / 2).unwrap_or(0),
         i32::try_from(h / 2).unwrap_or(0),
     );
-    let style = font(FONT_PX)
+    let style = font(s, FONT_PX)
         .color(&MUTED)
         .pos(Pos::new(HPos::Center, VPos::Center));
     area.draw(&Text::new(message.to_string(), center, style))?;
@@ -215,12 +249,13 @@ fn pk_legend(data: &PlotData) -> String {
 
 /// Draw the dashed pK lines (vertical, on a pH x-axis) with their values in the top margin.
 fn pk_lines_vertical<DB: DrawingBackend>(
+    s: Sc,
     chart: &mut ChartContext<'_, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>,
     data: &PlotData,
     y_top: f64,
 ) -> DrawResult<(), DB> {
     let mut last_right = i32::MIN;
-    let label_style = font(SMALL_PX)
+    let label_style = font(s, SMALL_PX)
         .color(&MUTED)
         .pos(Pos::new(HPos::Center, VPos::Bottom));
     for (_, step, pk) in data.pk_marks() {
@@ -229,13 +264,13 @@ fn pk_lines_vertical<DB: DrawingBackend>(
         }
         chart.draw_series(DashedLineSeries::new(
             vec![(pk, 0.0), (pk, y_top)],
-            5,
-            4,
-            line(MUTED, 1),
+            s.i(5),
+            s.i(4),
+            line(s, MUTED, 1),
         ))?;
         let (px, py) = chart.backend_coord(&(pk, y_top));
         let text = format!("pK{} {pk:.2}", subscript(step));
-        let half = 4 * text.chars().count() as i32;
+        let half = s.i(4) * text.chars().count() as i32;
         if px - half > last_right {
             let root = chart.plotting_area().strip_coord_spec();
             let (ox, oy) = {
@@ -244,7 +279,7 @@ fn pk_lines_vertical<DB: DrawingBackend>(
             };
             root.draw(&Text::new(
                 text,
-                (px - ox, py - oy - 3),
+                (px - ox, py - oy - s.i(3)),
                 label_style.clone(),
             ))?;
             last_right = px + half;
@@ -283,7 +318,9 @@ pub fn draw_species<DB: DrawingBackend>(
     data: &PlotData,
     quantity: Quantity,
     cursor: Option<f64>,
+    scale: f64,
 ) -> DrawResult<Frame, DB> {
+    let s = Sc::new(scale);
     area.fill(&WHITE)?;
     let mut entries: Vec<(Swatch, String)> = data
         .series
@@ -293,7 +330,7 @@ pub fn draw_species<DB: DrawingBackend>(
         .collect();
     entries.push((Swatch::Line(INK), format!("working pH {:.2}", data.ph)));
     entries.push((Swatch::Dashed(MUTED), pk_legend(data)));
-    let plot_area = legend(area, &entries)?;
+    let plot_area = legend(s, area, &entries)?;
 
     let (y_top, y_desc) = match quantity {
         Quantity::Fraction => (1.0, "fraction of system total"),
@@ -303,11 +340,11 @@ pub fn draw_species<DB: DrawingBackend>(
         ),
     };
     let mut chart = ChartBuilder::on(&plot_area)
-        .margin_top(18)
-        .margin_right(16)
-        .margin_left(6)
-        .x_label_area_size(42)
-        .y_label_area_size(60)
+        .margin_top(s.i(18))
+        .margin_right(s.i(16))
+        .margin_left(s.i(6))
+        .x_label_area_size(s.i(42))
+        .y_label_area_size(s.i(60))
         .build_cartesian_2d(PH_MIN..PH_MAX, 0.0..y_top)?;
     let y_fmt = |v: &f64| tick(*v);
     let x_fmt = |v: &f64| tick(*v);
@@ -316,40 +353,41 @@ pub fn draw_species<DB: DrawingBackend>(
         .x_labels(15)
         .y_labels(6)
         .max_light_lines(0)
+        .set_all_tick_mark_size(s.i(5))
         .bold_line_style(GRID)
         .axis_style(MUTED)
         .x_label_formatter(&x_fmt)
         .y_label_formatter(&y_fmt)
-        .label_style(font(SMALL_PX))
-        .axis_desc_style(font(FONT_PX))
+        .label_style(font(s, SMALL_PX))
+        .axis_desc_style(font(s, FONT_PX))
         .x_desc("pH")
         .y_desc(y_desc)
         .draw()?;
-    pk_lines_vertical(&mut chart, data, y_top)?;
+    pk_lines_vertical(s, &mut chart, data, y_top)?;
 
-    for (i, s) in data.series.iter().enumerate() {
+    for (i, ser) in data.series.iter().enumerate() {
         let pts = data
             .grid
             .iter()
             .enumerate()
-            .map(|(j, x)| (*x, data.value(s, j, quantity)));
-        chart.draw_series(LineSeries::new(pts, line(species_color(i), 2)))?;
+            .map(|(j, x)| (*x, data.value(ser, j, quantity)));
+        chart.draw_series(LineSeries::new(pts, line(s, species_color(i), 2)))?;
     }
     chart.draw_series(std::iter::once(PathElement::new(
         vec![(data.ph, 0.0), (data.ph, y_top)],
-        line(INK, 2),
+        line(s, INK, 2),
     )))?;
     if let Some(c) = cursor.and_then(|c| super::data::nearest(&data.grid, c)) {
         if let Some(x) = data.grid.get(c).copied() {
             chart.draw_series(std::iter::once(PathElement::new(
                 vec![(x, 0.0), (x, y_top)],
-                line(CURSOR, 1),
+                line(s, CURSOR, 1),
             )))?;
-            for (i, s) in data.series.iter().enumerate() {
-                let y = data.value(s, c, quantity);
+            for (i, ser) in data.series.iter().enumerate() {
+                let y = data.value(ser, c, quantity);
                 chart.draw_series(std::iter::once(Circle::new(
                     (x, y),
-                    4,
+                    s.u(4),
                     species_color(i).filled(),
                 )))?;
             }
@@ -400,7 +438,9 @@ pub fn draw_capacity<DB: DrawingBackend>(
     area: &DrawingArea<DB, Shift>,
     data: &PlotData,
     cursor: Option<f64>,
+    scale: f64,
 ) -> DrawResult<Frame, DB> {
+    let s = Sc::new(scale);
     area.fill(&WHITE)?;
     let entries = vec![
         (Swatch::Line(CAPACITY), "buffer capacity β".to_string()),
@@ -414,14 +454,14 @@ pub fn draw_capacity<DB: DrawingBackend>(
         ),
         (Swatch::Dashed(MUTED), pk_legend(data)),
     ];
-    let plot_area = legend(area, &entries)?;
+    let plot_area = legend(s, area, &entries)?;
     let top = data.capacity_ceiling();
     let mut chart = ChartBuilder::on(&plot_area)
-        .margin_top(18)
-        .margin_right(16)
-        .margin_left(6)
-        .x_label_area_size(42)
-        .y_label_area_size(60)
+        .margin_top(s.i(18))
+        .margin_right(s.i(16))
+        .margin_left(s.i(6))
+        .x_label_area_size(s.i(42))
+        .y_label_area_size(s.i(60))
         .build_cartesian_2d(PH_MIN..PH_MAX, 0.0..top)?;
     let fmt = |v: &f64| tick(*v);
     chart
@@ -429,16 +469,17 @@ pub fn draw_capacity<DB: DrawingBackend>(
         .x_labels(15)
         .y_labels(6)
         .max_light_lines(0)
+        .set_all_tick_mark_size(s.i(5))
         .bold_line_style(GRID)
         .axis_style(MUTED)
         .x_label_formatter(&fmt)
         .y_label_formatter(&fmt)
-        .label_style(font(SMALL_PX))
-        .axis_desc_style(font(FONT_PX))
+        .label_style(font(s, SMALL_PX))
+        .axis_desc_style(font(s, FONT_PX))
         .x_desc("pH")
         .y_desc("β, mmol/(L·pH)")
         .draw()?;
-    pk_lines_vertical(&mut chart, data, top)?;
+    pk_lines_vertical(s, &mut chart, data, top)?;
     let filled: Vec<(f64, f64)> = data
         .grid
         .iter()
@@ -447,20 +488,24 @@ pub fn draw_capacity<DB: DrawingBackend>(
         .collect();
     chart.draw_series(AreaSeries::new(filled, 0.0, CAPACITY.mix(0.12)))?;
     for run in clip_top(&data.grid, &data.capacity_mm, top) {
-        chart.draw_series(LineSeries::new(run, line(CAPACITY, 2)))?;
+        chart.draw_series(LineSeries::new(run, line(s, CAPACITY, 2)))?;
     }
     chart.draw_series(std::iter::once(PathElement::new(
         vec![(data.ph, 0.0), (data.ph, top)],
-        line(INK, 2),
+        line(s, INK, 2),
     )))?;
     if let Some(c) = cursor.and_then(|c| super::data::nearest(&data.grid, c)) {
         if let (Some(x), Some(b)) = (data.grid.get(c), data.capacity_mm.get(c)) {
             chart.draw_series(std::iter::once(PathElement::new(
                 vec![(*x, 0.0), (*x, top)],
-                line(CURSOR, 1),
+                line(s, CURSOR, 1),
             )))?;
             if *b <= top {
-                chart.draw_series(std::iter::once(Circle::new((*x, *b), 4, CAPACITY.filled())))?;
+                chart.draw_series(std::iter::once(Circle::new(
+                    (*x, *b),
+                    s.u(4),
+                    CAPACITY.filled(),
+                )))?;
             }
         }
     }
@@ -477,7 +522,9 @@ pub fn draw_titration<DB: DrawingBackend>(
     area: &DrawingArea<DB, Shift>,
     data: &PlotData,
     cursor: Option<f64>,
+    scale: f64,
 ) -> DrawResult<Frame, DB> {
+    let s = Sc::new(scale);
     area.fill(&WHITE)?;
     let x0 = data.added_mm.first().copied().unwrap_or(-1.0);
     let x1 = data.added_mm.last().copied().unwrap_or(1.0);
@@ -490,13 +537,13 @@ pub fn draw_titration<DB: DrawingBackend>(
         ),
         (Swatch::Dashed(MUTED), pk_legend(data)),
     ];
-    let plot_area = legend(area, &entries)?;
+    let plot_area = legend(s, area, &entries)?;
     let mut chart = ChartBuilder::on(&plot_area)
-        .margin_top(10)
-        .margin_right(16)
-        .margin_left(6)
-        .x_label_area_size(42)
-        .y_label_area_size(60)
+        .margin_top(s.i(10))
+        .margin_right(s.i(16))
+        .margin_left(s.i(6))
+        .x_label_area_size(s.i(42))
+        .y_label_area_size(s.i(60))
         .build_cartesian_2d(x0..x1, PH_MIN..PH_MAX)?;
     let x_fmt = |v: &f64| tick(v.abs());
     let y_fmt = |v: &f64| tick(*v);
@@ -505,16 +552,17 @@ pub fn draw_titration<DB: DrawingBackend>(
         .x_labels(9)
         .y_labels(8)
         .max_light_lines(0)
+        .set_all_tick_mark_size(s.i(5))
         .bold_line_style(GRID)
         .axis_style(MUTED)
         .x_label_formatter(&x_fmt)
         .y_label_formatter(&y_fmt)
-        .label_style(font(SMALL_PX))
-        .axis_desc_style(font(FONT_PX))
+        .label_style(font(s, SMALL_PX))
+        .axis_desc_style(font(s, FONT_PX))
         .x_desc("← HCl added   mmol/L   NaOH added →")
         .y_desc("pH")
         .draw()?;
-    let pk_label = font(SMALL_PX)
+    let pk_label = font(s, SMALL_PX)
         .color(&MUTED)
         .pos(Pos::new(HPos::Right, VPos::Bottom));
     for (_, step, pk) in data.pk_marks() {
@@ -523,9 +571,9 @@ pub fn draw_titration<DB: DrawingBackend>(
         }
         chart.draw_series(DashedLineSeries::new(
             vec![(x0, pk), (x1, pk)],
-            5,
-            4,
-            line(MUTED, 1),
+            s.i(5),
+            s.i(4),
+            line(s, MUTED, 1),
         ))?;
         chart.draw_series(std::iter::once(Text::new(
             format!("pK{} {pk:.2}", subscript(step)),
@@ -535,25 +583,29 @@ pub fn draw_titration<DB: DrawingBackend>(
     }
     chart.draw_series(std::iter::once(PathElement::new(
         vec![(0.0, PH_MIN), (0.0, PH_MAX)],
-        line(GRID, 1),
+        line(s, GRID, 1),
     )))?;
     let pts = data
         .added_mm
         .iter()
         .zip(data.titration_ph.iter())
         .map(|(x, y)| (*x, *y));
-    chart.draw_series(LineSeries::new(pts, line(TITRATION, 2)))?;
+    chart.draw_series(LineSeries::new(pts, line(s, TITRATION, 2)))?;
     chart.draw_series(std::iter::once(Circle::new(
         (0.0, data.ph),
-        5,
+        s.u(5),
         INK.filled(),
     )))?;
     if let Some((x, y)) = cursor.and_then(|c| data.titration_at(c)) {
         chart.draw_series(std::iter::once(PathElement::new(
             vec![(x, PH_MIN), (x, PH_MAX)],
-            line(CURSOR, 1),
+            line(s, CURSOR, 1),
         )))?;
-        chart.draw_series(std::iter::once(Circle::new((x, y), 4, TITRATION.filled())))?;
+        chart.draw_series(std::iter::once(Circle::new(
+            (x, y),
+            s.u(4),
+            TITRATION.filled(),
+        )))?;
     }
     Ok(frame_of(chart.plotting_area(), (x0, x1)))
 }
@@ -579,18 +631,15 @@ pub fn species_summary(data: &PlotData) -> String {
 
 /// Text for the canvas `aria-label` of the capacity plot.
 pub fn capacity_summary(data: &PlotData) -> String {
+    // The buffering step nearest the working pH.
     let peak = data
         .pk_marks()
         .iter()
-        .filter_map(|m| super::data::nearest(&data.grid, m.2))
-        .filter_map(|i| Some((*data.grid.get(i)?, *data.capacity_mm.get(i)?)))
-        .filter(|(x, _)| (2.0..=12.0).contains(x))
-        .max_by(|a, b| a.1.total_cmp(&b.1));
+        .min_by(|a, b| (a.2 - data.ph).abs().total_cmp(&(b.2 - data.ph).abs()))
+        .and_then(|m| super::data::nearest(&data.grid, m.2))
+        .and_then(|i| Some((*data.grid.get(i)?, *data.capacity_mm.get(i)?)));
     let peak = peak.map_or(String::new(), |(x, b)| {
-        format!(
-            " The buffer peak near pH {x:.1} reaches {} mM/pH.",
-            sig(b, 3)
-        )
+        format!(" Near pH {x:.1}, the nearest pK, β is {} mM/pH.", sig(b, 3))
     });
     format!(
         "Buffer capacity from pH 0 to 14. At the working pH {:.2}, β = {} mmol/(L·pH).{peak}",
@@ -668,7 +717,7 @@ mod tests {
     fn species_svg_has_axes_one_path_per_species_legend_and_pk() {
         let d = recipe_data();
         let mut frame = None;
-        let svg = svg_of(|a| frame = draw_species(a, &d, Quantity::Fraction, None).ok());
+        let svg = svg_of(|a| frame = draw_species(a, &d, Quantity::Fraction, None, 1.0).ok());
         let frame = frame.unwrap_or_else(|| unreachable!("drawing failed"));
         assert!(has_text(&svg, "pH"), "x-axis label");
         assert!(svg.contains("fraction of system total"), "y-axis label");
@@ -693,7 +742,7 @@ mod tests {
     fn concentration_mode_and_cursor() {
         let d = mixture_data();
         let svg = svg_of(|a| {
-            let _ = draw_species(a, &d, Quantity::Concentration, Some(8.0));
+            let _ = draw_species(a, &d, Quantity::Concentration, Some(8.0), 1.0);
         });
         assert!(svg.contains("concentration, mmol/L"));
         assert_eq!(polylines(&svg, species_color(0)), 1);
@@ -710,7 +759,7 @@ mod tests {
     fn capacity_svg() {
         let d = recipe_data();
         let svg = svg_of(|a| {
-            let _ = draw_capacity(a, &d, None);
+            let _ = draw_capacity(a, &d, None, 1.0);
         });
         assert!(has_text(&svg, "pH"));
         assert!(svg.contains("β, mmol/(L·pH)"));
@@ -724,13 +773,40 @@ mod tests {
     fn titration_svg() {
         let d = recipe_data();
         let svg = svg_of(|a| {
-            let _ = draw_titration(a, &d, Some(10.0));
+            let _ = draw_titration(a, &d, Some(10.0), 1.0);
         });
         assert!(svg.contains("HCl added"));
         assert!(has_text(&svg, "pH"));
         assert_eq!(polylines(&svg, TITRATION), 1);
         assert!(has_text_starting(&svg, "pK₂ 7."));
         assert!(svg.contains("start: nothing added, pH 7.40"));
+    }
+
+    #[test]
+    fn scale_multiplies_fonts_and_widths() {
+        let d = recipe_data();
+        let at = |scale: f64| {
+            let mut out = String::new();
+            {
+                let w = (720.0 * scale) as u32;
+                let h = (420.0 * scale) as u32;
+                let root = SVGBackend::with_string(&mut out, (w, h)).into_drawing_area();
+                let _ = draw_species(&root, &d, Quantity::Fraction, None, scale);
+            }
+            out
+        };
+        let one = at(1.0);
+        let two = at(2.0);
+        let size = |svg: &str| {
+            svg.split("font-size=\"")
+                .nth(1)
+                .and_then(|r| r.split('"').next())
+                .and_then(|v| v.parse::<f64>().ok())
+                .unwrap_or(0.0)
+        };
+        assert!((size(&two) - 2.0 * size(&one)).abs() < 1e-6);
+        assert!(two.contains("stroke-width=\"4\""), "2× curve width");
+        assert_eq!(polylines(&two, species_color(0)), 1);
     }
 
     #[test]

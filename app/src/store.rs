@@ -1716,6 +1716,49 @@ fn forget_fragment(href: &str) {
     }
 }
 
+/// Read a share-link fragment: keep the current unsaved draft aside when the
+/// link replaces it, report a broken link, and drop the fragment from the
+/// address bar (except in embeds, whose reload must show the preset again).
+fn open_fragment(
+    store: &Store,
+    kv: Option<&mut LocalStore>,
+    hash: &str,
+    href: &str,
+) -> Option<Design> {
+    match share::decode_fragment(hash)? {
+        Ok(d) => {
+            if !store.ephemeral {
+                if let Some(kv) = kv {
+                    if let Ok(Some(text)) = kv.get(DRAFT_KEY) {
+                        if parse_draft(&text).is_ok_and(|old| draft_worth_keeping(&old, &d))
+                            && kv.set(PREVIOUS_DRAFT_KEY, &text).is_ok()
+                        {
+                            store.notify(
+                                NoticeKind::Info,
+                                "Opened the design from the link. Your previous unsaved work was kept aside.",
+                                Some(NoticeAction::RestorePrevious),
+                            );
+                        }
+                    }
+                }
+                forget_fragment(href);
+            }
+            Some(d)
+        }
+        Err(why) => {
+            store.notify(
+                NoticeKind::Error,
+                format!("The design in this link could not be opened: {why}."),
+                None,
+            );
+            if !store.ephemeral {
+                forget_fragment(href);
+            }
+            None
+        }
+    }
+}
+
 /// Start-up: URL options, the design to show, autosave and two-tab sync.
 ///
 /// Call once inside the root component, after `provide_context(state)`.
@@ -1745,39 +1788,7 @@ pub fn init(state: AppState) {
         }
     };
 
-    let mut shown: Option<Design> = None;
-    match share::decode_fragment(&hash) {
-        Some(Ok(d)) => {
-            if !store.ephemeral {
-                if let Some(kv) = kv.as_mut() {
-                    if let Ok(Some(text)) = kv.get(DRAFT_KEY) {
-                        if parse_draft(&text).is_ok_and(|old| draft_worth_keeping(&old, &d))
-                            && kv.set(PREVIOUS_DRAFT_KEY, &text).is_ok()
-                        {
-                            store.notify(
-                                NoticeKind::Info,
-                                "Opened the design from the link. Your previous unsaved work was kept aside.",
-                                Some(NoticeAction::RestorePrevious),
-                            );
-                        }
-                    }
-                }
-                forget_fragment(&href);
-            }
-            shown = Some(d);
-        }
-        Some(Err(why)) => {
-            store.notify(
-                NoticeKind::Error,
-                format!("The design in this link could not be opened: {why}."),
-                None,
-            );
-            if !store.ephemeral {
-                forget_fragment(&href);
-            }
-        }
-        None => {}
-    }
+    let shown = open_fragment(&store, kv.as_mut(), &hash, &href);
 
     let mut draft_to_apply = None;
     if shown.is_none() && !store.ephemeral {
@@ -1817,8 +1828,20 @@ pub fn init(state: AppState) {
         });
     }
 
-    let _listener = window_event_listener(leptos::ev::storage, move |ev: web_sys::StorageEvent| {
+    let _storage = window_event_listener(leptos::ev::storage, move |ev: web_sys::StorageEvent| {
         store.on_storage_event(ev.key());
+    });
+    // A share link pasted into the address bar of an open page only changes the fragment.
+    let _hash = window_event_listener(leptos::ev::hashchange, move |_| {
+        let (_, hash, href) = location_parts();
+        let mut kv = LocalStore::open().ok();
+        if let Some(mut d) = open_fragment(&store, kv.as_mut(), &hash, &href) {
+            if let Some(ws) = opts.workspace {
+                d.workspace = ws;
+            }
+            store.open.set(None);
+            state.load(d);
+        }
     });
 }
 

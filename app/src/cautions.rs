@@ -13,6 +13,12 @@ use solver::system::{AcidSystem, Hazard};
 /// One caution.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
 pub enum Caution {
+    /// Sulfide / hydrogen sulfide.
+    Sulfide,
+    /// Chlorine / hypochlorite.
+    Chlorine,
+    /// Ammonia.
+    Ammonia,
     /// Hydrochloric acid stock.
     StrongAcid,
     /// Sodium or potassium hydroxide stock.
@@ -23,12 +29,6 @@ pub enum Caution {
     TribasicPhosphate,
     /// Free acids or concentrated stocks of the system are corrosive.
     CorrosiveForms,
-    /// Ammonia.
-    Ammonia,
-    /// Sulfide / hydrogen sulfide.
-    Sulfide,
-    /// Chlorine / hypochlorite.
-    Chlorine,
 }
 
 impl Caution {

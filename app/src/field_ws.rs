@@ -85,6 +85,8 @@ pub fn FieldWorkspace() -> impl IntoView {
         })
     };
     let set_system = move |id: String| design.update(|d| d.field.system = id);
+    let other_system =
+        Memo::new(move |_| spec.with(|s| !QUICK.iter().any(|(id, _)| *id == s.system)));
     let basis = Memo::new(move |_| spec.with(|s| reporting_basis(&s.system).0.to_string()));
 
     let total_options = move || {
@@ -172,109 +174,115 @@ pub fn FieldWorkspace() -> impl IntoView {
     });
 
     view! {
-        <div class="ws-grid field-ws">
-            <div class="inputs card">
-                <h2 class="card-title">"Reading"</h2>
-                <div class="quick" role="group" aria-label="Common questions">
-                    {QUICK
-                        .iter()
-                        .map(|(id, text)| {
-                            let id = *id;
-                            view! {
-                                <button
-                                    type="button"
-                                    class="btn quick-btn"
-                                    data-testid=format!("field-quick-{id}")
-                                    aria-pressed=move || if spec.with(|s| s.system == id) { "true" } else { "false" }
-                                    disabled=readonly
-                                    on:click=move |_| set_system(id.to_string())
-                                >
-                                    {*text}
-                                </button>
-                            }
-                        })
-                        .collect_view()}
-                </div>
-                <SystemPicker
-                    id="field-system"
-                    label="System"
-                    selected=Signal::derive(move || spec.with(|s| s.system.clone()))
-                    temperature=Signal::derive(move || spec.with(|s| s.temperature_c))
-                    on_change=Callback::new(set_system)
-                />
-                <div class="row-2">
-                    <NumberField
-                        id="field-ph"
-                        label="Measured pH"
-                        value=Signal::derive(move || spec.with(|s| s.ph))
-                        on_value=Callback::new(move |v| design.update(|d| d.field.ph = v))
-                        rule=PH
-                        error=err_for("ph")
+            <div class="ws-grid field-ws">
+                <div class="inputs card">
+                    <h2 class="card-title">"Reading"</h2>
+                    <div class="quick" role="group" aria-label="Common questions">
+                        {QUICK
+                            .iter()
+                            .map(|(id, text)| {
+                                let id = *id;
+                                view! {
+                                    <button
+                                        type="button"
+                                        class="btn quick-btn"
+                                        data-testid=format!("field-quick-{id}")
+                                        aria-pressed=move || if spec.with(|s| s.system == id) { "true" } else { "false" }
+                                        disabled=readonly
+                                        on:click=move |_| set_system(id.to_string())
+                                    >
+                                        {*text}
+                                    </button>
+                                }
+                            })
+                            .collect_view()}
+                    </div>
+    <details
+                        class="other-systems"
+                        open=move || other_system.get()
+                    >
+                        <summary>"Any library system"</summary>
+                        <SystemPicker
+                        id="field-system"
+                        label="System"
+                        selected=Signal::derive(move || spec.with(|s| s.system.clone()))
+                        temperature=Signal::derive(move || spec.with(|s| s.temperature_c))
+                        on_change=Callback::new(set_system)
                     />
-                    <NumberField
-                        id="field-temp"
-                        label="Sample temperature"
-                        value=Signal::derive(move || spec.with(|s| s.temperature_c))
-                        on_value=Callback::new(move |v| design.update(|d| d.field.temperature_c = v))
-                        rule=TEMPERATURE
-                        suffix="°C"
-                        error=err_for("temperature_c")
-                    />
-                </div>
-                {move || {
-                    let opts = total_options();
-                    view! {
-                        <Choice
-                            name="field-total-unit"
-                            legend="Total concentration (optional)"
-                            options=opts
-                            selected=Signal::derive(move || spec.with(|s| total_key(s).to_string()))
-                            on_change=on_total_unit
+                    </details>
+                    <div class="row-2">
+                        <NumberField
+                            id="field-ph"
+                            label="Measured pH"
+                            value=Signal::derive(move || spec.with(|s| s.ph))
+                            on_value=Callback::new(move |v| design.update(|d| d.field.ph = v))
+                            rule=PH
+                            error=err_for("ph")
                         />
-                    }
-                }}
-                {move || {
-                    let key = spec.with(total_key);
-                    (key != "none")
-                        .then(|| {
-                            let suffix = match key {
-                                "mmol" => "mmol/L".to_string(),
-                                "umol" => "µmol/L".to_string(),
-                                _ => format!("mg/L as {}", basis.get()),
-                            };
-                            view! {
-                                <NumberField
-                                    id="field-total"
-                                    label="Total"
-                                    value=Signal::derive(move || spec.with(|s| s.total.unwrap_or(0.0)))
-                                    on_value=Callback::new(move |v| design.update(|d| d.field.total = Some(v)))
-                                    rule=FIELD_TOTAL
-                                    suffix=suffix
-                                    error=err_for("total")
-                                />
-                            }
-                        })
-                }}
-                <Choice
-                    name="field-ionic"
-                    legend="Ionic strength from"
-                    options=vec![
-                        ChoiceOption::new("zero", "Nothing (I = 0)"),
-                        ChoiceOption::new("conductivity", "Conductivity"),
-                        ChoiceOption::new("tds", "TDS"),
-                        ChoiceOption::new("direct", "Known I"),
-                    ]
-                    selected=Signal::derive(move || spec.with(|s| ionic_key(&s.ionic).to_string()))
-                    on_change=on_ionic_kind
-                />
-                {ionic_field}
+                        <NumberField
+                            id="field-temp"
+                            label="Sample temperature"
+                            value=Signal::derive(move || spec.with(|s| s.temperature_c))
+                            on_value=Callback::new(move |v| design.update(|d| d.field.temperature_c = v))
+                            rule=TEMPERATURE
+                            suffix="°C"
+                            error=err_for("temperature_c")
+                        />
+                    </div>
+                    {move || {
+                        let opts = total_options();
+                        view! {
+                            <Choice
+                                name="field-total-unit"
+                                legend="Total concentration (optional)"
+                                options=opts
+                                selected=Signal::derive(move || spec.with(|s| total_key(s).to_string()))
+                                on_change=on_total_unit
+                            />
+                        }
+                    }}
+                    {move || {
+                        let key = spec.with(total_key);
+                        (key != "none")
+                            .then(|| {
+                                let suffix = match key {
+                                    "mmol" => "mmol/L".to_string(),
+                                    "umol" => "µmol/L".to_string(),
+                                    _ => format!("mg/L as {}", basis.get()),
+                                };
+                                view! {
+                                    <NumberField
+                                        id="field-total"
+                                        label="Total"
+                                        value=Signal::derive(move || spec.with(|s| s.total.unwrap_or(0.0)))
+                                        on_value=Callback::new(move |v| design.update(|d| d.field.total = Some(v)))
+                                        rule=FIELD_TOTAL
+                                        suffix=suffix
+                                        error=err_for("total")
+                                    />
+                                }
+                            })
+                    }}
+                    <Choice
+                        name="field-ionic"
+                        legend="Ionic strength from"
+                        options=vec![
+                            ChoiceOption::new("zero", "Nothing (I = 0)"),
+                            ChoiceOption::new("conductivity", "Conductivity"),
+                            ChoiceOption::new("tds", "TDS"),
+                            ChoiceOption::new("direct", "Known I"),
+                        ]
+                        selected=Signal::derive(move || spec.with(|s| ionic_key(&s.ionic).to_string()))
+                        on_change=on_ionic_kind
+                    />
+                    {ionic_field}
+                </div>
+                <div class="results">
+                    <FieldResultView spec=spec result=result pending=pending />
+                    <CautionPanel items=cautions testid="field-cautions" />
+                </div>
             </div>
-            <div class="results">
-                <FieldResultView spec=spec result=result pending=pending />
-                <CautionPanel items=cautions testid="field-cautions" />
-            </div>
-        </div>
-    }
+        }
 }
 
 #[component]

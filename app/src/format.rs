@@ -304,6 +304,42 @@ pub fn fmt_mg_l(v: f64) -> String {
     format!("{} mg/L", fmt_sig(v, 3))
 }
 
+/// A formula (or a sentence holding formulas) with subscript counts:
+/// `Na2HPO4·7H2O` → `Na₂HPO₄·7H₂O`. A digit is a count when it follows a
+/// letter, a closing bracket or another count; leading coefficients (`7H2O`)
+/// and numbers in prose (`500 mL`, `pH 7.4`) stay as they are.
+pub fn pretty_formula(text: &str) -> String {
+    const SUB: [char; 10] = ['₀', '₁', '₂', '₃', '₄', '₅', '₆', '₇', '₈', '₉'];
+    let mut out = String::with_capacity(text.len() + 8);
+    let mut prev: Option<char> = None;
+    let mut in_count = false;
+    let mut word_has_upper = false;
+    for c in text.chars() {
+        if c.is_whitespace() {
+            word_has_upper = false;
+        }
+        let count_here = c.is_ascii_digit()
+            && (in_count
+                || prev.is_some_and(|p| (p.is_ascii_alphabetic() || p == ')') && word_has_upper));
+        if count_here {
+            let d = c
+                .to_digit(10)
+                .and_then(|d| SUB.get(d as usize).copied())
+                .unwrap_or(c);
+            out.push(d);
+            in_count = true;
+        } else {
+            out.push(c);
+            in_count = false;
+        }
+        if c.is_ascii_uppercase() {
+            word_has_upper = true;
+        }
+        prev = Some(c);
+    }
+    out
+}
+
 /// The dotted field path a solver error names, if any (`target_ph`, `method.titrant_m`...).
 pub fn error_field(e: &SolverError) -> Option<String> {
     match e {
@@ -446,6 +482,17 @@ mod tests {
         assert_eq!(fmt_pct(1e-9), "< 0.0001 %");
         assert_eq!(fmt_capacity(0.0284), "28.4 mM/pH");
         assert_eq!(fmt_mg_l(0.0317), "0.0317 mg/L");
+    }
+
+    #[test]
+    fn formulas_get_subscripts_prose_does_not() {
+        assert_eq!(pretty_formula("Na2HPO4·7H2O"), "Na₂HPO₄·7H₂O");
+        assert_eq!(pretty_formula("C6H6Na2O7·1.5H2O"), "C₆H₆Na₂O₇·1.5H₂O");
+        assert_eq!(
+            pretty_formula("Weigh 733.5 mg of NaH2PO4·H2O at pH 7.40 in 500.0 mL."),
+            "Weigh 733.5 mg of NaH₂PO₄·H₂O at pH 7.40 in 500.0 mL."
+        );
+        assert_eq!(pretty_formula("mes2 step2"), "mes2 step2");
     }
 
     #[test]

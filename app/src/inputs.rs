@@ -335,7 +335,7 @@ pub fn SystemPicker(
                 type="search"
                 id=search_id
                 class="search"
-                placeholder="Search by name, formula or a pH such as 7.4"
+                placeholder="Name, formula or a pH (7.4)"
                 aria-label=search_label
                 autocomplete="off"
                 prop:value=move || query.get()

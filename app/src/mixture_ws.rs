@@ -6,8 +6,8 @@
 
 use crate::cautions::{cautions_for_many, CautionPanel};
 use crate::format::{
-    error_field, error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_pct, fmt_ph, AMOUNT,
-    CONC_UNITS, DILUTION, TEMPERATURE,
+    error_field, error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_pct, fmt_ph, pretty_formula,
+    AMOUNT, CONC_UNITS, DILUTION, TEMPERATURE,
 };
 use crate::inputs::{all_systems, system_label, Choice, ChoiceOption, NumberField};
 use crate::state::use_app;
@@ -231,11 +231,12 @@ where
                             s.species.first().cloned().unwrap_or_default()
                         ),
                     )];
-                    v.extend(
-                        s.forms
-                            .iter()
-                            .map(|f| (f.id.clone(), format!("{} — {}", f.formula, f.name))),
-                    );
+                    v.extend(s.forms.iter().map(|f| {
+                        (
+                            f.id.clone(),
+                            format!("{} — {}", pretty_formula(&f.formula), f.name),
+                        )
+                    }));
                     v
                 })
                 .unwrap_or_default()

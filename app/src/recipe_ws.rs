@@ -10,7 +10,8 @@
 use crate::cautions::{cautions_for, Caution, CautionPanel};
 use crate::format::{
     error_field, error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_input, fmt_ph, fmt_sig,
-    BUFFER_CONC, CONC_UNITS, PH, STOCK, TEMPERATURE, TOLERANCE, VOLUME, VOLUME_UNITS,
+    pretty_formula, BUFFER_CONC, CONC_UNITS, PH, STOCK, TEMPERATURE, TOLERANCE, VOLUME,
+    VOLUME_UNITS,
 };
 use crate::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
 use crate::state::use_app;
@@ -19,8 +20,8 @@ use solver::activity::ActivityModel;
 use solver::equilibrium::Warning;
 use solver::mixture::{lookup, Additive, AdditiveSpec};
 use solver::recipe::{
-    format_mass, format_volume_ml, solve_recipe, suggest_pair, Ingredient, Method, RecipeResult,
-    RecipeSpec, RecipeWarning,
+    form_level, format_mass, format_volume_ml, solve_recipe, suggest_pair, Ingredient, Method,
+    RecipeResult, RecipeSpec, RecipeWarning,
 };
 use solver::system::AcidSystem;
 use solver::SolverError;
@@ -49,10 +50,14 @@ fn suggestion(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<(String, Strin
     suggest_pair(&spec.system, spec.target_ph, spec.temperature_c, custom).ok()
 }
 
-/// Whether the forms in `spec` are the ones the solver suggests (not picked by hand).
-pub fn follows_suggestion(spec: &RecipeSpec, custom: &[AcidSystem]) -> bool {
-    let Some((a, b)) = suggestion(spec, custom) else {
-        return true;
+/// Deprotonation levels of the forms in `spec` (acid side, base side), if they exist.
+fn current_levels(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<(f64, f64)> {
+    let sys = lookup(&spec.system, custom).ok()?;
+    let level = |id: &str| {
+        sys.forms
+            .iter()
+            .find(|f| f.id == id)
+            .map(|f| form_level(sys, f))
     };
     match &spec.method {
         Method::TwoForms {
@@ -63,8 +68,40 @@ pub fn follows_suggestion(spec: &RecipeSpec, custom: &[AcidSystem]) -> bool {
             acid_form,
             base_form,
             ..
-        } => *acid_form == a && *base_form == b,
-        Method::Titrate { form, titrant, .. } => *form == titrate_form(*titrant, &a, &b),
+        } => Some((level(acid_form)?, level(base_form)?)),
+        Method::Titrate { form, .. } => {
+            let l = level(form)?;
+            Some((l, l))
+        }
+    }
+}
+
+/// Deprotonation levels of the solver's suggested pair, in the same shape as [`current_levels`].
+fn suggested_levels(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<(f64, f64)> {
+    let (a, b) = suggestion(spec, custom)?;
+    let sys = lookup(&spec.system, custom).ok()?;
+    let level = |id: &str| {
+        sys.forms
+            .iter()
+            .find(|f| f.id == id)
+            .map(|f| form_level(sys, f))
+    };
+    match &spec.method {
+        Method::Titrate { titrant, .. } => {
+            let l = level(&titrate_form(*titrant, &a, &b))?;
+            Some((l, l))
+        }
+        _ => Some((level(&a)?, level(&b)?)),
+    }
+}
+
+/// Whether the forms in `spec` sit on the levels the solver suggests for the
+/// target (any hydrate or salt of those levels counts): if not, they were
+/// picked by hand.
+pub fn follows_suggestion(spec: &RecipeSpec, custom: &[AcidSystem]) -> bool {
+    match (suggested_levels(spec, custom), current_levels(spec, custom)) {
+        (Some(s), Some(c)) => (s.0 - c.0).abs() < 1e-9 && (s.1 - c.1).abs() < 1e-9,
+        _ => true,
     }
 }
 
@@ -100,7 +137,7 @@ pub fn apply_suggestion(spec: &mut RecipeSpec, custom: &[AcidSystem]) {
 pub fn edit_recipe(spec: &mut RecipeSpec, custom: &[AcidSystem], f: impl FnOnce(&mut RecipeSpec)) {
     let auto = follows_suggestion(spec, custom);
     f(spec);
-    if auto {
+    if auto && !follows_suggestion(spec, custom) {
         apply_suggestion(spec, custom);
     }
 }
@@ -410,7 +447,10 @@ fn MethodInputs(
                                     .molar_mass()
                                     .map(|m| format!("{} g/mol", fmt_sig(m, 5)))
                                     .unwrap_or_else(|_| "molar mass unknown".into());
-                                (f.id.clone(), format!("{} — {} ({mm})", f.formula, f.name))
+                                (
+                                    f.id.clone(),
+                                    format!("{} — {} ({mm})", pretty_formula(&f.formula), f.name),
+                                )
                             })
                             .collect::<Vec<_>>()
                     })
@@ -602,7 +642,7 @@ fn MethodInputs(
         <p class="hint">
             {move || {
                 if spec.with(|s| custom.with(|c| follows_suggestion(s, c))) {
-                    "Forms follow the target: the pair on either side of the nearest pK is chosen for you."
+                    "Forms follow the target: when it moves to another pK, the pair on either side of it is chosen for you."
                 } else {
                     "Forms picked by hand: they stay as they are when the target changes."
                 }
@@ -838,7 +878,7 @@ fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
     let est_amounts = est
         .ingredients
         .iter()
-        .map(|i| format!("{} {}", amount_text(i), i.formula))
+        .map(|i| format!("{} {}", amount_text(i), pretty_formula(&i.formula)))
         .collect::<Vec<_>>()
         .join(", ");
     let lo = spec.target_ph - r.tolerance.window;
@@ -891,7 +931,7 @@ fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
                         view! {
                             <tr data-testid=format!("recipe-ingredient-{i}")>
                                 <td>
-                                    <span class="formula">{ing.formula.clone()}</span>
+                                    <span class="formula">{pretty_formula(&ing.formula)}</span>
                                     <span class="sub">{ing.name.clone()}</span>
                                 </td>
                                 <td class="num amount" data-testid=format!("recipe-ingredient-{i}-amount")>
@@ -907,7 +947,7 @@ fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
         </table>
         <h3>"Steps"</h3>
         <ol class="steps" data-testid="recipe-steps">
-            {r.steps.iter().map(|s| view! { <li>{s.clone()}</li> }).collect_view()}
+            {r.steps.iter().map(|s| view! { <li>{pretty_formula(s)}</li> }).collect_view()}
         </ol>
         <div class="compare">
             <h3>"Exact vs. Henderson–Hasselbalch"</h3>

@@ -6,7 +6,7 @@
 //! signals, and the only effects are the canvases' own redraws.
 
 use crate::plots::canvas::{CanvasArea, PlotCanvas};
-use crate::plots::data::{self, added_label, short, sig, PlotData, Quantity};
+use crate::plots::data::{self, added_label, conc_text, short, sig, PlotData, Quantity};
 use crate::plots::draw::{self, Frame};
 use crate::state::use_app;
 use leptos::prelude::*;
@@ -72,7 +72,7 @@ fn readout_text(data: &PlotData, cursor: Option<Cursor>) -> String {
                             "{} {} ({} mM)",
                             v.label,
                             fraction_text(v.fraction),
-                            sig(v.conc_mm, 3)
+                            conc_text(v.conc_mm)
                         )
                     })
                     .collect::<Vec<_>>()
@@ -82,7 +82,8 @@ fn readout_text(data: &PlotData, cursor: Option<Cursor>) -> String {
             None => String::new(),
         },
         Some(Cursor::Added(a)) => match data.titration_at(a) {
-            Some((x, ph)) => format!("{} → pH {ph:.2}", added_label(x)),
+            Some((x, ph)) if x.abs() < 1e-9 => format!("nothing added: pH {ph:.2}"),
+            Some((x, ph)) => format!("{} added → pH {ph:.2}", added_label(x)),
             None => String::new(),
         },
         None => "Point at or touch a plot (or focus it and use the arrow keys) to read the values there.".into(),
@@ -426,7 +427,7 @@ fn SpeciesTable(plot: Memo<PlotResult>, quantity: RwSignal<Quantity>) -> impl In
                     let mut r = vec![format!("{:.1}", d.grid.get(i).copied().unwrap_or(f64::NAN))];
                     r.extend(d.series.iter().map(|s| match q {
                         Quantity::Fraction => fraction_text(d.value(s, i, q)),
-                        Quantity::Concentration => sig(d.value(s, i, q), 3),
+                        Quantity::Concentration => conc_text(d.value(s, i, q)),
                     }));
                     r
                 })
@@ -521,7 +522,7 @@ mod tests {
         assert!(t.starts_with("pH 7.20:"), "{t}");
         assert!(t.contains("β "), "{t}");
         let t = readout_text(&d, Some(Cursor::Added(-10.0)));
-        assert!(t.contains("mmol/L HCl → pH"), "{t}");
+        assert!(t.contains("mmol/L HCl added → pH"), "{t}");
         assert!(readout_text(&d, None).contains("Point at"));
         assert!(
             context_text(&d).contains("Phosphate 50 mM"),

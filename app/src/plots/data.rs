@@ -347,12 +347,22 @@ pub fn short(x: f64, digits: usize) -> String {
     }
 }
 
+/// A concentration in mM for tables and the readout: three significant digits,
+/// scientific notation below 0.001 mM.
+pub fn conc_text(mm: f64) -> String {
+    if mm.is_finite() && mm != 0.0 && mm.abs() < 1e-3 {
+        format!("{mm:.2e}")
+    } else {
+        short(mm, 3)
+    }
+}
+
 /// Short name of the added reagent for an amount (mmol/L): "HCl" below zero, "NaOH" above.
 pub fn added_label(added_mm: f64) -> String {
     if added_mm < 0.0 {
-        format!("{} mmol/L HCl", sig(-added_mm, 3))
+        format!("{} mmol/L HCl", short(-added_mm, 3))
     } else if added_mm > 0.0 {
-        format!("{} mmol/L NaOH", sig(added_mm, 3))
+        format!("{} mmol/L NaOH", short(added_mm, 3))
     } else {
         "nothing added".into()
     }
@@ -449,7 +459,10 @@ pub(crate) mod tests {
         assert_eq!(sig(1234.0, 3), "1234");
         assert_eq!(short(50.0, 3), "50");
         assert_eq!(short(0.1290, 3), "0.129");
-        assert_eq!(added_label(-5.0), "5.00 mmol/L HCl");
+        assert_eq!(added_label(-5.0), "5 mmol/L HCl");
+        assert_eq!(added_label(12.5), "12.5 mmol/L NaOH");
+        assert_eq!(conc_text(0.000106), "1.06e-4");
+        assert_eq!(conc_text(35.6), "35.6");
         assert_eq!(added_label(0.0), "nothing added");
     }
 }

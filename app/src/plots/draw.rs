@@ -12,7 +12,8 @@ use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 /// Species colours: our own palette, each at least 3:1 against white.
-pub const PALETTE: [RGBColor; 8] = [
+/// Species of the second and later systems are also drawn dashed.
+pub const PALETTE: [RGBColor; 12] = [
     RGBColor(0x1d, 0x5f, 0xa6),
     RGBColor(0xc0, 0x4a, 0x0b),
     RGBColor(0x0e, 0x7c, 0x5a),
@@ -21,6 +22,10 @@ pub const PALETTE: [RGBColor; 8] = [
     RGBColor(0x8a, 0x6a, 0x00),
     RGBColor(0xb4, 0x23, 0x3c),
     RGBColor(0x2c, 0x6e, 0x7f),
+    RGBColor(0x4a, 0x7a, 0x12),
+    RGBColor(0xc2, 0x18, 0x6e),
+    RGBColor(0x6b, 0x4a, 0x2b),
+    RGBColor(0x3f, 0x51, 0x6b),
 ];
 /// Text and the working-pH marker.
 pub const INK: RGBColor = RGBColor(0x1b, 0x1f, 0x24);
@@ -233,18 +238,40 @@ fn frame_of<DB: DrawingBackend, CT: CoordTranslate>(
     }
 }
 
-/// pK entry for a legend: "pKa (I = 0, 37 °C): 2.15, 7.20, 12.3".
-fn pk_legend(data: &PlotData) -> String {
-    let list: Vec<String> = data
-        .pk_marks()
-        .iter()
-        .map(|(_, _, pk)| format!("{pk:.2}"))
-        .collect();
-    format!(
-        "pKa at {} °C, I = 0: {}",
-        short(data.temperature_c, 3),
-        list.join(", ")
-    )
+/// pK legend entries: one line for a single system ("pKa at 37 °C, I = 0: 2.21, 7.18,
+/// 12.25"), one per system when there are several.
+fn pk_legend(data: &PlotData) -> Vec<(Swatch, String)> {
+    let t = short(data.temperature_c, 3);
+    let list = |pks: &[f64]| {
+        pks.iter()
+            .map(|pk| format!("{pk:.2}"))
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    match data.systems.as_slice() {
+        [one] => vec![(
+            Swatch::Dashed(MUTED),
+            format!("pKa at {t} °C, I = 0: {}", list(&one.pks)),
+        )],
+        many => many
+            .iter()
+            .map(|sys| {
+                (
+                    Swatch::Dashed(MUTED),
+                    format!("pKa {} ({t} °C, I = 0): {}", sys.name, list(&sys.pks)),
+                )
+            })
+            .collect(),
+    }
+}
+
+/// Text of the pK legend for summaries.
+fn pk_text(data: &PlotData) -> String {
+    pk_legend(data)
+        .into_iter()
+        .map(|e| e.1)
+        .collect::<Vec<_>>()
+        .join("; ")
 }
 
 /// Draw the dashed pK lines (vertical, on a pH x-axis) with their values in the top margin.
@@ -326,10 +353,18 @@ pub fn draw_species<DB: DrawingBackend>(
         .series
         .iter()
         .enumerate()
-        .map(|(i, s)| (Swatch::Line(species_color(i)), data.label(s)))
+        .map(|(i, ser)| {
+            let c = species_color(i);
+            let swatch = if ser.system == 0 {
+                Swatch::Line(c)
+            } else {
+                Swatch::Dashed(c)
+            };
+            (swatch, data.label(ser))
+        })
         .collect();
     entries.push((Swatch::Line(INK), format!("working pH {:.2}", data.ph)));
-    entries.push((Swatch::Dashed(MUTED), pk_legend(data)));
+    entries.extend(pk_legend(data));
     let plot_area = legend(s, area, &entries)?;
 
     let (y_top, y_desc) = match quantity {
@@ -371,7 +406,12 @@ pub fn draw_species<DB: DrawingBackend>(
             .iter()
             .enumerate()
             .map(|(j, x)| (*x, data.value(ser, j, quantity)));
-        chart.draw_series(LineSeries::new(pts, line(s, species_color(i), 2)))?;
+        let style = line(s, species_color(i), 2);
+        if ser.system == 0 {
+            chart.draw_series(LineSeries::new(pts, style))?;
+        } else {
+            chart.draw_series(DashedLineSeries::new(pts, s.i(9), s.i(4), style))?;
+        }
     }
     chart.draw_series(std::iter::once(PathElement::new(
         vec![(data.ph, 0.0), (data.ph, y_top)],
@@ -452,8 +492,8 @@ pub fn draw_capacity<DB: DrawingBackend>(
                 sig(data.capacity_at_ph * 1000.0, 3)
             ),
         ),
-        (Swatch::Dashed(MUTED), pk_legend(data)),
     ];
+    let entries: Vec<(Swatch, String)> = entries.into_iter().chain(pk_legend(data)).collect();
     let plot_area = legend(s, area, &entries)?;
     let top = data.capacity_ceiling();
     let mut chart = ChartBuilder::on(&plot_area)
@@ -535,8 +575,8 @@ pub fn draw_titration<DB: DrawingBackend>(
             Swatch::Dot(INK),
             format!("start: nothing added, pH {:.2}", data.ph),
         ),
-        (Swatch::Dashed(MUTED), pk_legend(data)),
     ];
+    let entries: Vec<(Swatch, String)> = entries.into_iter().chain(pk_legend(data)).collect();
     let plot_area = legend(s, area, &entries)?;
     let mut chart = ChartBuilder::on(&plot_area)
         .margin_top(s.i(10))
@@ -565,6 +605,7 @@ pub fn draw_titration<DB: DrawingBackend>(
     let pk_label = font(s, SMALL_PX)
         .color(&MUTED)
         .pos(Pos::new(HPos::Right, VPos::Bottom));
+    let mut last_label_y = i32::MAX;
     for (_, step, pk) in data.pk_marks() {
         if !(PH_MIN..=PH_MAX).contains(&pk) {
             continue;
@@ -575,11 +616,16 @@ pub fn draw_titration<DB: DrawingBackend>(
             s.i(4),
             line(s, MUTED, 1),
         ))?;
-        chart.draw_series(std::iter::once(Text::new(
-            format!("pK{} {pk:.2}", subscript(step)),
-            (x1, pk),
-            pk_label.clone(),
-        )))?;
+        // pK values rise, so labels move up the plot; skip one that would overlap the last.
+        let y = chart.backend_coord(&(x1, pk)).1;
+        if last_label_y - y >= s.i(14) {
+            chart.draw_series(std::iter::once(Text::new(
+                format!("pK{} {pk:.2}", subscript(step)),
+                (x1, pk),
+                pk_label.clone(),
+            )))?;
+            last_label_y = y;
+        }
     }
     chart.draw_series(std::iter::once(PathElement::new(
         vec![(0.0, PH_MIN), (0.0, PH_MAX)],
@@ -625,7 +671,7 @@ pub fn species_summary(data: &PlotData) -> String {
     format!(
         "Species fractions from pH 0 to 14. At the working pH {:.2}: {at}. {}.",
         data.ph,
-        pk_legend(data)
+        pk_text(data)
     )
 }
 
@@ -807,6 +853,44 @@ mod tests {
         assert!((size(&two) - 2.0 * size(&one)).abs() < 1e-6);
         assert!(two.contains("stroke-width=\"4\""), "2× curve width");
         assert_eq!(polylines(&two, species_color(0)), 1);
+    }
+
+    #[test]
+    fn several_systems_get_labelled_entries_and_per_system_pks() {
+        use solver::mixture::{ComponentSpec, MixtureSpec};
+        let comp = |system: &str, conc_m: f64| ComponentSpec {
+            system: system.into(),
+            form: None,
+            conc_m,
+        };
+        let src = super::super::data::Source {
+            kind: solver::design::PlotSource::Mixture,
+            mixture: MixtureSpec {
+                temperature_c: 25.0,
+                activity: solver::activity::ActivityModel::Davies,
+                components: vec![comp("citrate", 0.02), comp("acetate", 0.03)],
+                additives: vec![],
+            },
+            custom: vec![],
+        };
+        let d = super::super::data::compute(&src).unwrap_or_else(|e| unreachable!("{e}"));
+        assert_eq!(d.series.len(), 6);
+        let svg = svg_of(|a| {
+            let _ = draw_species(a, &d, Quantity::Fraction, None, 1.0);
+        });
+        for ser in &d.series {
+            assert!(has_text(&svg, &d.label(ser)), "legend {}", d.label(ser));
+        }
+        assert!(has_text(&svg, "CH₃COOH (Acetate)"));
+        assert!(has_text_starting(&svg, "pKa Citrate (25 °C, I = 0): 3."));
+        assert!(has_text_starting(&svg, "pKa Acetate (25 °C, I = 0): 4.7"));
+        // First system solid (one path per species), second dashed (many short paths).
+        assert_eq!(polylines(&svg, species_color(0)), 1);
+        assert!(
+            svg.matches(&format!("stroke=\"{}\"", hex(species_color(4))))
+                .count()
+                > 5
+        );
     }
 
     #[test]

@@ -329,6 +329,7 @@ pub fn DesignsPanel() -> impl IntoView {
                         readonly=readonly
                         prop:value=move || {
                             state.revision.track();
+                            store.name_rev.track();
                             state.design.with_untracked(|d| d.name.clone())
                         }
                         on:input=move |ev| {

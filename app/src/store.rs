@@ -638,9 +638,8 @@ pub fn save_design(
             let stored = match &stored_text {
                 Some(t) => match parse_design(t) {
                     Ok(d) => Some(d),
-                    Err(e) => {
+                    Err(_) => {
                         // Never overwrite an unreadable entry: keep it aside first.
-                        let _ = e;
                         quarantine(kv, id, t, &key, now_ms);
                         None
                     }
@@ -866,8 +865,7 @@ pub fn import_designs(
     let mut report = ImportReport::default();
     let mut seen: Vec<Design> = existing.designs.into_iter().map(|(_, d)| d).collect();
     for d in designs {
-        if let Some(same) = seen.iter().position(|s| s == d) {
-            let _ = same;
+        if seen.contains(d) {
             report.already_saved.push(d.name.clone());
             continue;
         }
@@ -1110,6 +1108,9 @@ pub struct Store {
     pub available: RwSignal<bool>,
     /// Embed or read-only view: the draft is neither read nor written.
     pub ephemeral: bool,
+    /// Bumped when the store changes the working design's name (rename, save
+    /// with a cleaned name) so the name field re-reads it.
+    pub name_rev: RwSignal<u64>,
     next_notice: StoredValue<u64>,
     autosave_failing: StoredValue<bool>,
 }
@@ -1136,6 +1137,7 @@ impl Store {
             notices: RwSignal::new(Vec::new()),
             available: RwSignal::new(true),
             ephemeral,
+            name_rev: RwSignal::new(0),
             next_notice: StoredValue::new(1),
             autosave_failing: StoredValue::new(false),
         }
@@ -1246,10 +1248,14 @@ impl Store {
         let saved_at = design.saved_at_ms;
         let name = design.name.clone();
         self.open.set(Some(OpenRef { id, saved: design }));
+        let renamed = self.state.design.with_untracked(|d| d.name != name);
         self.state.design.update(|d| {
             d.saved_at_ms = saved_at;
             d.name = name;
         });
+        if renamed {
+            self.name_rev.update(|r| *r += 1);
+        }
     }
 
     /// Save the working design: over the open saved design, or as a new one.
@@ -1356,27 +1362,31 @@ impl Store {
         let Some(mut kv) = self.kv() else {
             return;
         };
+        let open = self.open.get_untracked().filter(|o| o.id == id);
+        // Was the open version the latest stored one? Then the renamed entry
+        // becomes the new base; if not, keep the old base so the next save
+        // still reports the other tab's newer version.
+        let open_is_latest = open.as_ref().is_some_and(|o| {
+            read_design(&kv, id).is_ok_and(|b| b.saved_at_ms <= o.saved.saved_at_ms)
+        });
         match rename_design(&mut kv, id, name, now_ms()) {
             Ok(d) => {
-                if self.open.get_untracked().is_some_and(|o| o.id == id) {
-                    let was_dirty = self.dirty();
-                    let mut saved = d.clone();
-                    if was_dirty {
-                        // Keep our edits; only take the new name and base time.
-                        let cur = self.state.design.get_untracked();
-                        saved = Design {
+                if let Some(o) = open {
+                    let saved = if open_is_latest {
+                        d.clone()
+                    } else {
+                        Design {
                             name: d.name.clone(),
-                            ..saved
-                        };
-                        let _ = cur;
-                    }
+                            ..o.saved
+                        }
+                    };
                     self.open.set(Some(OpenRef {
                         id: id.to_string(),
                         saved,
                     }));
                     let name = d.name.clone();
                     self.state.design.update(|w| w.name = name);
-                    self.state.revision.update(|r| *r += 1);
+                    self.name_rev.update(|r| *r += 1);
                 }
                 self.refresh(false);
             }
@@ -1810,10 +1820,7 @@ pub fn init(state: AppState) {
         }
         state.load(d);
     }
-    if let (Some(ws), true) = (
-        opts.workspace,
-        store.open.get_untracked().is_some() || !store.ephemeral,
-    ) {
+    if let Some(ws) = opts.workspace {
         state.design.update(|d| d.workspace = ws);
     }
 

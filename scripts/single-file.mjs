@@ -41,13 +41,23 @@ if (!jsHref || !wasmHref) fail('could not read JS/wasm file names from the trunk
 // wasm-bindgen glue as a classic-free module body: drop the export statements.
 let js = readFileSync(local(jsHref), 'utf8');
 if (/^\s*import\s/m.test(js)) fail(`${jsHref} imports other modules (snippets); inlining them is not supported`);
+// Remember every exported name so the page gets the same window.wasmBindings as trunk's loader.
+const exported = [];
 js = js
   .replace(/^export\s+default\s+([\w$]+)\s*;?\s*$/m, 'const __bw_default_init = $1;')
   .replace(/^export\s*\{([^}]*)\}\s*;?\s*$/gm, (_, names) => {
-    const def = names.split(',').map((s) => s.trim()).find((s) => /\bas\s+default$/.test(s));
-    return def ? `const __bw_default_init = ${def.split(/\s+as\s+/)[0]};` : '';
+    let out = '';
+    for (const item of names.split(',').map((x) => x.trim()).filter(Boolean)) {
+      const [local, as] = item.split(/\s+as\s+/);
+      if (as === 'default') out += `const __bw_default_init = ${local};\n`;
+      else exported.push(as && as !== local ? `${as}: ${local}` : local);
+    }
+    return out;
   })
-  .replace(/^export\s+(?=(async\s+)?function|class|const|let|var)/gm, '');
+  .replace(/^export\s+((?:async\s+)?function\*?|class|const|let|var)\s+([\w$]+)/gm, (_, kw, name) => {
+    exported.push(name);
+    return `${kw} ${name}`;
+  });
 if (/^export\b/m.test(js)) fail('unexpected export form left in the wasm-bindgen JS');
 if (!js.includes('__bw_default_init')) fail('default export (init function) not found in the wasm-bindgen JS');
 
@@ -55,6 +65,7 @@ const wasmB64 = readFileSync(local(wasmHref)).toString('base64');
 const boot = `${js}
 const __bw_bytes = Uint8Array.from(atob(${JSON.stringify(wasmB64)}), (c) => c.charCodeAt(0));
 const __bw_wasm = await __bw_default_init({ module_or_path: __bw_bytes });
+window.wasmBindings = { ${exported.join(', ')} };
 dispatchEvent(new CustomEvent("TrunkApplicationStarted", {detail: {wasm: __bw_wasm}}));
 `;
 // Escape a literal "</script" that could end the element early.

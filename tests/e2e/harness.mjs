@@ -61,6 +61,7 @@ export async function openSession({ allowedOrigin, view = 'desktop', contextOpti
     if (resp.status() >= 400) failedRequests.push(`${resp.url()} (HTTP ${resp.status()})`);
   });
   const watch = (page) => {
+    PAGE_ERRORS.set(page, consoleErrors);
     page.on('console', (msg) => {
       if (msg.type() === 'error') {
         const at = msg.location()?.url ? ` [${msg.location().url}]` : '';
@@ -106,9 +107,25 @@ export async function openSession({ allowedOrigin, view = 'desktop', contextOpti
   return session;
 }
 
-/** Wait until the wasm app has started and mounted something visible. Returns a summary. */
+/** Console errors seen per page (filled by openSession's watchers). */
+const PAGE_ERRORS = new WeakMap();
+
+/**
+ * Wait until the wasm app has started and mounted something visible. Returns a summary.
+ * `page` may be a Page or a Frame. Fails at once, with the messages, if the page logs an error
+ * before the app starts (a CSP block or a panic would otherwise only show up as a time-out).
+ */
 export async function waitForApp(page, { timeout = 30_000 } = {}) {
-  await page.waitForFunction(() => window.__bwStarted === true, null, { timeout });
+  const owner = typeof page.page === 'function' ? page.page() : page;
+  const errors = PAGE_ERRORS.get(owner) || [];
+  const deadline = Date.now() + timeout;
+  for (;;) {
+    if (errors.length) throw new Error(`app did not start cleanly:\n  ${errors.join('\n  ')}`);
+    const started = await page.evaluate(() => window.__bwStarted === true).catch(() => false);
+    if (started) break;
+    if (Date.now() > deadline) throw new Error(`app did not start within ${timeout} ms (no TrunkApplicationStarted)`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
   await page.waitForFunction(
     () => {
       const root = document.querySelector('#app-root') || document.body;

@@ -32,6 +32,7 @@ test('single-file build works from file://', async (t) => {
     await page.waitForTimeout(300);
     await screenshot(page, 'single-file-desktop');
     s.assertClean('file://');
+    assert.ok(await page.evaluate(() => typeof window.wasmBindings === 'object'), 'window.wasmBindings set, as with trunk');
     const extra = requests.filter((u) => u !== singleFileUrl() && !u.startsWith('data:'));
     assert.deepEqual(extra, [], 'the single file loads nothing else');
     if (await uiLanded(page)) {

@@ -123,11 +123,16 @@ fn device_pixel_ratio() -> f64 {
         .unwrap_or(1.0)
 }
 
+/// Largest CSS size drawn, px: without the page's stylesheet a canvas takes its
+/// CSS size from its backing store, which would otherwise grow by the pixel
+/// ratio on every resize observation.
+const MAX_CSS: f64 = 2400.0;
+
 fn measure(canvas: &HtmlCanvasElement) -> Size {
     let rect = canvas.get_bounding_client_rect();
     Size {
-        w: rect.width(),
-        h: rect.height(),
+        w: rect.width().min(MAX_CSS),
+        h: rect.height().min(MAX_CSS),
         dpr: device_pixel_ratio(),
     }
 }

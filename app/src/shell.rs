@@ -88,9 +88,9 @@ pub fn Shell() -> impl IntoView {
                 }}
             </main>
             <Show when=move || !embed()>
-                <section class="designs-area" aria-label="Saved designs">
+                <div class="designs-area">
                     <DesignsPanel />
-                </section>
+                </div>
             </Show>
             <footer class="notes">
                 <ModelNote />

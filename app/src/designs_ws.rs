@@ -180,6 +180,7 @@ fn row_view(
                     <span class="bw-design-name" data-testid="design-row-name">{name.clone()}</span>
                 }>
                     <input type="text" class="bw-rename-input" data-testid="rename-input"
+                        id=format!("bw-rename-{}", s.id)
                         aria-label="New name" maxlength=MAX_NAME_CHARS.to_string()
                         prop:value=move || rename_text.get()
                         on:input=move |ev| rename_text.set(event_target_value(&ev))
@@ -208,6 +209,16 @@ fn row_view(
                     on:click=move |_| {
                         rename_text.set(name_for_rename.clone());
                         renaming.set(Some(id_ren.clone()));
+                        let input_id = format!("bw-rename-{id_ren}");
+                        request_animation_frame(move || {
+                            if let Some(i) = document()
+                                .get_element_by_id(&input_id)
+                                .and_then(|e| e.dyn_into::<web_sys::HtmlInputElement>().ok())
+                            {
+                                let _ = i.focus();
+                                i.select();
+                            }
+                        });
                     }>"Rename"</button>
                 <button type="button" class="bw-btn bw-btn-small" data-testid="duplicate-design"
                     aria-label=l_dup hidden=readonly

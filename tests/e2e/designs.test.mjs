@@ -112,6 +112,8 @@ test('rename, duplicate, delete and undo', async () => {
     await saveDesign(page, 'Tris wash', 7.6);
     const row = await rowByName(page, 'Tris wash');
     await row.locator(tid('rename-design')).click();
+    // The name field takes the focus, its text selected, ready to type over.
+    await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'rename-input');
     await page.fill(tid('rename-input'), 'Tris wash 20 mM');
     await page.press(tid('rename-input'), 'Enter');
     await page.waitForFunction(() => document.body.innerText.includes('Tris wash 20 mM'));

@@ -708,8 +708,12 @@ pub fn fractions_into(acid: &Acid, ph: f64, g1: f64, out: &mut [f64; MAX_STEPS +
 /// β = ln 10 ( [H⁺] + [OH⁻] + Σ_k C_k ( Σ j² α_j − (Σ j α_j)² ) )
 /// ```
 pub fn capacity_at(c: &Composition, ph: f64, ionic_strength: f64) -> f64 {
-    let g1 = gamma1(c.activity, c.a_dh, ionic_strength);
-    evaluate(c, ph, g1).beta
+    capacity_with_gamma(c, ph, gamma1(c.activity, c.a_dh, ionic_strength))
+}
+
+/// [`capacity_at`] with γ₁ already computed (for curves at one ionic strength).
+pub fn capacity_with_gamma(c: &Composition, ph: f64, gamma1: f64) -> f64 {
+    evaluate(c, ph, gamma1).beta
 }
 
 /// Charge-balance residual at a pH and ionic strength (for tests and checks).

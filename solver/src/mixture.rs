@@ -2,7 +2,7 @@
 
 use crate::activity::{gamma1, gamma_z, ActivityModel};
 use crate::equilibrium::{
-    capacity_at, fractions_into, solve, solve_addition, solve_hinted, Acid, Composition,
+    capacity_with_gamma, fractions_into, solve, solve_addition, solve_hinted, Acid, Composition,
     Equilibrium,
 };
 use crate::error::{in_range, non_negative, Result, SolverError};
@@ -535,10 +535,7 @@ pub fn species_curves(
             series.push((sys.name.clone(), name, col));
         }
     }
-    let capacity = ph
-        .iter()
-        .map(|&x| capacity_at(c, x, ionic_strength))
-        .collect();
+    let capacity = ph.iter().map(|&x| capacity_with_gamma(c, x, g1)).collect();
     Ok(SpeciesCurves {
         ph,
         series,

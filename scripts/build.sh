@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Release build: trunk (dist/) then the single-file page (dist-single/bufferwright.html).
 # Expects scripts/setup.sh to have been sourced (PATH with wasm-opt); sources it if not.
+# --record: also write the measured sizes into docs/BUILD.md (scripts/sizes.mjs).
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 cd "$root"
@@ -10,7 +11,4 @@ if ! command -v wasm-opt >/dev/null || [[ "$(wasm-opt --version)" != *version_13
 fi
 trunk build --release --offline
 node scripts/single-file.mjs dist dist-single/bufferwright.html
-wasm="$(ls dist/*_bg.wasm)"
-raw=$(stat -c %s "$wasm")
-gz=$(gzip -9 -c "$wasm" | wc -c)
-echo "build: $(basename "$wasm"): ${raw} bytes raw, ${gz} bytes gzip -9"
+node scripts/sizes.mjs "$@"

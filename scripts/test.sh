@@ -44,6 +44,7 @@ wasm_tests() {
     WASM_BINDGEN_TEST_WEBDRIVER_JSON="$root/tests/webdriver.json" \
     WASM_BINDGEN_USE_BROWSER=1 \
     WASM_BINDGEN_TEST_TIMEOUT=120 \
+    WASM_BINDGEN_TEST_DRIVER_TIMEOUT=90 \
     cargo test -p app --target wasm32-unknown-unknown --tests
 }
 have_dist() {
@@ -59,6 +60,10 @@ build_trunk() {
   wasm="$(ls dist/*_bg.wasm)"
   echo "wasm size: $(stat -c %s "$wasm") bytes raw, $(gzip -9 -c "$wasm" | wc -c) bytes gzip -9 ($(basename "$wasm"))"
 }
+single_file() {
+  have_dist || return 1
+  node scripts/single-file.mjs dist dist-single/bufferwright.html && node scripts/sizes.mjs
+}
 e2e() {
   have_dist || return 1
   [[ -f dist-single/bufferwright.html ]] || { echo "no single-file build"; return 1; }
@@ -71,7 +76,7 @@ step "clippy (wasm32, app)" cargo clippy -p app --target wasm32-unknown-unknown 
 step "cargo test (native)" cargo test --workspace
 step "browser tests (wasm-bindgen-test in Chromium)" wasm_tests
 step "trunk build --release" build_trunk
-step "single-file build" bash -c 'test -f dist/index.html && node scripts/single-file.mjs dist dist-single/bufferwright.html'
+step "single-file build + sizes" single_file
 step "e2e (node --test tests/e2e/)" e2e
 
 printf '\n==================== summary ====================\n'

@@ -153,6 +153,16 @@ pub fn cautions_for_many(
     tidy(out)
 }
 
+/// Keep the general "corrosive reagents" caution only when `free_form_used`
+/// (a free acid or base of a system flagged corrosive is on the bench); a
+/// salt-only recipe or a field reading does not need it.
+pub fn corrosive_only_if(mut list: Vec<Caution>, free_form_used: bool) -> Vec<Caution> {
+    if !free_form_used {
+        list.retain(|c| *c != Caution::CorrosiveForms);
+    }
+    list
+}
+
 /// The closing line of every caution list.
 pub const DEFER: &str = "These are reminders, not a safety assessment. Follow the safety data \
     sheet of each chemical, your local codes and your organisation's licensed practice.";
@@ -230,5 +240,9 @@ mod tests {
         assert!(cautions_for(Some(h), &[], &[]).contains(&Caution::Chlorine));
         assert!(cautions_for(None, &["NaH2PO4·H2O"], &[Additive::Nacl]).is_empty());
         assert!(DEFER.contains("safety data sheet"));
+        let a = find_system("acetate").unwrap();
+        let all = cautions_for(Some(a), &[], &[]);
+        assert!(all.contains(&Caution::CorrosiveForms));
+        assert!(corrosive_only_if(all, false).is_empty());
     }
 }

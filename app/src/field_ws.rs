@@ -4,7 +4,7 @@
 //! buttons for the common questions, big touch targets, big numbers. The
 //! result is one `Memo` over `solver::field::field_reading`.
 
-use crate::cautions::{cautions_for, CautionPanel};
+use crate::cautions::{cautions_for, corrosive_only_if, CautionPanel};
 use crate::format::{
     error_field, error_message, fmt_conc, fmt_input, fmt_mg_l, fmt_pct, fmt_ph, fmt_sig,
     CONDUCTIVITY, FIELD_TOTAL, IONIC, PH, TDS, TEMPERATURE,
@@ -170,7 +170,11 @@ pub fn FieldWorkspace() -> impl IntoView {
         })
     };
     let cautions = Signal::derive(move || {
-        spec.with(|s| custom.with(|c| cautions_for(lookup(&s.system, c).ok(), &[], &[])))
+        spec.with(|s| {
+            custom.with(|c| {
+                corrosive_only_if(cautions_for(lookup(&s.system, c).ok(), &[], &[]), false)
+            })
+        })
     });
 
     view! {

@@ -4,7 +4,7 @@
 //! place in the design's mixture; the result and the what-ifs are `Memo`s
 //! over `solve_mixture` and `what_if`.
 
-use crate::cautions::{cautions_for_many, CautionPanel};
+use crate::cautions::{cautions_for_many, corrosive_only_if, CautionPanel};
 use crate::format::{
     error_field, error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_pct, fmt_ph, pretty_formula,
     AMOUNT, CONC_UNITS, DILUTION, TEMPERATURE,
@@ -71,7 +71,17 @@ fn mixture_cautions(spec: &MixtureSpec, custom: &[AcidSystem]) -> Vec<crate::cau
         })
         .collect();
     let additives: Vec<Additive> = spec.additives.iter().map(|a| a.additive).collect();
-    cautions_for_many(&systems, &formulas, &additives)
+    let free_form = spec.components.iter().any(|c| match &c.form {
+        None => true,
+        Some(id) => lookup(&c.system, custom)
+            .ok()
+            .and_then(|s| s.forms.iter().find(|f| f.id == *id))
+            .is_some_and(|f| f.counter_ions.is_empty()),
+    });
+    corrosive_only_if(
+        cautions_for_many(&systems, &formulas, &additives),
+        free_form,
+    )
 }
 
 /// The flask workspace.

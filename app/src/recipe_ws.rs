@@ -7,7 +7,7 @@
 //! replace them (this is decided from the design itself, so it survives tab
 //! switches and reloads).
 
-use crate::cautions::{cautions_for, Caution, CautionPanel};
+use crate::cautions::{cautions_for, corrosive_only_if, Caution, CautionPanel};
 use crate::format::{
     error_field, error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_input, fmt_ph, fmt_sig,
     pretty_formula, BUFFER_CONC, CONC_UNITS, PH, STOCK, TEMPERATURE, TOLERANCE, VOLUME,
@@ -281,7 +281,12 @@ fn recipe_cautions(spec: &RecipeSpec, custom: &[AcidSystem]) -> Vec<Caution> {
         Method::Titrate { titrant, .. } => vec![*titrant],
         _ => vec![],
     };
-    cautions_for(sys, &formulas, &additives)
+    let free_form = sys.is_some_and(|s| {
+        s.forms
+            .iter()
+            .any(|f| form_ids.contains(&f.id.as_str()) && f.counter_ions.is_empty())
+    });
+    corrosive_only_if(cautions_for(sys, &formulas, &additives), free_form)
 }
 
 fn today() -> String {
@@ -822,6 +827,21 @@ fn RecipeResultView(
                 }}
             </h2>
             <div aria-live="polite">{body}</div>
+            <p class="print-only print-model">
+                {move || {
+                    let act = if spec.with(|s| s.activity == ActivityModel::Ideal) {
+                        "ideal (all activity coefficients 1)"
+                    } else {
+                        "Davies activity coefficients"
+                    };
+                    format!(
+                        "Model: {act}; dilute aqueous solution, ideal mixing, no complexation or precipitation; pH on the activity scale; constants valid only within the system's temperature range. Confirm the final pH with a calibrated meter."
+                    )
+                }}
+            </p>
+            // TODO(plots): a small species/capacity plot of the finished recipe would sit here
+            // (needs a public mini-plot component from crate::plots; the e2e smoke test expects a
+            // visible canvas.plot on the landing view, which is this workspace).
             <div class="actions no-print">
                 <button type="button" class="btn" data-testid="recipe-copy" on:click=on_copy
                     disabled=move || pending.get() || result.with(Result::is_err)>

@@ -11,6 +11,7 @@
 
 use super::draw::Frame;
 use leptos::html::Canvas;
+use leptos::leptos_dom::helpers::WindowListenerHandle;
 use leptos::prelude::*;
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -251,6 +252,7 @@ where
     let frame = StoredValue::new(None::<Frame>);
     let observer = StoredValue::new_local(None::<(ResizeObserver, Closure<dyn FnMut()>)>);
     let dpr_watch = StoredValue::new_local(None::<DprWatch>);
+    let resize_listener = StoredValue::new_local(None::<WindowListenerHandle>);
     let draws = StoredValue::new(0_u64);
 
     canvas_ref.on_load(move |canvas: HtmlCanvasElement| {
@@ -270,6 +272,11 @@ where
             observer.set_value(Some((ro, cb)));
         }
         dpr_watch.set_value(Some(DprWatch::start(remeasure.clone())));
+        // Browser zoom changes the ratio and fires `resize`; a cheap extra trigger.
+        let on_window = remeasure.clone();
+        resize_listener.set_value(Some(window_event_listener(leptos::ev::resize, move |_| {
+            on_window()
+        })));
         remeasure();
     });
     on_cleanup(move || {
@@ -281,6 +288,11 @@ where
         dpr_watch.update_value(|w| {
             if let Some(w) = w.take() {
                 w.stop();
+            }
+        });
+        resize_listener.update_value(|h| {
+            if let Some(h) = h.take() {
+                h.remove();
             }
         });
     });

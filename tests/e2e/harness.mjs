@@ -204,6 +204,30 @@ export function assertCanvasSharpAndDrawn(facts) {
   }
 }
 
+/**
+ * Visit every workspace tab (`[data-testid^="tab-"]` buttons) and gather the visible plots of each.
+ * Calls `onTab(name)` after each switch (e.g. for screenshots). Returns [{ tab, plots }].
+ */
+export async function visitTabs(page, onTab = async () => {}) {
+  const tabs = await page.evaluate(() =>
+    [...document.querySelectorAll('[data-testid^="tab-"]')].map((e) => e.getAttribute('data-testid')),
+  );
+  const out = [];
+  for (const tab of tabs) {
+    await page.click(`[data-testid="${tab}"]`);
+    // Plots draw on the next animation frames; give them a moment, then read their pixels.
+    let plots = [];
+    for (let i = 0; i < 20; i++) {
+      await page.waitForTimeout(100);
+      plots = await canvasFacts(page, HOOKS.plot);
+      if (plots.every((f) => f.colours > 1)) break;
+    }
+    await onTab(tab);
+    out.push({ tab, plots });
+  }
+  return out;
+}
+
 /** Save a full-page screenshot to tests/artifacts/<name>.png and return its path. */
 export async function screenshot(page, name) {
   mkdirSync(ARTIFACTS, { recursive: true });

@@ -9,7 +9,7 @@ import {
   openSession,
   waitForApp,
   uiLanded,
-  canvasFacts,
+  visitTabs,
   assertCanvasSharpAndDrawn,
   screenshot,
   HOOKS,
@@ -36,9 +36,11 @@ test('single-file build works from file://', async (t) => {
     const extra = requests.filter((u) => u !== singleFileUrl() && !u.startsWith('data:'));
     assert.deepEqual(extra, [], 'the single file loads nothing else');
     if (await uiLanded(page)) {
-      const plots = await canvasFacts(page, HOOKS.plot);
-      assert.ok(plots.length >= 1, `expected a visible ${HOOKS.plot}`);
+      const visited = await visitTabs(page);
+      const plots = visited.flatMap((v) => v.plots);
+      assert.ok(plots.length >= 1, `expected a visible ${HOOKS.plot} on some workspace tab`);
       assertCanvasSharpAndDrawn(plots);
+      s.assertClean('file://, after visiting every tab');
     } else {
       console.log(`skip reason: no [data-testid] inside ${HOOKS.root} yet (skeleton UI); plot checks not run`);
     }

@@ -7,7 +7,7 @@ import {
   openSession,
   waitForApp,
   uiLanded,
-  canvasFacts,
+  visitTabs,
   assertCanvasSharpAndDrawn,
   screenshot,
   HOOKS,
@@ -42,11 +42,14 @@ for (const view of ['tablet', 'desktop']) {
         console.log(`skip reason: no [data-testid] inside ${HOOKS.root} yet, so plot checks were not run`);
         return;
       }
-      const plots = await canvasFacts(page, HOOKS.plot);
-      t.diagnostic(`plots: ${JSON.stringify(plots)}`);
-      assert.ok(plots.length >= 1, `expected at least one visible ${HOOKS.plot}`);
-      assertCanvasSharpAndDrawn(plots);
-      if (view === 'tablet') assert.equal(plots[0].dpr, 2);
+      // Every workspace tab: screenshot, and every visible plot must be drawn at device resolution.
+      const visited = await visitTabs(page, (tab) => screenshot(page, `smoke-${view}-${tab}`));
+      const all = visited.flatMap((v) => v.plots.map((f) => ({ ...f, id: `${v.tab}:${f.id}` })));
+      t.diagnostic(`plots: ${JSON.stringify(all)}`);
+      assert.ok(all.length >= 1, `expected at least one visible ${HOOKS.plot} on some workspace tab`);
+      assertCanvasSharpAndDrawn(all);
+      if (view === 'tablet') assert.equal(all[0].dpr, 2);
+      s.assertClean(`${view}, after visiting every tab`);
     } finally {
       await s.close();
     }

@@ -368,7 +368,12 @@ fn DataTable(
                 open.get()
                     .then(|| {
                         view! {
-                            <div class="table-scroll">
+                            <div
+                                class="table-scroll"
+                                role="region"
+                                tabindex="0"
+                                aria-label=summary
+                            >
                                 <table>
                                     <caption>{caption}</caption>
                                     <thead>

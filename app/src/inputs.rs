@@ -314,9 +314,25 @@ pub fn SystemPicker(
         let q = query.get();
         let sel = selected.get();
         custom.with(|c| {
-            let mut v: Vec<(String, String)> = all_systems(c)
+            let mut found: Vec<&AcidSystem> = Vec::new();
+            let systems = all_systems(c);
+            found.extend(
+                systems
+                    .iter()
+                    .filter(|s| s.id == sel || system_matches(s, &q, t)),
+            );
+            // A pH typed in the search box lists the nearest pK first.
+            if let Ok(x) = crate::format::parse_number(&q) {
+                let gap = |s: &AcidSystem| {
+                    system_pks(s, t)
+                        .ok()
+                        .and_then(|p| p.iter().map(|p| (p - x).abs()).reduce(f64::min))
+                        .unwrap_or(f64::INFINITY)
+                };
+                found.sort_by(|a, b| gap(a).total_cmp(&gap(b)));
+            }
+            let mut v: Vec<(String, String)> = found
                 .iter()
-                .filter(|s| s.id == sel || system_matches(s, &q, t))
                 .map(|s| (s.id.clone(), system_label(s, t)))
                 .collect();
             if !v.iter().any(|(i, _)| *i == sel) {
@@ -374,5 +390,32 @@ pub fn SystemPicker(
                 }}
             </p>
         </div>
+    }
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
+mod tests {
+    use super::*;
+    use solver::library::find_system;
+
+    #[test]
+    fn search_by_name_formula_species_or_ph() {
+        let p = find_system("phosphate").unwrap();
+        let a = find_system("acetate").unwrap();
+        assert!(system_matches(p, "", 25.0));
+        assert!(system_matches(p, "phos", 25.0));
+        assert!(system_matches(p, "HPO4", 25.0), "formula of a form");
+        assert!(system_matches(a, "glacial", 25.0), "form name");
+        assert!(system_matches(p, "7,4", 25.0), "pK 7.2 is within one unit");
+        assert!(!system_matches(a, "7.4", 25.0), "pK 4.76 is not");
+    }
+
+    #[test]
+    fn labels_show_pk_at_temperature_or_the_data_range() {
+        let t = find_system("tris").unwrap();
+        let l = system_label(t, 37.0);
+        assert!(l.starts_with("Tris — pK 7.7"), "{l}");
+        assert!(system_label(t, 59.0).contains("no data at 59 °C"));
     }
 }

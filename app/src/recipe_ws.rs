@@ -1002,3 +1002,101 @@ fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
             })}
     }
 }
+
+#[cfg(test)]
+#[allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    clippy::panic
+)]
+mod tests {
+    use super::*;
+    use solver::design::demo_design;
+
+    fn forms(spec: &RecipeSpec) -> (String, String) {
+        match &spec.method {
+            Method::TwoForms {
+                acid_form,
+                base_form,
+            } => (acid_form.clone(), base_form.clone()),
+            other => panic!("unexpected {other:?}"),
+        }
+    }
+
+    #[test]
+    fn demo_hydrates_count_as_following_the_suggestion() {
+        let spec = demo_design().recipe;
+        assert!(follows_suggestion(&spec, &[]));
+    }
+
+    #[test]
+    fn moving_the_target_to_another_pk_moves_the_pair() {
+        let mut spec = demo_design().recipe;
+        edit_recipe(&mut spec, &[], |s| s.target_ph = 7.1);
+        assert_eq!(
+            forms(&spec),
+            ("nah2po4_h2o".into(), "na2hpo4_7h2o".into()),
+            "same step: hydrates kept"
+        );
+        edit_recipe(&mut spec, &[], |s| s.target_ph = 11.5);
+        let want = suggest_pair("phosphate", 11.5, 37.0, &[]).unwrap();
+        assert_eq!(forms(&spec), want);
+        let r = solve_recipe(&spec, &[]);
+        assert!(r.is_ok(), "{r:?}");
+    }
+
+    #[test]
+    fn hand_picked_forms_stay() {
+        let mut spec = demo_design().recipe;
+        if let Method::TwoForms { base_form, .. } = &mut spec.method {
+            *base_form = "na3po4_12h2o".into();
+        }
+        assert!(!follows_suggestion(&spec, &[]));
+        edit_recipe(&mut spec, &[], |s| s.target_ph = 6.5);
+        assert_eq!(forms(&spec).1, "na3po4_12h2o");
+    }
+
+    #[test]
+    fn switching_method_picks_forms_of_the_system() {
+        let mut spec = demo_design().recipe;
+        switch_method(&mut spec, &[], "titrate");
+        match &spec.method {
+            Method::Titrate { form, titrant, .. } => {
+                assert_eq!(*titrant, Additive::Naoh);
+                assert!(lookup("phosphate", &[])
+                    .unwrap()
+                    .forms
+                    .iter()
+                    .any(|f| f.id == *form));
+            }
+            other => panic!("unexpected {other:?}"),
+        }
+        assert!(solve_recipe(&spec, &[]).is_ok());
+        switch_method(&mut spec, &[], "two_stocks");
+        assert!(solve_recipe(&spec, &[]).is_ok());
+    }
+
+    #[test]
+    fn recipe_text_has_name_reagents_steps_and_prediction() {
+        let d = demo_design();
+        let r = solve_recipe(&d.recipe, &[]).unwrap();
+        let t = recipe_text(&d.name, "2026-01-01", &d.recipe, &r, "Phosphate");
+        assert!(t.starts_with("Hatchery lab"));
+        assert!(t.contains("Date: 2026-01-01"));
+        assert!(t.contains(&amount_text(&r.ingredients[0])));
+        assert!(t.contains("1. Weigh"));
+        assert!(t.contains("Predicted pH 7.40"));
+    }
+
+    #[test]
+    fn cautions_follow_the_reagents() {
+        let mut spec = demo_design().recipe;
+        assert!(
+            recipe_cautions(&spec, &[]).is_empty(),
+            "two sodium phosphate salts"
+        );
+        switch_method(&mut spec, &[], "titrate");
+        assert!(recipe_cautions(&spec, &[]).contains(&Caution::StrongBase));
+    }
+}

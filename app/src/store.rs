@@ -1263,13 +1263,26 @@ impl Store {
         let Some(mut kv) = self.kv() else {
             return;
         };
-        let design = self.state.design.get_untracked();
+        let mut design = self.state.design.get_untracked();
         let target = match (as_new, self.open.get_untracked()) {
             (false, Some(o)) => SaveTarget::Existing {
                 id: o.id,
                 base_saved_at_ms: o.saved.saved_at_ms,
             },
-            _ => SaveTarget::New,
+            (true, Some(o)) => {
+                // "Save as new" under the open design's own name: name it a copy.
+                if clean_name(&design.name) == o.saved.name {
+                    let names: Vec<String> = self
+                        .list
+                        .get_untracked()
+                        .into_iter()
+                        .map(|s| s.name)
+                        .collect();
+                    design.name = copy_name(&design.name, &names);
+                }
+                SaveTarget::New
+            }
+            (_, None) => SaveTarget::New,
         };
         self.save_to(&mut kv, &target, design);
     }
@@ -1444,6 +1457,15 @@ impl Store {
         };
         match undo_delete(&mut kv, id, d) {
             Ok(()) => {
+                // Deleting the open design unlinked it; undoing links it again.
+                let relink = self.open.with_untracked(Option::is_none)
+                    && self.state.design.with_untracked(|w| same_content(w, d));
+                if relink {
+                    self.open.set(Some(OpenRef {
+                        id: id.to_string(),
+                        saved: d.clone(),
+                    }));
+                }
                 self.notify(NoticeKind::Info, format!("Restored “{}”.", d.name), None);
                 self.refresh(false);
             }

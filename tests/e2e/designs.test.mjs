@@ -136,6 +136,16 @@ test('rename, duplicate, delete and undo', async () => {
     for (const [k, v] of Object.entries(before)) {
       if (k.startsWith('bufferwright.design.')) assert.equal(after[k], v, k);
     }
+    // Deleting the open design and undoing links it again.
+    await (await rowByName(page, 'Tris wash 20 mM')).locator(tid('delete-design')).click();
+    assert.match(await page.textContent(tid('design-status')), /Not saved yet/);
+    await page.click(tid('undo-delete'));
+    await page.waitForFunction(() => /Showing saved design “Tris wash 20 mM”/.test(document.querySelector('[data-testid="design-status"]').textContent));
+    // "Save as new" under the open design's own name saves a named copy.
+    await page.click(tid('save-as-new'));
+    await page.waitForFunction(() => document.querySelectorAll('tr[data-testid^="design-row-"]').length === 3);
+    assert.deepEqual((await rowNames(page)).sort(), ['Tris wash 20 mM', 'Tris wash 20 mM (copy 2)', 'Tris wash 20 mM (copy)']);
+    assert.equal(await page.inputValue(tid('design-name-input')), 'Tris wash 20 mM (copy 2)');
     s.assertClean('rename/duplicate/delete');
   } finally {
     await s.close();

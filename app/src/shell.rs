@@ -24,6 +24,11 @@ pub const TABS: [(Workspace, &str, &str); 4] = [
     (Workspace::Field, "field", "Field reading"),
 ];
 
+/// The tab text on a phone: the first word only ("Species", "Field").
+fn short_text(text: &str) -> &str {
+    text.split_whitespace().next().unwrap_or(text)
+}
+
 fn key_of(ws: Workspace) -> &'static str {
     TABS.iter()
         .find(|(w, _, _)| *w == ws)
@@ -154,7 +159,8 @@ fn Tabs(active: Memo<Workspace>) -> impl IntoView {
                                 class:active=is
                                 on:click=move |_| select(ws)
                             >
-                                {*text}
+                                <span class="tab-long">{*text}</span>
+                                <span class="tab-short">{short_text(text)}</span>
                             </button>
                         }
                     })

@@ -53,15 +53,14 @@ impl AppState {
 
     /// Record whether the input `id` holds valid text (called from input handlers).
     pub fn mark_field(&self, id: &str, valid: bool) {
-        let known = self.pending.with_untracked(|p| p.contains(id));
+        // `try_` forms: a field cleaned up after the page state is gone must not panic.
+        let Some(known) = self.pending.try_with_untracked(|p| p.contains(id)) else {
+            return;
+        };
         if valid && known {
-            self.pending.update(|p| {
-                p.remove(id);
-            });
+            self.pending.try_update(|p| p.remove(id));
         } else if !valid && !known {
-            self.pending.update(|p| {
-                p.insert(id.to_string());
-            });
+            self.pending.try_update(|p| p.insert(id.to_string()));
         }
     }
 

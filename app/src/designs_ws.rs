@@ -350,7 +350,7 @@ pub fn DesignsPanel() -> impl IntoView {
                             }
                         } />
                     <button type="button" class="bw-btn bw-btn-primary" data-testid="save-design"
-                        disabled=move || readonly() || store.ephemeral
+                        hidden=move || readonly() || store.ephemeral
                         on:click=move |_| store.save(false)>{save_label}</button>
                     <button type="button" class="bw-btn" data-testid="save-as-new"
                         hidden=move || readonly() || store.ephemeral || store.open.with(Option::is_none)

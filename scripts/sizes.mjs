@@ -26,7 +26,7 @@ const top = readdirSync(dist).map((f) => join(dist, f));
 const walk = (d) => readdirSync(d).flatMap((n) => (statSync(join(d, n)).isDirectory() ? walk(join(d, n)) : [join(d, n)]));
 const pick = (re) => top.filter((f) => re.test(f));
 const lines = [
-  '| file | raw | gzip -9 |',
+  '| file | raw | gzip (node zlib, level 9) |',
   '| --- | --- | --- |',
   row('wasm (`app-*_bg.wasm`, wasm-opt -Oz)', pick(/_bg\.wasm$/)),
   row('JS glue (`app-*.js`)', pick(/app-[0-9a-f]+\.js$/)),

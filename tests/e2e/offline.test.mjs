@@ -37,3 +37,53 @@ test('reloads and renders offline after the first visit', async (t) => {
     await srv.close().catch(() => {});
   }
 });
+
+test('a new build replaces the cache and deletes the old one', async (t) => {
+  // Second "build": a copy of dist/ whose sw.js carries another cache version.
+  const { cpSync, mkdtempSync, readFileSync, writeFileSync, rmSync } = await import('node:fs');
+  const { tmpdir } = await import('node:os');
+  const { join } = await import('node:path');
+  const { DIST } = await import('./harness.mjs');
+  const { startServer } = await import('./server.mjs');
+  const next = mkdtempSync(join(tmpdir(), 'bufferwright-dist-'));
+  cpSync(DIST, next, { recursive: true });
+  const sw = readFileSync(join(next, 'sw.js'), 'utf8');
+  const old = sw.match(/const CACHE_VERSION = '([^']+)'/)?.[1];
+  assert.ok(old, 'sw.js has a CACHE_VERSION');
+  writeFileSync(join(next, 'sw.js'), sw.replace(`'${old}'`, "'e2e-next-build'"));
+
+  const first = await serveDist();
+  const s = await openSession({ allowedOrigin: first.origin, view: 'desktop' });
+  let second;
+  try {
+    const page = await s.newPage();
+    await page.goto(first.url('/'));
+    await waitForApp(page);
+    const before = await page.evaluate(async () => {
+      await navigator.serviceWorker.ready;
+      return caches.keys();
+    });
+    assert.deepEqual(before, [`bufferwright-${old}`]);
+    // Same origin (same port), new files: the browser finds the changed sw.js on reload.
+    await first.close();
+    second = await startServer({ root: next, port: first.port });
+    await page.reload();
+    await waitForApp(page);
+    await page.evaluate(() => navigator.serviceWorker.getRegistration().then((r) => r && r.update()));
+    await page.waitForFunction(
+      async () => {
+        const keys = await caches.keys();
+        return keys.length === 1 && keys[0] === 'bufferwright-e2e-next-build';
+      },
+      null,
+      { timeout: 20_000, polling: 200 },
+    );
+    t.diagnostic(`cache ${old} replaced by e2e-next-build`);
+    s.assertClean('update');
+  } finally {
+    await s.close();
+    await first.close().catch(() => {});
+    await second?.close();
+    rmSync(next, { recursive: true, force: true });
+  }
+});

@@ -698,7 +698,7 @@ fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
     for i in ing {
         match (i.grams, i.ml) {
             (Some(g), _) => steps.push(format!(
-                "Weigh {} of {} ({}).",
+                "Weigh {} of {} — {}.",
                 format_mass(g),
                 i.formula,
                 i.name

@@ -430,3 +430,42 @@ pub fn DesignsPanel() -> impl IntoView {
     }
     .into_any()
 }
+
+/// A one-line alert for the top of the page when storage needs attention
+/// (full, unavailable, an entry set aside, a save conflict); renders nothing
+/// otherwise. The full message and its buttons are in the designs panel,
+/// which the alert links to. Not a live region: the panel already announces.
+#[component]
+pub fn StorageAlert() -> impl IntoView {
+    let store = use_store();
+    move || {
+        let store = store?;
+        let n = store.notices.with(|ns| {
+            ns.iter()
+                .find(|n| matches!(n.kind, NoticeKind::Warn | NoticeKind::Error))
+                .cloned()
+        })?;
+        let first = n
+            .text
+            .split(". ")
+            .next()
+            .unwrap_or_default()
+            .trim_end_matches('.')
+            .to_string();
+        Some(view! {
+            <p class=format!("bw-alert {}", notice_class(n.kind)) data-testid="storage-alert">
+                <style>{ALERT_CSS}</style>
+                <span>{first}"."</span>
+                " "
+                <a href="#designs-title">"Saved designs"</a>
+            </p>
+        })
+    }
+}
+
+/// Styles of [`StorageAlert`].
+const ALERT_CSS: &str = ".bw-alert{margin:.4rem 0;padding:.4rem .7rem;border-radius:6px;\
+border-left:5px solid;display:flex;flex-wrap:wrap;gap:.3rem;align-items:center}\
+.bw-alert.bw-notice-warn{background:#fff5dc;border-color:#9a6700}\
+.bw-alert.bw-notice-error{background:#fde8e8;border-color:#b42318}\
+.bw-alert a{color:inherit;font-weight:600}";

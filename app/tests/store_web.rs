@@ -10,11 +10,11 @@
     missing_docs
 )]
 
-use app::designs_ws::DesignsPanel;
+use app::designs_ws::{DesignsPanel, StorageAlert};
 use app::state::AppState;
 use app::store::{
-    design_key, init, save_design, scan, KvStore, LocalStore, SaveOutcome, SaveTarget, StoreError,
-    INDEX_KEY,
+    design_key, init, save_design, scan, use_store, KvStore, LocalStore, NoticeKind, SaveOutcome,
+    SaveTarget, StoreError, INDEX_KEY,
 };
 use leptos::prelude::*;
 use solver::design::demo_design;
@@ -113,6 +113,53 @@ async fn panel_saves_the_working_design_under_its_own_key() {
         .query_selector("[data-testid=design-row-0]")
         .unwrap()
         .is_some());
+    drop(handle);
+    clear();
+}
+
+#[wasm_bindgen_test]
+async fn storage_alert_shows_the_first_sentence_of_a_problem_only() {
+    clear();
+    let doc = document();
+    let host: HtmlElement = doc.create_element("div").unwrap().unchecked_into();
+    doc.body().unwrap().append_child(&host).unwrap();
+    let state = AppState::new();
+    let slot = std::rc::Rc::new(std::cell::Cell::new(None));
+    let out = slot.clone();
+    let handle = leptos::mount::mount_to(host.clone(), move || {
+        provide_context(state);
+        init(state);
+        let store = use_store().unwrap();
+        store.notify(NoticeKind::Info, "Saved “x”.", None);
+        out.set(Some(store));
+        view! { <StorageAlert /> }
+    });
+    for _ in 0..4 {
+        leptos::task::tick().await;
+    }
+    assert!(host
+        .query_selector("[data-testid=storage-alert]")
+        .unwrap()
+        .is_none());
+    let store = slot.get().unwrap();
+    store.notify(
+        NoticeKind::Error,
+        "Browser storage is full: nothing was saved. Your design is still on screen.",
+        None,
+    );
+    for _ in 0..4 {
+        leptos::task::tick().await;
+    }
+    let alert = host
+        .query_selector("[data-testid=storage-alert]")
+        .unwrap()
+        .unwrap();
+    let text = alert.text_content().unwrap_or_default();
+    assert!(
+        text.contains("Browser storage is full: nothing was saved. Saved designs"),
+        "{text}"
+    );
+    assert!(!text.contains("still on screen"));
     drop(handle);
     clear();
 }

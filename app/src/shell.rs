@@ -6,7 +6,7 @@
 //! the embed bar.
 
 use crate::cautions::ModelNote;
-use crate::designs_ws::DesignsPanel;
+use crate::designs_ws::{DesignsPanel, StorageAlert};
 use crate::embed::EmbedBar;
 use crate::field_ws::FieldWorkspace;
 use crate::mixture_ws::MixtureWorkspace;
@@ -68,6 +68,9 @@ pub fn Shell() -> impl IntoView {
                 </header>
             </Show>
             <EmbedBar />
+            <Show when=move || !embed()>
+                <StorageAlert />
+            </Show>
             <Tabs active=active />
             <main id="workspace" class="workspace" tabindex="-1">
                 {move || {

@@ -154,13 +154,24 @@ pub struct MixtureResult {
     pub pkw: f64,
 }
 
+/// What a prepared mixture keeps of each system: its names, not its shelf forms.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SystemLabel {
+    /// System id.
+    pub id: String,
+    /// Display name.
+    pub name: String,
+    /// Species names, most protonated first.
+    pub species: Vec<String>,
+}
+
 /// A mixture resolved at its temperature, ready for repeated solves.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Prepared {
     /// Engine input.
     pub composition: Composition,
-    /// Systems in the same order as `composition.acids`.
-    pub systems: Vec<AcidSystem>,
+    /// Names of the systems, in the same order as `composition.acids`.
+    pub systems: Vec<SystemLabel>,
     /// Spectator ions, mol/L, in [`Ion::ALL`] order.
     pub ions: [f64; 3],
     /// pKw.
@@ -226,14 +237,18 @@ pub fn prepare(spec: &MixtureSpec, custom: &[AcidSystem]) -> Result<Prepared> {
             }
         };
         // Several forms of one system are one system in solution.
-        if let Some(pos) = systems.iter().position(|s: &AcidSystem| s.id == sys.id) {
+        if let Some(pos) = systems.iter().position(|s: &SystemLabel| s.id == sys.id) {
             if let Some(a) = acids.get_mut(pos) {
                 let a: &mut Acid = a;
                 a.total += units * conc;
             }
         } else {
             acids.push(Acid::from_pks(sys.z0, &pks, units * conc));
-            systems.push(sys.clone());
+            systems.push(SystemLabel {
+                id: sys.id.clone(),
+                name: sys.name.clone(),
+                species: sys.species.clone(),
+            });
         }
     }
     for (i, add) in spec.additives.iter().enumerate() {

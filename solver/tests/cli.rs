@@ -76,3 +76,31 @@ fn usage_errors_exit_2() {
     let (code, _, _) = run(&["--bogus"], None);
     assert_eq!(code, 2);
 }
+
+#[test]
+fn a_user_defined_system_works_like_a_library_one() {
+    // A made-up monoprotic amine buffer (invented values, for the test only).
+    let (_, demo, _) = run(&["--demo"], None);
+    let mut v: serde_json::Value = serde_json::from_str(&demo).unwrap();
+    v["custom_systems"] = serde_json::json!([{
+        "id": "my_amine", "name": "My amine", "z0": 1,
+        "steps": [{"pk25": 8.5, "temp": {"kind": "vant_hoff", "dh_kj": 40.0, "dcp_j": 0.0}}],
+        "species": ["BH⁺", "B"], "t_min_c": 5.0, "t_max_c": 45.0,
+        "forms": [
+            {"id": "base", "name": "free base", "formula": "C6H15NO3", "units": 1.0, "counter_ions": []},
+            {"id": "hcl", "name": "hydrochloride", "formula": "C6H15NO3·HCl", "units": 1.0, "counter_ions": [["cl", 1.0]]}
+        ],
+        "source": "invented for a test", "hazards": []
+    }]);
+    v["recipe"]["system"] = "my_amine".into();
+    v["recipe"]["target_ph"] = 8.3.into();
+    v["recipe"]["temperature_c"] = 25.0.into();
+    v["recipe"]["method"] =
+        serde_json::json!({"kind": "two_forms", "acid_form": "hcl", "base_form": "base"});
+    let text = v.to_string();
+    let (code, out, err) = run(&[], Some(&text));
+    assert_eq!(code, 0, "{err}");
+    let r: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let ph = r["recipe"]["Ok"]["equilibrium"]["ph"].as_f64().unwrap();
+    assert!((ph - 8.3).abs() < 1e-6, "{ph}");
+}

@@ -217,7 +217,11 @@ pub fn form_level(sys: &AcidSystem, form: &ReagentForm) -> f64 {
 ///
 /// Temperature outside the system's data.
 pub fn nearest_step(sys: &AcidSystem, target_ph: f64, t_c: f64) -> Result<(usize, f64)> {
-    let pks = system_pks(sys, t_c)?;
+    nearest_of(sys, &system_pks(sys, t_c)?, target_ph)
+}
+
+/// [`nearest_step`] over pK values already computed.
+fn nearest_of(sys: &AcidSystem, pks: &[f64], target_ph: f64) -> Result<(usize, f64)> {
     let mut best = (1usize, f64::NAN);
     let mut dist = f64::INFINITY;
     for (i, pk) in pks.iter().enumerate() {
@@ -327,11 +331,83 @@ struct Setup {
     dz2: f64,
 }
 
-fn weigh(form: &ReagentForm, mol: f64) -> Result<Ingredient> {
-    let mm = molar_mass(&form.formula)?;
+/// The method with its shelf forms looked up and checked, once per recipe.
+enum Forms<'a> {
+    /// Two forms of the system: weighed (`stocks: None`) or poured from
+    /// stocks of the given molarities (acid, base).
+    Pair {
+        acid: FormInfo<'a>,
+        base: FormInfo<'a>,
+        stocks: Option<(f64, f64)>,
+    },
+    /// One form, titrated with a strong acid or base stock.
+    Titrate {
+        form: FormInfo<'a>,
+        titrant: Additive,
+        titrant_m: f64,
+    },
+}
+
+fn resolve_forms<'a>(spec: &RecipeSpec, sys: &'a AcidSystem) -> Result<Forms<'a>> {
+    let (acid_form, base_form, stocks) = match &spec.method {
+        Method::TwoForms {
+            acid_form,
+            base_form,
+        } => (acid_form, base_form, None),
+        Method::TwoStocks {
+            acid_form,
+            acid_stock_m,
+            base_form,
+            base_stock_m,
+        } => (acid_form, base_form, Some((*acid_stock_m, *base_stock_m))),
+        Method::Titrate {
+            form,
+            titrant,
+            titrant_m,
+        } => {
+            return Ok(Forms::Titrate {
+                form: form_info(sys, form, "method.form")?,
+                titrant: *titrant,
+                titrant_m: *titrant_m,
+            })
+        }
+    };
+    let acid = form_info(sys, acid_form, "method.acid_form")?;
+    let base = form_info(sys, base_form, "method.base_form")?;
+    if (base.q - acid.q).abs() < 1e-12 {
+        return Err(SolverError::Infeasible {
+            field: "method.base_form".into(),
+            reason:
+                "the two forms carry the same protons; choose forms on either side of the target"
+                    .into(),
+        });
+    }
+    Ok(Forms::Pair { acid, base, stocks })
+}
+
+/// The recipe's solution before any buffer form goes in: temperature, model, salt.
+fn empty_mixture(spec: &RecipeSpec) -> MixtureSpec {
+    MixtureSpec {
+        temperature_c: spec.temperature_c,
+        activity: spec.activity,
+        components: vec![],
+        additives: spec.salt.iter().copied().collect(),
+    }
+}
+
+fn component(sys: &AcidSystem, f: &FormInfo<'_>, conc_m: f64) -> ComponentSpec {
+    ComponentSpec {
+        system: sys.id.clone(),
+        form: Some(f.form.id.clone()),
+        conc_m,
+    }
+}
+
+fn weigh(formula: &str, name: &str, mol: f64) -> Result<Ingredient> {
+    let mm = molar_mass(formula)?;
     Ok(Ingredient {
-        formula: form.formula.clone(),
-        name: form.name.clone(),
+        formula: formula.into(),
+        name: name.into(),
         mol,
         molar_mass: Some(mm),
         grams: Some(mol * mm),
@@ -356,30 +432,20 @@ fn pour(formula: &str, name: &str, mol: f64, stock_m: f64) -> Ingredient {
 fn finish(
     spec: &RecipeSpec,
     sys: &AcidSystem,
+    forms: &Forms<'_>,
     x: f64,
     check: bool,
 ) -> Result<(MixtureSpec, Vec<Ingredient>)> {
     let c = spec.total_conc_m;
     let v = spec.volume_l;
-    let mut mix = MixtureSpec {
-        temperature_c: spec.temperature_c,
-        activity: spec.activity,
-        components: vec![],
-        additives: spec.salt.iter().copied().collect(),
-    };
+    let mut mix = empty_mixture(spec);
     let mut ing = Vec::new();
-    match &spec.method {
-        Method::TwoForms {
-            acid_form,
-            base_form,
-        }
-        | Method::TwoStocks {
-            acid_form,
-            base_form,
-            ..
+    match forms {
+        Forms::Pair {
+            acid: a,
+            base: b,
+            stocks,
         } => {
-            let a = form_info(sys, acid_form, "method.acid_form")?;
-            let b = form_info(sys, base_form, "method.base_form")?;
             if check && !(-1e-9..=1.0 + 1e-9).contains(&x) {
                 let side = if x < 0.0 {
                     "below what the acid form alone gives"
@@ -397,24 +463,11 @@ fn finish(
             let x = x.clamp(0.0, 1.0);
             let na = (1.0 - x) * c * a.per_unit;
             let nb = x * c * b.per_unit;
-            mix.components.push(ComponentSpec {
-                system: sys.id.clone(),
-                form: Some(a.form.id.clone()),
-                conc_m: na,
-            });
-            mix.components.push(ComponentSpec {
-                system: sys.id.clone(),
-                form: Some(b.form.id.clone()),
-                conc_m: nb,
-            });
-            if let Method::TwoStocks {
-                acid_stock_m,
-                base_stock_m,
-                ..
-            } = &spec.method
-            {
-                let ia = pour(&a.form.formula, &a.form.name, na * v, *acid_stock_m);
-                let ib = pour(&b.form.formula, &b.form.name, nb * v, *base_stock_m);
+            mix.components.push(component(sys, a, na));
+            mix.components.push(component(sys, b, nb));
+            if let Some((acid_stock_m, base_stock_m)) = *stocks {
+                let ia = pour(&a.form.formula, &a.form.name, na * v, acid_stock_m);
+                let ib = pour(&b.form.formula, &b.form.name, nb * v, base_stock_m);
                 let total_ml = ia.ml.unwrap_or(0.0) + ib.ml.unwrap_or(0.0);
                 if check && total_ml > v * 1000.0 * (1.0 + 1e-9) {
                     return Err(SolverError::Infeasible {
@@ -428,22 +481,17 @@ fn finish(
                 ing.push(ia);
                 ing.push(ib);
             } else {
-                ing.push(weigh(a.form, na * v)?);
-                ing.push(weigh(b.form, nb * v)?);
+                ing.push(weigh(&a.form.formula, &a.form.name, na * v)?);
+                ing.push(weigh(&b.form.formula, &b.form.name, nb * v)?);
             }
         }
-        Method::Titrate {
-            form,
+        Forms::Titrate {
+            form: f,
             titrant,
             titrant_m,
         } => {
-            let f = form_info(sys, form, "method.form")?;
             let nf = c * f.per_unit;
-            mix.components.push(ComponentSpec {
-                system: sys.id.clone(),
-                form: Some(f.form.id.clone()),
-                conc_m: nf,
-            });
+            mix.components.push(component(sys, f, nf));
             if check && x < -1e-12 {
                 let other = if titrant.charge() > 0.0 {
                     "a strong acid (HCl)"
@@ -463,7 +511,7 @@ fn finish(
                 additive: *titrant,
                 conc_m: x,
             });
-            ing.push(weigh(f.form, nf * v)?);
+            ing.push(weigh(&f.form.formula, &f.form.name, nf * v)?);
             let t = pour(titrant.formula(), titrant_name(*titrant), x * v, *titrant_m);
             if check && t.ml.unwrap_or(0.0) > v * 1000.0 {
                 return Err(SolverError::Infeasible {
@@ -477,16 +525,11 @@ fn finish(
     }
     if let Some(s) = &spec.salt {
         if s.conc_m > 0.0 {
-            let mm = molar_mass(s.additive.formula())?;
-            ing.push(Ingredient {
-                formula: s.additive.formula().into(),
-                name: titrant_name(s.additive).into(),
-                mol: s.conc_m * v,
-                molar_mass: Some(mm),
-                grams: Some(s.conc_m * v * mm),
-                ml: None,
-                stock_m: None,
-            });
+            ing.push(weigh(
+                s.additive.formula(),
+                titrant_name(s.additive),
+                s.conc_m * v,
+            )?);
         }
     }
     Ok((mix, ing))
@@ -502,50 +545,22 @@ fn titrant_name(a: Additive) -> &'static str {
     }
 }
 
-fn setup(spec: &RecipeSpec, sys: &AcidSystem) -> Result<Setup> {
+fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
     let c = spec.total_conc_m;
-    let mut base = MixtureSpec {
-        temperature_c: spec.temperature_c,
-        activity: spec.activity,
-        components: vec![],
-        additives: spec.salt.iter().copied().collect(),
-    };
-    let (dcharge, dz2) = match &spec.method {
-        Method::TwoForms {
-            acid_form,
-            base_form,
+    let mut base = empty_mixture(spec);
+    let (dcharge, dz2) = match forms {
+        Forms::Pair { acid, base: b, .. } => {
+            base.components
+                .push(component(sys, acid, c * acid.per_unit));
+            (c * (b.q - acid.q), c * (b.zz - acid.zz))
         }
-        | Method::TwoStocks {
-            acid_form,
-            base_form,
-            ..
-        } => {
-            let a = form_info(sys, acid_form, "method.acid_form")?;
-            let b = form_info(sys, base_form, "method.base_form")?;
-            base.components.push(ComponentSpec {
-                system: sys.id.clone(),
-                form: Some(a.form.id.clone()),
-                conc_m: c * a.per_unit,
-            });
-            if (b.q - a.q).abs() < 1e-12 {
-                return Err(SolverError::Infeasible {
-                    field: "method.base_form".into(),
-                    reason: "the two forms carry the same protons; choose forms on either side of the target".into(),
-                });
-            }
-            (c * (b.q - a.q), c * (b.zz - a.zz))
-        }
-        Method::Titrate { form, titrant, .. } => {
-            let f = form_info(sys, form, "method.form")?;
-            base.components.push(ComponentSpec {
-                system: sys.id.clone(),
-                form: Some(f.form.id.clone()),
-                conc_m: c * f.per_unit,
-            });
+        Forms::Titrate { form, titrant, .. } => {
+            base.components
+                .push(component(sys, form, c * form.per_unit));
             (titrant.charge(), 1.0)
         }
     };
-    Ok(Setup { base, dcharge, dz2 })
+    Setup { base, dcharge, dz2 }
 }
 
 /// Solve a recipe exactly, with the Henderson–Hasselbalch estimate beside it.
@@ -585,11 +600,12 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
     validate(spec)?;
     let sys = lookup(&spec.system, custom)?;
     let pks = system_pks(sys, spec.temperature_c)?;
-    let (k, pk) = nearest_step(sys, spec.target_ph, spec.temperature_c)?;
-    let st = setup(spec, sys)?;
+    let (k, pk) = nearest_of(sys, &pks, spec.target_ph)?;
+    let forms = resolve_forms(spec, sys)?;
+    let st = setup(spec, sys, &forms);
     let prepared = prepare(&st.base, custom)?;
     let (x, _) = solve_addition(&prepared.composition, spec.target_ph, st.dcharge, st.dz2)?;
-    let (mixture, ingredients) = finish(spec, sys, x, true)?;
+    let (mixture, ingredients) = finish(spec, sys, &forms, x, true)?;
     let p = prepare(&mixture, custom)?;
     let eq = solve(&p.composition, spec.target_ph)?;
     let tol = tolerance(&p, &eq, spec.tolerance_ph)?;
@@ -600,7 +616,7 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
     let f = r / (1.0 + r);
     let s_hh = spec.total_conc_m * (k as f64 - 1.0 + f - f64::from(sys.z0));
     let x_hh = (s_hh - prepared.composition.spectator_charge) / st.dcharge;
-    let estimate = match finish(spec, sys, x_hh, true) {
+    let estimate = match finish(spec, sys, &forms, x_hh, true) {
         Ok((mix_hh, ing_hh)) => {
             let actual = prepare(&mix_hh, custom)
                 .and_then(|p| p.solve())
@@ -622,10 +638,7 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
     };
 
     let mut warnings = Vec::new();
-    let nearest = pks
-        .iter()
-        .map(|p| (spec.target_ph - p).abs())
-        .fold(f64::INFINITY, f64::min);
+    let nearest = (spec.target_ph - pk).abs();
     if nearest > 1.0 {
         warnings.push(RecipeWarning::FarFromPk {
             distance: nearest,

@@ -15,11 +15,12 @@ use leptos::prelude::*;
 use solver::activity::ActivityModel;
 use solver::design::PlotSource;
 use solver::equilibrium::Warning;
+use solver::library::find_form;
 use solver::mixture::{
     lookup, solve_mixture, what_if, Additive, AdditiveSpec, ComponentSpec, MixtureResult,
     MixtureSpec, WhatIf, WhatIfResult,
 };
-use solver::system::AcidSystem;
+use solver::system::{AcidSystem, ReagentForm};
 use solver::SolverError;
 
 /// Value of the "as the free acid" form option.
@@ -58,26 +59,22 @@ fn mixture_cautions(spec: &MixtureSpec, custom: &[AcidSystem]) -> Vec<crate::cau
         .iter()
         .filter_map(|c| lookup(&c.system, custom).ok())
         .collect();
-    let formulas: Vec<&str> = spec
+    // Each component's shelf form, looked up once (None: added as the free acid).
+    let forms: Vec<Option<&ReagentForm>> = spec
         .components
         .iter()
-        .filter_map(|c| {
+        .map(|c| {
             let sys = lookup(&c.system, custom).ok()?;
-            let id = c.form.as_deref()?;
-            sys.forms
-                .iter()
-                .find(|f| f.id == id)
-                .map(|f| f.formula.as_str())
+            find_form(sys, c.form.as_deref()?)
         })
         .collect();
+    let formulas: Vec<&str> = forms.iter().flatten().map(|f| f.formula.as_str()).collect();
     let additives: Vec<Additive> = spec.additives.iter().map(|a| a.additive).collect();
-    let free_form = spec.components.iter().any(|c| match &c.form {
-        None => true,
-        Some(id) => lookup(&c.system, custom)
-            .ok()
-            .and_then(|s| s.forms.iter().find(|f| f.id == *id))
-            .is_some_and(|f| f.counter_ions.is_empty()),
-    });
+    let free_form = spec
+        .components
+        .iter()
+        .zip(&forms)
+        .any(|(c, f)| c.form.is_none() || f.is_some_and(|f| f.counter_ions.is_empty()));
     corrosive_only_if(
         cautions_for_many(&systems, &formulas, &additives),
         free_form,

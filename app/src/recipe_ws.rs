@@ -18,6 +18,7 @@ use crate::state::use_app;
 use leptos::prelude::*;
 use solver::activity::ActivityModel;
 use solver::equilibrium::Warning;
+use solver::library::find_form;
 use solver::mixture::{lookup, Additive, AdditiveSpec};
 use solver::recipe::{
     form_level, format_mass, format_volume_ml, solve_recipe, suggest_pair, Ingredient, Method,
@@ -50,15 +51,15 @@ fn suggestion(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<(String, Strin
     suggest_pair(&spec.system, spec.target_ph, spec.temperature_c, custom).ok()
 }
 
+/// Deprotonation level of one of the system's forms, if it has that form.
+fn level_of(sys: &AcidSystem, form_id: &str) -> Option<f64> {
+    find_form(sys, form_id).map(|f| form_level(sys, f))
+}
+
 /// Deprotonation levels of the forms in `spec` (acid side, base side), if they exist.
 fn current_levels(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<(f64, f64)> {
     let sys = lookup(&spec.system, custom).ok()?;
-    let level = |id: &str| {
-        sys.forms
-            .iter()
-            .find(|f| f.id == id)
-            .map(|f| form_level(sys, f))
-    };
+    let level = |id: &str| level_of(sys, id);
     match &spec.method {
         Method::TwoForms {
             acid_form,
@@ -80,12 +81,7 @@ fn current_levels(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<(f64, f64)
 fn suggested_levels(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<(f64, f64)> {
     let (a, b) = suggestion(spec, custom)?;
     let sys = lookup(&spec.system, custom).ok()?;
-    let level = |id: &str| {
-        sys.forms
-            .iter()
-            .find(|f| f.id == id)
-            .map(|f| form_level(sys, f))
-    };
+    let level = |id: &str| level_of(sys, id);
     match &spec.method {
         Method::Titrate { titrant, .. } => {
             let l = level(&titrate_form(*titrant, &a, &b))?;

@@ -535,7 +535,7 @@ pub fn solve_hinted(c: &Composition, guess: f64, ionic_hint: f64) -> Result<Equi
     } else if c.activity != ActivityModel::Ideal {
         let e0 = solve_fixed_gamma(c, g1, f64::NAN, &mut evals)?;
         i0 = e0.ionic;
-        Some(phx(c, &e0, g1))
+        Some(phx(&e0, g1))
     } else {
         None
     };
@@ -549,7 +549,7 @@ pub fn solve_hinted(c: &Composition, guess: f64, ionic_hint: f64) -> Result<Equi
         ph = jx;
     } else {
         e = solve_fixed_gamma(c, g1, start.unwrap_or(guess), &mut evals)?;
-        ph = phx(c, &e, g1);
+        ph = phx(&e, g1);
     }
     if c.activity != ActivityModel::Ideal && joint_result.is_none() {
         let mut converged = false;
@@ -565,7 +565,7 @@ pub fn solve_hinted(c: &Composition, guess: f64, ionic_hint: f64) -> Result<Equi
             ionic = next_i;
             g1 = gamma1(c.activity, c.a_dh, ionic);
             e = solve_fixed_gamma(c, g1, ph, &mut evals)?;
-            ph = phx(c, &e, g1);
+            ph = phx(&e, g1);
             if done {
                 converged = true;
                 break;
@@ -612,11 +612,11 @@ pub fn solve_at_ionic_strength(c: &Composition, ionic_strength: f64, guess: f64)
     let g1 = gamma1(c.activity, c.a_dh, ionic_strength);
     let mut evals = 0;
     let e = solve_fixed_gamma(c, g1, guess, &mut evals)?;
-    Ok(phx(c, &e, g1))
+    Ok(phx(&e, g1))
 }
 
 /// Recover the pH of an evaluation from [H⁺] and γ₁.
-fn phx(_c: &Composition, e: &Eval, g1: f64) -> f64 {
+fn phx(e: &Eval, g1: f64) -> f64 {
     -(e.h * g1).log10()
 }
 

@@ -129,6 +129,10 @@ pub struct Equilibrium {
 }
 
 /// Sums over one acid at one `a_H` and γ₁: Σt, Σ j t, Σ j² t (unnormalised).
+///
+/// The species-weight recurrence here is repeated, fused with different sums,
+/// in `acid_moments4` and `fractions_into`. Sharing one weights array
+/// measured 40–80 % slower on the solve benchmark, so the hot loops stay fused.
 #[inline]
 fn acid_moments(acid: &Acid, inv_h: f64, g1: f64) -> (f64, f64, f64) {
     // term_j = Π_{i≤j} K'_i / a_H, K'_i = K_i γ_{z_{i−1}} / γ_{z_i}
@@ -677,7 +681,7 @@ pub fn solve_addition(c: &Composition, ph: f64, dcharge: f64, dz2: f64) -> Resul
 /// Species fractions of one acid at a pH and ionic strength, written into `out`
 /// (most protonated first). Returns the number of species written.
 pub fn fractions_into(acid: &Acid, ph: f64, g1: f64, out: &mut [f64; MAX_STEPS + 1]) -> usize {
-    let inv_h = 10f64.powf(ph);
+    let inv_h = (ph * LN10).exp();
     let mut term = 1.0;
     let mut terms = [0.0; MAX_STEPS + 1];
     terms[0] = 1.0;

@@ -259,6 +259,44 @@ pub fn amount_text(i: &Ingredient) -> String {
     }
 }
 
+/// Above these a bench recipe is probably a unit slip (common practice of
+/// the page, not chemistry): 20 L of final volume, 1 kg of one reagent, 2 M
+/// of buffer.
+pub const BENCH_VOLUME_L: f64 = 20.0;
+/// See [`BENCH_VOLUME_L`].
+pub const BENCH_MASS_G: f64 = 1000.0;
+/// See [`BENCH_VOLUME_L`].
+pub const BENCH_CONC_M: f64 = 2.0;
+
+/// "Check the unit" warnings for amounts that are implausible at a bench.
+pub fn bench_checks(spec: &RecipeSpec, ingredients: &[Ingredient]) -> Vec<String> {
+    let mut out = Vec::new();
+    if spec.volume_l > BENCH_VOLUME_L {
+        out.push(format!(
+            "Check the unit: a final volume of {} is more than a bench batch (over {} L).",
+            format_volume_ml(spec.volume_l * 1000.0),
+            fmt_input(BENCH_VOLUME_L)
+        ));
+    }
+    if spec.total_conc_m > BENCH_CONC_M {
+        out.push(format!(
+            "Check the unit: {} of buffer is unusually strong (over {} M).",
+            fmt_conc(spec.total_conc_m),
+            fmt_input(BENCH_CONC_M)
+        ));
+    }
+    for i in ingredients {
+        if i.grams.is_some_and(|g| g > BENCH_MASS_G) {
+            out.push(format!(
+                "Check the unit: {} of {} is more than 1 kg.",
+                amount_text(i),
+                pretty_formula(&i.formula)
+            ));
+        }
+    }
+    out
+}
+
 /// Plain-language text of a recipe warning.
 pub fn warning_text(w: &RecipeWarning) -> String {
     match w {
@@ -1035,7 +1073,7 @@ fn RecipeResultView(
                 <p class="print-title">{move || app.design.with(|d| d.name.clone())}</p>
                 <p>"Printed " {today} " · Bufferwright recipe sheet"</p>
             </div>
-            <h2 class="card-title" id="recipe-result-title">
+            <h2 class="card-title" id="recipe-result-title" data-testid="recipe-headline">
                 {move || {
                     spec.with(|s| {
                         format!(
@@ -1098,6 +1136,7 @@ fn RecipeResultView(
 fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
     let r = result;
     let eq = &r.equilibrium;
+    let checks = bench_checks(&spec, &r.ingredients);
     let mut notes: Vec<String> = r.warnings.iter().map(warning_text).collect();
     if eq.warnings.contains(&Warning::ExtremePh) {
         notes.push("Extreme pH: the model is rough this far from neutral.".into());
@@ -1127,6 +1166,14 @@ fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
     let lo = spec.target_ph - r.tolerance.window;
     let hi = spec.target_ph + r.tolerance.window;
     view! {
+        {(!checks.is_empty())
+            .then(|| {
+                view! {
+                    <ul class="unit-checks" data-testid="recipe-unit-check" role="alert">
+                        {checks.into_iter().map(|n| view! { <li>{n}</li> }).collect_view()}
+                    </ul>
+                }
+            })}
         <div class="headline">
             <div class="big-number">
                 <span class="big-label">"Predicted pH"</span>
@@ -1310,6 +1357,32 @@ mod tests {
             *base_form = "na3po4_12h2o".into();
         }
         assert!(!follows_suggestion(&spec, &[]));
+    }
+
+    #[test]
+    fn implausible_bench_amounts_ask_to_check_the_unit() {
+        let mut spec = demo_design().recipe;
+        let r = solve_recipe(&spec, &[]).unwrap();
+        assert!(
+            bench_checks(&spec, &r.ingredients).is_empty(),
+            "the demo is a bench recipe"
+        );
+        spec.volume_l = 250.0; // "250" typed, then the unit switched to L
+        let r = solve_recipe(&spec, &[]).unwrap();
+        let checks = bench_checks(&spec, &r.ingredients);
+        assert!(
+            checks.iter().any(|c| c.contains("final volume")),
+            "{checks:?}"
+        );
+        assert!(
+            checks.iter().any(|c| c.contains("more than 1 kg")),
+            "{checks:?}"
+        );
+        spec.volume_l = 0.5;
+        spec.total_conc_m = 2.5;
+        assert!(bench_checks(&spec, &[])
+            .iter()
+            .any(|c| c.contains("unusually strong")));
     }
 
     #[test]

@@ -145,7 +145,7 @@ pub fn FieldWorkspace() -> impl IntoView {
         };
         Some(view! {
             <NumberField
-                id=format!("field-ionic-{kind}")
+                id=format!("field-ionic-{kind}-value")
                 label=label
                 value=Signal::derive(move || {
                     spec.with(|s| match s.ionic {

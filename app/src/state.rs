@@ -202,7 +202,9 @@ impl Default for AppState {
 /// store something other than what is on screen). Names the fields by their
 /// visible labels.
 pub fn unsaved_reason(state: &AppState) -> Option<String> {
-    let bad: Vec<String> = state.pending.with_untracked(|p| p.iter().cloned().collect());
+    let bad: Vec<String> = state
+        .pending
+        .with_untracked(|p| p.iter().cloned().collect());
     if bad.is_empty() {
         return None;
     }
@@ -218,7 +220,11 @@ pub fn unsaved_reason(state: &AppState) -> Option<String> {
 fn field_label(id: &str) -> String {
     web_sys::window()
         .and_then(|w| w.document())
-        .and_then(|d| d.query_selector(&format!("label[for=\"{id}\"]")).ok().flatten())
+        .and_then(|d| {
+            d.query_selector(&format!("label[for=\"{id}\"]"))
+                .ok()
+                .flatten()
+        })
         .and_then(|l| l.text_content())
         .map(|t| t.trim().to_string())
         .filter(|t| !t.is_empty())

@@ -334,6 +334,51 @@ fn subscript(n: usize) -> String {
         .collect()
 }
 
+/// What differs between the plots' axes; everything else (margins, grid,
+/// tick marks, fonts) is the same for all of them and set in [`axes`].
+struct Axes<'f> {
+    x: std::ops::Range<f64>,
+    y: std::ops::Range<f64>,
+    x_labels: usize,
+    y_labels: usize,
+    x_fmt: &'f dyn Fn(&f64) -> String,
+    x_desc: &'f str,
+    y_desc: &'f str,
+    margin_top: i32,
+}
+
+/// A chart on `area` with the house axes: one set-up for every plot.
+fn axes<'a, DB: DrawingBackend>(
+    s: Sc,
+    area: &'a DrawingArea<DB, Shift>,
+    a: &Axes<'_>,
+) -> DrawResult<ChartContext<'a, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>, DB> {
+    let mut chart = ChartBuilder::on(area)
+        .margin_top(s.i(a.margin_top))
+        .margin_right(s.i(16))
+        .margin_left(s.i(6))
+        .x_label_area_size(s.i(42))
+        .y_label_area_size(s.i(60))
+        .build_cartesian_2d(a.x.clone(), a.y.clone())?;
+    let y_fmt = |v: &f64| tick(*v);
+    chart
+        .configure_mesh()
+        .x_labels(a.x_labels)
+        .y_labels(a.y_labels)
+        .max_light_lines(0)
+        .set_all_tick_mark_size(s.i(5))
+        .bold_line_style(GRID)
+        .axis_style(MUTED)
+        .x_label_formatter(a.x_fmt)
+        .y_label_formatter(&y_fmt)
+        .label_style(font(s, SMALL_PX))
+        .axis_desc_style(font(s, FONT_PX))
+        .x_desc(a.x_desc)
+        .y_desc(a.y_desc)
+        .draw()?;
+    Ok(chart)
+}
+
 /// Species plot: the fraction (or concentration) of every species over pH 0–14,
 /// with pK markers, the working pH and an optional pointer cursor.
 ///
@@ -374,30 +419,21 @@ pub fn draw_species<DB: DrawingBackend>(
             "concentration, mmol/L",
         ),
     };
-    let mut chart = ChartBuilder::on(&plot_area)
-        .margin_top(s.i(18))
-        .margin_right(s.i(16))
-        .margin_left(s.i(6))
-        .x_label_area_size(s.i(42))
-        .y_label_area_size(s.i(60))
-        .build_cartesian_2d(PH_MIN..PH_MAX, 0.0..y_top)?;
-    let y_fmt = |v: &f64| tick(*v);
     let x_fmt = |v: &f64| tick(*v);
-    chart
-        .configure_mesh()
-        .x_labels(15)
-        .y_labels(6)
-        .max_light_lines(0)
-        .set_all_tick_mark_size(s.i(5))
-        .bold_line_style(GRID)
-        .axis_style(MUTED)
-        .x_label_formatter(&x_fmt)
-        .y_label_formatter(&y_fmt)
-        .label_style(font(s, SMALL_PX))
-        .axis_desc_style(font(s, FONT_PX))
-        .x_desc("pH")
-        .y_desc(y_desc)
-        .draw()?;
+    let mut chart = axes(
+        s,
+        &plot_area,
+        &Axes {
+            x: PH_MIN..PH_MAX,
+            y: 0.0..y_top,
+            x_labels: 15,
+            y_labels: 6,
+            x_fmt: &x_fmt,
+            x_desc: "pH",
+            y_desc,
+            margin_top: 18,
+        },
+    )?;
     pk_lines_vertical(s, &mut chart, data, y_top)?;
 
     for (i, ser) in data.series.iter().enumerate() {
@@ -496,29 +532,21 @@ pub fn draw_capacity<DB: DrawingBackend>(
     let entries: Vec<(Swatch, String)> = entries.into_iter().chain(pk_legend(data)).collect();
     let plot_area = legend(s, area, &entries)?;
     let top = data.capacity_ceiling();
-    let mut chart = ChartBuilder::on(&plot_area)
-        .margin_top(s.i(18))
-        .margin_right(s.i(16))
-        .margin_left(s.i(6))
-        .x_label_area_size(s.i(42))
-        .y_label_area_size(s.i(60))
-        .build_cartesian_2d(PH_MIN..PH_MAX, 0.0..top)?;
-    let fmt = |v: &f64| tick(*v);
-    chart
-        .configure_mesh()
-        .x_labels(15)
-        .y_labels(6)
-        .max_light_lines(0)
-        .set_all_tick_mark_size(s.i(5))
-        .bold_line_style(GRID)
-        .axis_style(MUTED)
-        .x_label_formatter(&fmt)
-        .y_label_formatter(&fmt)
-        .label_style(font(s, SMALL_PX))
-        .axis_desc_style(font(s, FONT_PX))
-        .x_desc("pH")
-        .y_desc("β, mmol/(L·pH)")
-        .draw()?;
+    let x_fmt = |v: &f64| tick(*v);
+    let mut chart = axes(
+        s,
+        &plot_area,
+        &Axes {
+            x: PH_MIN..PH_MAX,
+            y: 0.0..top,
+            x_labels: 15,
+            y_labels: 6,
+            x_fmt: &x_fmt,
+            x_desc: "pH",
+            y_desc: "β, mmol/(L·pH)",
+            margin_top: 18,
+        },
+    )?;
     pk_lines_vertical(s, &mut chart, data, top)?;
     let filled: Vec<(f64, f64)> = data
         .grid
@@ -578,30 +606,21 @@ pub fn draw_titration<DB: DrawingBackend>(
     ];
     let entries: Vec<(Swatch, String)> = entries.into_iter().chain(pk_legend(data)).collect();
     let plot_area = legend(s, area, &entries)?;
-    let mut chart = ChartBuilder::on(&plot_area)
-        .margin_top(s.i(10))
-        .margin_right(s.i(16))
-        .margin_left(s.i(6))
-        .x_label_area_size(s.i(42))
-        .y_label_area_size(s.i(60))
-        .build_cartesian_2d(x0..x1, PH_MIN..PH_MAX)?;
     let x_fmt = |v: &f64| tick(v.abs());
-    let y_fmt = |v: &f64| tick(*v);
-    chart
-        .configure_mesh()
-        .x_labels(9)
-        .y_labels(8)
-        .max_light_lines(0)
-        .set_all_tick_mark_size(s.i(5))
-        .bold_line_style(GRID)
-        .axis_style(MUTED)
-        .x_label_formatter(&x_fmt)
-        .y_label_formatter(&y_fmt)
-        .label_style(font(s, SMALL_PX))
-        .axis_desc_style(font(s, FONT_PX))
-        .x_desc("← HCl added   mmol/L   NaOH added →")
-        .y_desc("pH")
-        .draw()?;
+    let mut chart = axes(
+        s,
+        &plot_area,
+        &Axes {
+            x: x0..x1,
+            y: PH_MIN..PH_MAX,
+            x_labels: 9,
+            y_labels: 8,
+            x_fmt: &x_fmt,
+            x_desc: "← HCl added   mmol/L   NaOH added →",
+            y_desc: "pH",
+            margin_top: 10,
+        },
+    )?;
     let pk_label = font(s, SMALL_PX)
         .color(&MUTED)
         .pos(Pos::new(HPos::Right, VPos::Bottom));
@@ -710,231 +729,4 @@ pub fn titration_summary(data: &PlotData) -> String {
 }
 
 #[cfg(test)]
-mod tests {
-    use super::super::data::tests::{mixture_data, recipe_data};
-    use super::*;
-    use plotters_svg::SVGBackend;
-
-    fn svg_of(f: impl FnOnce(&DrawingArea<SVGBackend<'_>, Shift>)) -> String {
-        let mut out = String::new();
-        {
-            let root = SVGBackend::with_string(&mut out, (720, 420)).into_drawing_area();
-            f(&root);
-            let _ = root.present();
-        }
-        out
-    }
-
-    fn hex(c: RGBColor) -> String {
-        format!("#{:02X}{:02X}{:02X}", c.0, c.1, c.2)
-    }
-
-    /// Curves (polylines of more than 20 points) stroked in `c` at full opacity;
-    /// legend swatches and markers are shorter.
-    fn polylines(svg: &str, c: RGBColor) -> usize {
-        let want = format!("stroke=\"{}\"", hex(c));
-        svg.split("<polyline")
-            .skip(1)
-            .filter_map(|p| p.split("/>").next())
-            .filter(|p| p.contains(&want) && p.contains("opacity=\"1\""))
-            .filter(|p| p.matches(',').count() > 20)
-            .count()
-    }
-
-    /// Every `<text>` content, trimmed.
-    fn texts(svg: &str) -> Vec<String> {
-        svg.split("<text")
-            .skip(1)
-            .filter_map(|t| t.split_once('>'))
-            .filter_map(|(_, rest)| rest.split("</text>").next())
-            .map(|t| t.trim().to_string())
-            .collect()
-    }
-
-    fn has_text(svg: &str, want: &str) -> bool {
-        texts(svg).iter().any(|t| t == want)
-    }
-
-    fn has_text_starting(svg: &str, want: &str) -> bool {
-        texts(svg).iter().any(|t| t.starts_with(want))
-    }
-
-    #[test]
-    fn species_svg_has_axes_one_path_per_species_legend_and_pk() {
-        let d = recipe_data();
-        let mut frame = None;
-        let svg = svg_of(|a| frame = draw_species(a, &d, Quantity::Fraction, None, 1.0).ok());
-        let frame = frame.unwrap_or_else(|| unreachable!("drawing failed"));
-        assert!(has_text(&svg, "pH"), "x-axis label");
-        assert!(svg.contains("fraction of system total"), "y-axis label");
-        for (i, s) in d.series.iter().enumerate() {
-            assert_eq!(
-                polylines(&svg, species_color(i)),
-                1,
-                "one path for {}",
-                s.name
-            );
-            assert!(has_text(&svg, &s.name), "legend {}", s.name);
-        }
-        assert!(has_text(&svg, "working pH 7.40"), "working pH in legend");
-        assert!(has_text_starting(&svg, "pK₂ 7."), "pK₂ marker label");
-        assert!(svg.contains("pKa at 37 °C"), "pK legend entry");
-        assert!(frame.left > 0 && frame.right > frame.left && frame.bottom > frame.top);
-        let mid = f64::from(frame.left + frame.right) / 2.0;
-        assert!((frame.x_at(mid).unwrap_or(0.0) - 7.0).abs() < 0.05);
-    }
-
-    #[test]
-    fn concentration_mode_and_cursor() {
-        let d = mixture_data();
-        let svg = svg_of(|a| {
-            let _ = draw_species(a, &d, Quantity::Concentration, Some(8.0), 1.0);
-        });
-        assert!(svg.contains("concentration, mmol/L"));
-        assert_eq!(polylines(&svg, species_color(0)), 1);
-        assert_eq!(polylines(&svg, species_color(1)), 1);
-        assert_eq!(
-            svg.matches(&format!("stroke=\"{}\"", hex(CURSOR))).count(),
-            1,
-            "cursor line"
-        );
-        assert!(svg.matches("<circle").count() >= 2, "cursor dots");
-    }
-
-    #[test]
-    fn capacity_svg() {
-        let d = recipe_data();
-        let svg = svg_of(|a| {
-            let _ = draw_capacity(a, &d, None, 1.0);
-        });
-        assert!(has_text(&svg, "pH"));
-        assert!(svg.contains("β, mmol/(L·pH)"));
-        assert!(svg.contains("buffer capacity β"));
-        assert!(polylines(&svg, CAPACITY) >= 1);
-        assert!(has_text_starting(&svg, "pK₂ 7."));
-        assert!(svg.contains("working pH 7.40 (β = "));
-    }
-
-    #[test]
-    fn titration_svg() {
-        let d = recipe_data();
-        let svg = svg_of(|a| {
-            let _ = draw_titration(a, &d, Some(10.0), 1.0);
-        });
-        assert!(svg.contains("HCl added"));
-        assert!(has_text(&svg, "pH"));
-        assert_eq!(polylines(&svg, TITRATION), 1);
-        assert!(has_text_starting(&svg, "pK₂ 7."));
-        assert!(svg.contains("start: nothing added, pH 7.40"));
-    }
-
-    #[test]
-    fn scale_multiplies_fonts_and_widths() {
-        let d = recipe_data();
-        let at = |scale: f64| {
-            let mut out = String::new();
-            {
-                let w = (720.0 * scale) as u32;
-                let h = (420.0 * scale) as u32;
-                let root = SVGBackend::with_string(&mut out, (w, h)).into_drawing_area();
-                let _ = draw_species(&root, &d, Quantity::Fraction, None, scale);
-            }
-            out
-        };
-        let one = at(1.0);
-        let two = at(2.0);
-        let size = |svg: &str| {
-            svg.split("font-size=\"")
-                .nth(1)
-                .and_then(|r| r.split('"').next())
-                .and_then(|v| v.parse::<f64>().ok())
-                .unwrap_or(0.0)
-        };
-        assert!((size(&two) - 2.0 * size(&one)).abs() < 1e-6);
-        assert!(two.contains("stroke-width=\"4\""), "2× curve width");
-        assert_eq!(polylines(&two, species_color(0)), 1);
-    }
-
-    #[test]
-    fn several_systems_get_labelled_entries_and_per_system_pks() {
-        use solver::mixture::{ComponentSpec, MixtureSpec};
-        let comp = |system: &str, conc_m: f64| ComponentSpec {
-            system: system.into(),
-            form: None,
-            conc_m,
-        };
-        let src = super::super::data::Source {
-            kind: solver::design::PlotSource::Mixture,
-            mixture: MixtureSpec {
-                temperature_c: 25.0,
-                activity: solver::activity::ActivityModel::Davies,
-                components: vec![comp("citrate", 0.02), comp("acetate", 0.03)],
-                additives: vec![],
-            },
-            custom: vec![],
-        };
-        let d = super::super::data::compute(&src).unwrap_or_else(|e| unreachable!("{e}"));
-        assert_eq!(d.series.len(), 6);
-        let svg = svg_of(|a| {
-            let _ = draw_species(a, &d, Quantity::Fraction, None, 1.0);
-        });
-        for ser in &d.series {
-            assert!(has_text(&svg, &d.label(ser)), "legend {}", d.label(ser));
-        }
-        assert!(has_text(&svg, "CH₃COOH (Acetate)"));
-        assert!(has_text_starting(&svg, "pKa Citrate (25 °C, I = 0): 3."));
-        assert!(has_text_starting(&svg, "pKa Acetate (25 °C, I = 0): 4.7"));
-        // First system solid (one path per species), second dashed (many short paths).
-        assert_eq!(polylines(&svg, species_color(0)), 1);
-        assert!(
-            svg.matches(&format!("stroke=\"{}\"", hex(species_color(4))))
-                .count()
-                > 5
-        );
-    }
-
-    #[test]
-    fn clip_top_cuts_runs() {
-        let xs = [0.0, 1.0, 2.0, 3.0, 4.0];
-        let ys = [5.0, 1.0, 1.0, 5.0, 1.0];
-        let runs = clip_top(&xs, &ys, 2.0);
-        assert_eq!(runs.len(), 2);
-        let first = runs.first().cloned().unwrap_or_default();
-        assert_eq!(first.first().copied(), Some((0.75, 2.0)));
-        assert_eq!(first.last().copied(), Some((2.25, 2.0)));
-    }
-
-    fn luminance(c: RGBColor) -> f64 {
-        let ch = |v: u8| {
-            let s = f64::from(v) / 255.0;
-            if s <= 0.040_45 {
-                s / 12.92
-            } else {
-                ((s + 0.055) / 1.055).powf(2.4)
-            }
-        };
-        0.2126 * ch(c.0) + 0.7152 * ch(c.1) + 0.0722 * ch(c.2)
-    }
-
-    #[test]
-    fn palette_contrast_on_white_is_at_least_3_to_1() {
-        for c in PALETTE
-            .iter()
-            .chain([INK, MUTED, CAPACITY, TITRATION].iter())
-        {
-            let ratio = 1.05 / (luminance(*c) + 0.05);
-            assert!(ratio >= 3.0, "{c:?}: {ratio:.2}");
-        }
-    }
-
-    #[test]
-    fn summaries_name_the_numbers() {
-        let d = recipe_data();
-        assert!(species_summary(&d).contains("working pH 7.40"));
-        assert!(capacity_summary(&d).contains("β = "));
-        assert!(titration_summary(&d).contains("mmol/L HCl"));
-        assert_eq!(tick(0.5), "0.5");
-        assert_eq!(tick(10.0), "10");
-        assert_eq!(subscript(12), "₁₂");
-    }
-}
+mod tests;

@@ -5,7 +5,7 @@
 //! schema versions, then checks every field and names the first bad one.
 
 use crate::activity::ActivityModel;
-use crate::error::{in_range, Result, SolverError};
+use crate::error::{clip, in_range, shorten_quoted, Result, SolverError, QUOTE_MAX};
 use crate::field::{field_reading, FieldResult, FieldSpec, IonicSource, TotalUnit};
 use crate::library::find_form;
 use crate::mixture::{
@@ -49,6 +49,7 @@ pub enum PlotSource {
 
 /// One saved design: every input of every workspace.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct Design {
     /// Schema version; always [`SCHEMA_VERSION`] after parsing.
     pub schema: u32,
@@ -130,12 +131,86 @@ pub fn parse_design(text: &str) -> Result<Design> {
     let value: serde_json::Value = serde_json::from_str(text)
         .map_err(|e| doc_err("document", format!("not valid JSON: {e}")))?;
     let value = migrate(value)?;
-    let design: Design = serde_path_to_error::deserialize(value).map_err(|e| {
+    let design: Design = serde_path_to_error::deserialize(&value).map_err(|e| {
         let path = e.path().to_string();
-        doc_err(&path, e.into_inner().to_string())
+        serde_err(&path, &e.into_inner().to_string())
     })?;
+    let back = serde_json::to_value(&design).unwrap_or(serde_json::Value::Null);
+    if let Some(field) = extra_tagged_key(&value, &back, "") {
+        return Err(doc_err(
+            &field,
+            "unknown field (this kind takes no such key; check the spelling)",
+        ));
+    }
     validate_design(&design)?;
     Ok(design)
+}
+
+/// A serde error as a field-named [`SolverError::Document`]: an unknown key
+/// joins the path (`recipe.prepare_temprature_c: unknown field ...`), and a
+/// quoted bad value is cut short.
+fn serde_err(path: &str, msg: &str) -> SolverError {
+    if let Some((key, expected)) = msg
+        .strip_prefix("unknown field `")
+        .and_then(|rest| rest.split_once('`'))
+    {
+        // The path may already end with the key (plain structs) or stop at
+        // the enclosing object (internally tagged enums).
+        let parent = path
+            .strip_suffix(key)
+            .map(|p| p.trim_end_matches('.'))
+            .unwrap_or(path);
+        let key = clip(key, QUOTE_MAX);
+        let field = if parent.is_empty() || parent == "." {
+            key
+        } else {
+            format!("{parent}.{key}")
+        };
+        let expected = expected.trim_start_matches([',', ' ']);
+        let reason = if expected.is_empty() {
+            "unknown field (check the spelling)".to_string()
+        } else {
+            format!("unknown field ({expected}; check the spelling)")
+        };
+        return doc_err(&field, reason);
+    }
+    doc_err(path, shorten_quoted(msg))
+}
+
+/// A key of an internally tagged object (one with a `kind`) that the parsed
+/// design does not carry. Serde's `deny_unknown_fields` does not reach the
+/// unit variants of such enums (`{"kind": "zero", "us_cm": 3}` would pass),
+/// so the document is compared with the design read from it.
+fn extra_tagged_key(
+    input: &serde_json::Value,
+    parsed: &serde_json::Value,
+    path: &str,
+) -> Option<String> {
+    use serde_json::Value;
+    let join = |key: &str| {
+        if path.is_empty() {
+            clip(key, QUOTE_MAX)
+        } else {
+            format!("{path}.{}", clip(key, QUOTE_MAX))
+        }
+    };
+    match (input, parsed) {
+        (Value::Object(a), Value::Object(b)) => {
+            if a.contains_key("kind") {
+                if let Some(k) = a.keys().find(|k| !b.contains_key(k.as_str())) {
+                    return Some(join(k));
+                }
+            }
+            a.iter()
+                .find_map(|(k, va)| b.get(k).and_then(|vb| extra_tagged_key(va, vb, &join(k))))
+        }
+        (Value::Array(a), Value::Array(b)) => a
+            .iter()
+            .zip(b)
+            .enumerate()
+            .find_map(|(i, (va, vb))| extra_tagged_key(va, vb, &format!("{path}[{i}]"))),
+        _ => None,
+    }
 }
 
 fn prefixed(prefix: &str, e: SolverError) -> SolverError {
@@ -158,6 +233,10 @@ fn prefixed(prefix: &str, e: SolverError) -> SolverError {
             max,
         },
         SolverError::Infeasible { field, reason } => SolverError::Infeasible {
+            field: p(field),
+            reason,
+        },
+        SolverError::Document { field, reason } => SolverError::Document {
             field: p(field),
             reason,
         },

@@ -15,7 +15,7 @@
 
 use crate::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{solve, solve_addition, Equilibrium};
-use crate::error::{in_range, non_negative, Result, SolverError};
+use crate::error::{clip, in_range, non_negative, Result, SolverError, QUOTE_MAX};
 use crate::formula::molar_mass;
 use crate::library::{counter_charge, find_form};
 use crate::mixture::{
@@ -28,6 +28,7 @@ use serde::{Deserialize, Serialize};
 /// How the buffer is made.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(tag = "kind", rename_all = "snake_case")]
+#[serde(deny_unknown_fields)]
 pub enum Method {
     /// Weigh two forms of the same system (for example NaH₂PO₄·H₂O and Na₂HPO₄·7H₂O).
     TwoForms {
@@ -60,6 +61,7 @@ pub enum Method {
 
 /// Everything the technician enters for a recipe.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct RecipeSpec {
     /// System id.
     pub system: String,
@@ -269,7 +271,7 @@ pub fn suggest_pair(
             field: "method".into(),
             reason: format!(
                 "no shelf forms for both sides of step {k} of {}; choose the forms by hand",
-                sys.name
+                clip(&sys.name, QUOTE_MAX)
             ),
         }),
     }

@@ -85,6 +85,8 @@ pub fn bench_engine() -> String {
             base_form: "na2hpo4_7h2o".into(),
         },
         tolerance_ph: 0.05,
+        prepare_temperature_c: None,
+        concentrate_factor: 1.0,
     };
     let recipe_us = time_us(2_000, || solve_recipe(&recipe, &[]).is_ok());
     format!(

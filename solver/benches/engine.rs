@@ -59,6 +59,8 @@ fn benches(cr: &mut Criterion) {
             base_form: "na2hpo4_7h2o".into(),
         },
         tolerance_ph: 0.05,
+        prepare_temperature_c: None,
+        concentrate_factor: 1.0,
     };
     cr.bench_function("recipe: two forms, exact + HH + tolerance", |b| {
         b.iter(|| solve_recipe(black_box(&recipe), &[]).unwrap())

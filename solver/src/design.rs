@@ -266,6 +266,16 @@ pub fn validate_design(d: &Design) -> Result<()> {
     in_range("total_conc_m", r.total_conc_m, 0.0, 5.0).map_err(rp)?;
     in_range("volume_l", r.volume_l, 0.0, 1000.0).map_err(rp)?;
     in_range("tolerance_ph", r.tolerance_ph, 0.0, 2.0).map_err(rp)?;
+    if let Some(t) = r.prepare_temperature_c {
+        in_range("prepare_temperature_c", t, sys.t_min_c, sys.t_max_c).map_err(rp)?;
+    }
+    in_range(
+        "concentrate_factor",
+        r.concentrate_factor,
+        1.0,
+        crate::recipe::CONCENTRATE_FACTOR_MAX,
+    )
+    .map_err(rp)?;
     if let Some(s) = &r.salt {
         in_range("salt.conc_m", s.conc_m, 0.0, 5.0).map_err(rp)?;
     }
@@ -376,6 +386,8 @@ pub fn demo_design() -> Design {
                 base_form: "na2hpo4_7h2o".into(),
             },
             tolerance_ph: 0.05,
+            prepare_temperature_c: None,
+            concentrate_factor: 1.0,
         },
         mixture: MixtureSpec {
             temperature_c: 20.0,

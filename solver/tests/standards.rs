@@ -140,6 +140,8 @@ fn recipe(method: Method, system: &str, target: f64, t: f64) -> RecipeSpec {
         activity: ActivityModel::Davies,
         method,
         tolerance_ph: 0.05,
+        prepare_temperature_c: None,
+        concentrate_factor: 1.0,
     }
 }
 

@@ -35,8 +35,15 @@ self.addEventListener('fetch', (event) => {
   if (request.method !== 'GET') return;
   const url = new URL(request.url);
   if (url.origin !== self.location.origin) return;
-  // Navigations (index.html?embed=1&ws=... etc.) are answered by the cached shell.
-  const key = request.mode === 'navigate' ? new URL('./', self.registration.scope).href : request;
+  // Only navigations to the app's own page (the folder URL or index.html, with any query or
+  // fragment) are answered by the cached shell. Every other navigation (a sibling page such as
+  // embed-example.html, a documentation page, a mistyped address) goes to the network as usual.
+  const scope = new URL('./', self.registration.scope);
+  if (request.mode === 'navigate') {
+    const appPage = url.pathname === scope.pathname || url.pathname === `${scope.pathname}index.html`;
+    if (!appPage) return;
+  }
+  const key = request.mode === 'navigate' ? scope.href : request;
   event.respondWith(
     caches.open(CACHE_NAME).then((cache) =>
       cache.match(key, { ignoreSearch: request.mode === 'navigate' }).then(

@@ -131,42 +131,149 @@ pub const TDS: Rule = Rule {
     range_msg: "At most 100 000 mg/L.",
 };
 
+/// At most this many characters of a bad value are quoted back in a message.
+pub const QUOTE_CHARS: usize = 60;
+
+/// Quote a user's text in a message: at most [`QUOTE_CHARS`] characters, with
+/// an ellipsis when cut, so a pasted novel never becomes a novel-sized message.
+pub fn quote(text: &str) -> String {
+    let t = text.trim();
+    if t.chars().count() <= QUOTE_CHARS {
+        format!("“{t}”")
+    } else {
+        let cut: String = t.chars().take(QUOTE_CHARS).collect();
+        format!("“{cut}…”")
+    }
+}
+
 /// Parse a typed number: trims, accepts a comma or a point as the decimal mark
 /// and a typographic minus; refuses empty text, words and non-finite values.
+///
+/// Same as [`parse_number_in`] with no decimal comma seen elsewhere.
 ///
 /// # Errors
 ///
 /// A message for the field.
 pub fn parse_number(text: &str) -> Result<f64, String> {
+    parse_number_in(text, false)
+}
+
+/// Whether `text` uses a comma as its decimal mark (`7,4`, `0,15`), so that
+/// the rest of the entry can be read in that convention.
+pub fn uses_decimal_comma(text: &str) -> bool {
+    let t = text.trim();
+    t.contains(',') && !t.contains('.') && parse_number_in(t, true).is_ok()
+}
+
+/// Digits before and after a single separator, when `t` is `[-+]digits SEP digits`.
+fn split_once_digits(t: &str, sep: char) -> Option<(&str, &str)> {
+    let body = t.strip_prefix(['-', '+']).unwrap_or(t);
+    let (a, b) = body.split_once(sep)?;
+    let digits = |s: &str| !s.is_empty() && s.chars().all(|c| c.is_ascii_digit());
+    (digits(a) && digits(b)).then_some((a, b))
+}
+
+/// `1,000` (or, where a comma is the decimal mark elsewhere in the entry,
+/// `1.000`) could be a thousands separator or a decimal mark: the two readings
+/// differ by a factor of 1,000, so neither is guessed.
+fn ambiguous_grouping(t: &str, sep: char) -> Option<String> {
+    let (int, frac) = split_once_digits(t, sep)?;
+    let grouped = frac.len() == 3 && int.len() <= 3 && !int.starts_with('0');
+    if !grouped {
+        return None;
+    }
+    let sign = if t.starts_with('-') { "-" } else { "" };
+    let whole = format!("{sign}{int}{frac}");
+    let decimal = trim_zeros(&format!("{sign}{int}.{frac}"));
+    let decimal = if decimal.contains('.') {
+        decimal
+    } else {
+        format!("{decimal}.0")
+    };
+    Some(format!(
+        "“{t}” could be {whole} or {decimal}: type {whole} without a separator, or {decimal} with a point."
+    ))
+}
+
+/// Parse a typed number as [`parse_number`] does. `comma_decimal_elsewhere`
+/// says a decimal comma was used in another field of this entry: then `1.000`
+/// is as ambiguous as `1,000` and is refused too.
+///
+/// # Errors
+///
+/// A message for the field; an ambiguous `1,000` offers both readings.
+pub fn parse_number_in(text: &str, comma_decimal_elsewhere: bool) -> Result<f64, String> {
     let t = text.trim().replace('\u{2212}', "-");
     if t.is_empty() {
         return Err("Enter a value.".into());
     }
     if t.contains(',') && t.contains('.') {
-        return Err("Use one decimal mark: a comma or a point, not both.".into());
+        return Err(format!(
+            "{}: use one decimal mark, a comma or a point, and no thousands separators.",
+            quote(&t)
+        ));
     }
-    if t.matches(',').count() > 1 {
-        return Err(format!("“{}” is not a number.", text.trim()));
+    if t.matches(',').count() > 1 || t.matches('.').count() > 1 {
+        let body = t.strip_prefix('-').unwrap_or(&t);
+        let groups: Vec<&str> = body.split([',', '.']).collect();
+        let digits = |g: &str| !g.is_empty() && g.chars().all(|c| c.is_ascii_digit());
+        let looks_grouped = groups.iter().all(|g| digits(g))
+            && groups.iter().skip(1).all(|g| g.len() == 3)
+            && groups.first().is_some_and(|g| g.len() <= 3);
+        if looks_grouped {
+            let sign = if t.starts_with('-') { "-" } else { "" };
+            return Err(format!(
+                "{} is not a number: type {sign}{} without separators if that is what you mean.",
+                quote(&t),
+                groups.concat()
+            ));
+        }
+        return Err(format!("{} is not a number.", quote(&t)));
+    }
+    if t.chars().any(char::is_whitespace) {
+        let joined: String = t.chars().filter(|c| !c.is_whitespace()).collect();
+        return Err(format!(
+            "{} has a space in it: type {} if that is what you mean.",
+            quote(&t),
+            quote(&joined)
+        ));
+    }
+    if let Some(msg) = ambiguous_grouping(&t, ',') {
+        return Err(msg);
+    }
+    if comma_decimal_elsewhere {
+        if let Some(msg) = ambiguous_grouping(&t, '.') {
+            return Err(msg);
+        }
     }
     let t = t.replace(',', ".");
     let allowed = |c: char| c.is_ascii_digit() || matches!(c, '.' | '-' | '+' | 'e' | 'E');
     if !t.chars().all(allowed) || !t.chars().any(|c| c.is_ascii_digit()) {
-        return Err(format!("“{}” is not a number.", text.trim()));
+        return Err(format!("{} is not a number.", quote(text)));
     }
     match t.parse::<f64>() {
         Ok(v) if v.is_finite() => Ok(if v == 0.0 { 0.0 } else { v }),
-        _ => Err(format!("“{}” is not a number.", text.trim())),
+        _ => Err(format!("{} is not a number.", quote(text))),
     }
 }
 
-/// Parse typed text in a unit with `factor` and check it against `rule`.
-/// Returns the value in the base unit.
+/// Check typed text against a rule; `factor` converts the typed unit to the base unit.
 ///
 /// # Errors
 ///
-/// A message for the field: empty, not a number, negative or out of range.
+/// A message for the field.
 pub fn check(text: &str, rule: Rule, factor: f64) -> Result<f64, String> {
-    let v = parse_number(text)?;
+    check_in(text, rule, factor, false)
+}
+
+/// [`check`], reading `1.000` as ambiguous when a decimal comma was used
+/// elsewhere in the entry (see [`parse_number_in`]).
+///
+/// # Errors
+///
+/// A message for the field.
+pub fn check_in(text: &str, rule: Rule, factor: f64, comma_elsewhere: bool) -> Result<f64, String> {
+    let v = parse_number_in(text, comma_elsewhere)?;
     if v < 0.0 {
         return Err("Must not be negative.".into());
     }
@@ -432,6 +539,47 @@ mod tests {
         assert!(parse_number("-").is_err());
         assert!(parse_number("e").is_err());
         assert!(parse_number("7 4").is_err());
+    }
+
+    #[test]
+    fn a_thousands_comma_is_refused_with_both_readings() {
+        let m = parse_number("1,000").unwrap_err();
+        assert!(m.contains("1000") && m.contains("1.0"), "{m}");
+        let m = parse_number("12,500").unwrap_err();
+        assert!(m.contains("12500") && m.contains("12.5"), "{m}");
+        assert!(parse_number("-1,000").unwrap_err().contains("-1000"));
+        // Unambiguous decimal commas keep working.
+        assert_eq!(parse_number("7,4"), Ok(7.4));
+        assert_eq!(parse_number("0,15"), Ok(0.15));
+        assert_eq!(
+            parse_number("0,150"),
+            Ok(0.15),
+            "no thousands group starts with 0"
+        );
+        assert_eq!(parse_number("1,0"), Ok(1.0));
+        assert_eq!(parse_number("1234,5"), Ok(1234.5));
+        // A point is a decimal point, unless a comma was the decimal mark elsewhere.
+        assert_eq!(parse_number("1.000"), Ok(1.0));
+        let m = parse_number_in("1.000", true).unwrap_err();
+        assert!(m.contains("1000") && m.contains("1.0"), "{m}");
+        assert_eq!(parse_number_in("7.4", true), Ok(7.4));
+        assert!(uses_decimal_comma("7,4"));
+        assert!(!uses_decimal_comma("1,000"));
+        assert!(!uses_decimal_comma("7.4"));
+        // Several groups, spaces.
+        let m = parse_number("1,000,000").unwrap_err();
+        assert!(m.contains("1000000"), "{m}");
+        let m = parse_number("1 000").unwrap_err();
+        assert!(m.contains("“1000”"), "{m}");
+    }
+
+    #[test]
+    fn long_bad_values_are_quoted_short() {
+        let long = "x".repeat(10_000);
+        let m = parse_number(&long).unwrap_err();
+        assert!(m.chars().count() < 120, "{} chars", m.chars().count());
+        assert!(m.contains('…'));
+        assert_eq!(quote("abc"), "“abc”");
     }
 
     #[test]

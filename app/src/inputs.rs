@@ -6,7 +6,7 @@
 //! (`AppState::load` bumps `revision`), the typed text is forgotten and the
 //! field shows the design's value again.
 
-use crate::format::{best_unit, check, fmt_input, Rule, Unit};
+use crate::format::{best_unit, check_in, fmt_input, uses_decimal_comma, Rule, Unit};
 use crate::state::use_app;
 use leptos::prelude::*;
 use solver::library::library;
@@ -46,18 +46,26 @@ pub fn NumberField(
     /// Short help under the label.
     #[prop(optional, into)]
     hint: Option<String>,
+    /// Receives the value when the user is done with the field (leaves it or
+    /// presses Enter) and the text is valid: for consequences that must not
+    /// follow every passing keystroke.
+    #[prop(optional, into)]
+    on_commit: Option<Callback<f64>>,
 ) -> impl IntoView {
     let app = use_app();
     let rev = app.revision;
     let unit = RwSignal::new(best_unit(units, value.get_untracked()));
     let factor = move |i: usize| units.get(i).map_or(1.0, |u| u.factor);
     // Text typed by the user, tagged with the revision it was typed against.
-    let typed: RwSignal<Option<(u64, String)>> = RwSignal::new(None);
+    // Text typed before a tab switch comes back from the page state.
+    let typed: RwSignal<Option<(u64, String)>> =
+        RwSignal::new(app.take_parked(&id).map(|t| (rev.get_untracked(), t)));
     let text = Memo::new(move |_| match typed.get() {
         Some((r, t)) if r == rev.get() => t,
         _ => fmt_input(value.get() / factor(unit.get())),
     });
-    let parsed = Memo::new(move |_| check(&text.get(), rule, factor(unit.get())));
+    let comma = app.decimal_comma;
+    let parsed = Memo::new(move |_| check_in(&text.get(), rule, factor(unit.get()), comma.get()));
     let message = move || match parsed.get() {
         Err(m) => Some(m),
         Ok(_) => error.and_then(|e| e.get()),
@@ -68,7 +76,10 @@ pub fn NumberField(
     let accept = {
         let id = id.clone();
         move |t: String, i: usize| {
-            let result = check(&t, rule, factor(i));
+            if uses_decimal_comma(&t) && !comma.get_untracked() {
+                comma.set(true);
+            }
+            let result = check_in(&t, rule, factor(i), comma.get_untracked());
             typed.set(Some((rev.get_untracked(), t)));
             app.mark_field(&id, result.is_ok());
             if let Ok(v) = result {
@@ -80,15 +91,43 @@ pub fn NumberField(
         let accept = accept.clone();
         move |ev: leptos::ev::Event| accept(event_target_value(&ev), unit.get_untracked())
     };
-    let on_unit = move |ev: leptos::ev::Event| {
-        let i: usize = event_target_value(&ev).parse().unwrap_or(0);
-        unit.set(i);
-        accept(text.get_untracked(), i);
+    let on_change = move |_ev: leptos::ev::Event| {
+        if let (Some(cb), Ok(v)) = (on_commit, parsed.get_untracked()) {
+            cb.run(v);
+        }
+    };
+    // One rule for every unit picker: picking a unit converts the quantity on
+    // screen (500 mL -> 0.5 L), whether it was typed or not; the amount never
+    // changes by picking a unit. Text that is not a number yet stays as typed.
+    let on_unit = {
+        let accept = accept.clone();
+        move |ev: leptos::ev::Event| {
+            let i: usize = event_target_value(&ev).parse().unwrap_or(0);
+            let old = unit.get_untracked();
+            let current = text.get_untracked();
+            let shown = check_in(&current, rule, factor(old), comma.get_untracked());
+            unit.set(i);
+            match shown {
+                Ok(base) => {
+                    typed.set(None);
+                    accept(fmt_input(base / factor(i)), i);
+                }
+                Err(_) => accept(current, i),
+            }
+        }
     };
     {
-        // A field that goes away (tab switch, row removed) takes its typed text with it.
+        // A field that goes away takes its typed text with it, unless only
+        // its tab went off screen: then the text is parked for its return.
         let id = id.clone();
-        on_cleanup(move || app.mark_field(&id, true));
+        on_cleanup(move || {
+            let t = typed
+                .try_get_untracked()
+                .flatten()
+                .filter(|(r, _)| rev.try_get_untracked() == Some(*r))
+                .map(|(_, t)| t);
+            app.field_gone(&id, t);
+        });
     }
 
     let msg_id = format!("error-{id}");
@@ -146,6 +185,7 @@ pub fn NumberField(
                     aria-describedby=described
                     disabled=readonly
                     on:input=on_input
+                    on:change=on_change
                 />
                 {unit_picker}
                 {suffix_view}

@@ -336,6 +336,7 @@ where
                     data-testid=format!("mixture-comp-{i}-remove")
                     disabled=readonly
                     on:click=move |_| {
+                        app.rows_removed("mixture-comp-", i);
                         design.update(|d| {
                             if i < d.mixture.components.len() {
                                 d.mixture.components.remove(i);
@@ -413,6 +414,7 @@ where
                     data-testid=format!("mixture-add-{i}-remove")
                     disabled=readonly
                     on:click=move |_| {
+                        app.rows_removed("mixture-add-", i);
                         design.update(|d| {
                             if i < d.mixture.additives.len() {
                                 d.mixture.additives.remove(i);

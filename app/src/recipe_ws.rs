@@ -92,8 +92,8 @@ fn suggested_levels(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<(f64, f6
 }
 
 /// Whether the forms in `spec` sit on the levels the solver suggests for the
-/// target (any hydrate or salt of those levels counts): if not, they were
-/// picked by hand.
+/// target (any hydrate or salt of those levels counts). Decides, when a
+/// design is opened, whether its forms follow the target or were picked by hand.
 pub fn follows_suggestion(spec: &RecipeSpec, custom: &[AcidSystem]) -> bool {
     match (suggested_levels(spec, custom), current_levels(spec, custom)) {
         (Some(s), Some(c)) => (s.0 - c.0).abs() < 1e-9 && (s.1 - c.1).abs() < 1e-9,
@@ -128,14 +128,103 @@ pub fn apply_suggestion(spec: &mut RecipeSpec, custom: &[AcidSystem]) {
     }
 }
 
-/// Change the recipe with `f`; if the forms followed the suggestion before,
-/// they follow it afterwards too.
-pub fn edit_recipe(spec: &mut RecipeSpec, custom: &[AcidSystem], f: impl FnOnce(&mut RecipeSpec)) {
-    let auto = follows_suggestion(spec, custom);
-    f(spec);
-    if auto && !follows_suggestion(spec, custom) {
-        apply_suggestion(spec, custom);
+/// The form ids of a method, in slot order (acid side, base side; or the one weighed form).
+pub fn method_forms(m: &Method) -> Vec<String> {
+    match m {
+        Method::TwoForms {
+            acid_form,
+            base_form,
+        }
+        | Method::TwoStocks {
+            acid_form,
+            base_form,
+            ..
+        } => vec![acid_form.clone(), base_form.clone()],
+        Method::Titrate { form, .. } => vec![form.clone()],
     }
+}
+
+/// The method's forms as people read them: `NaH₂PO₄·H₂O + Na₂HPO₄·7H₂O`.
+pub fn forms_text(m: &Method, system: &str, custom: &[AcidSystem]) -> String {
+    let sys = lookup(system, custom).ok();
+    method_forms(m)
+        .iter()
+        .map(|id| {
+            sys.and_then(|s| find_form(s, id))
+                .map_or_else(|| id.clone(), |f| pretty_formula(&f.formula))
+        })
+        .collect::<Vec<_>>()
+        .join(" + ")
+}
+
+/// The forms to move to when the target (or the temperature) now sits at
+/// another pK than the forms in `spec`; `None` when they already bracket it.
+///
+/// The user's choices are kept where the system allows: a current form that
+/// sits on one of the new levels stays, and a new form is the one with the
+/// same counter-ions (Na⁺ or K⁺) and the same hydrate-or-not as the form it
+/// replaces.
+pub fn retarget(spec: &RecipeSpec, custom: &[AcidSystem]) -> Option<Method> {
+    let want = suggested_levels(spec, custom)?;
+    let have = current_levels(spec, custom)?;
+    if (want.0 - have.0).abs() < 1e-9 && (want.1 - have.1).abs() < 1e-9 {
+        return None;
+    }
+    let sys = lookup(&spec.system, custom).ok()?;
+    let current = method_forms(&spec.method);
+    let ions = |id: &str| -> Vec<solver::system::Ion> {
+        find_form(sys, id)
+            .map(|f| f.counter_ions.iter().map(|(ion, _)| *ion).collect())
+            .unwrap_or_default()
+    };
+    let hydrate = |formula: &str| formula.contains('·') || formula.contains('.');
+    let user_ions: Vec<solver::system::Ion> = current.iter().flat_map(|id| ions(id)).collect();
+    let pick = |level: f64, replaces: &str| -> Option<String> {
+        if let Some(kept) = current
+            .iter()
+            .find(|id| level_of(sys, id).is_some_and(|l| (l - level).abs() < 1e-9))
+        {
+            return Some(kept.clone());
+        }
+        let old = find_form(sys, replaces);
+        let old_hydrate = old.is_some_and(|f| hydrate(&f.formula));
+        sys.forms
+            .iter()
+            .enumerate()
+            .filter(|(_, f)| (form_level(sys, f) - level).abs() < 1e-9)
+            .max_by_key(|(i, f)| {
+                let own: Vec<_> = f.counter_ions.iter().map(|(ion, _)| *ion).collect();
+                let same_ions = !own.is_empty() && own.iter().all(|ion| user_ions.contains(ion));
+                let same_hydrate = hydrate(&f.formula) == old_hydrate;
+                // Highest score wins; on a tie the first listed form.
+                (
+                    u8::from(same_ions) * 2 + u8::from(same_hydrate),
+                    std::cmp::Reverse(*i),
+                )
+            })
+            .map(|(_, f)| f.id.clone())
+    };
+    let mut m = spec.method.clone();
+    match &mut m {
+        Method::TwoForms {
+            acid_form,
+            base_form,
+        }
+        | Method::TwoStocks {
+            acid_form,
+            base_form,
+            ..
+        } => {
+            let a = pick(want.0, acid_form)?;
+            let b = pick(want.1, base_form)?;
+            *acid_form = a;
+            *base_form = b;
+        }
+        Method::Titrate { form, .. } => {
+            *form = pick(want.0, form)?;
+        }
+    }
+    Some(m)
 }
 
 /// A new method of kind `key`, with the suggested forms.
@@ -168,6 +257,44 @@ pub fn amount_text(i: &Ingredient) -> String {
         (None, Some(ml)) => format_volume_ml(ml),
         _ => "—".into(),
     }
+}
+
+/// Above these a bench recipe is probably a unit slip (common practice of
+/// the page, not chemistry): 20 L of final volume, 1 kg of one reagent, 2 M
+/// of buffer.
+pub const BENCH_VOLUME_L: f64 = 20.0;
+/// See [`BENCH_VOLUME_L`].
+pub const BENCH_MASS_G: f64 = 1000.0;
+/// See [`BENCH_VOLUME_L`].
+pub const BENCH_CONC_M: f64 = 2.0;
+
+/// "Check the unit" warnings for amounts that are implausible at a bench.
+pub fn bench_checks(spec: &RecipeSpec, ingredients: &[Ingredient]) -> Vec<String> {
+    let mut out = Vec::new();
+    if spec.volume_l > BENCH_VOLUME_L {
+        out.push(format!(
+            "Check the unit: a final volume of {} is more than a bench batch (over {} L).",
+            format_volume_ml(spec.volume_l * 1000.0),
+            fmt_input(BENCH_VOLUME_L)
+        ));
+    }
+    if spec.total_conc_m > BENCH_CONC_M {
+        out.push(format!(
+            "Check the unit: {} of buffer is unusually strong (over {} M).",
+            fmt_conc(spec.total_conc_m),
+            fmt_input(BENCH_CONC_M)
+        ));
+    }
+    for i in ingredients {
+        if i.grams.is_some_and(|g| g > BENCH_MASS_G) {
+            out.push(format!(
+                "Check the unit: {} of {} is more than 1 kg.",
+                amount_text(i),
+                pretty_formula(&i.formula)
+            ));
+        }
+    }
+    out
 }
 
 /// Plain-language text of a recipe warning.
@@ -302,15 +429,43 @@ pub fn RecipeWorkspace() -> impl IntoView {
     let result = Memo::new(move |_| spec.with(|s| custom.with(|c| solve_recipe(s, c))));
     let pending = Memo::new(move |_| !app.pending_in("recipe-").is_empty());
 
-    // Write to the recipe, keeping the suggested pair in step when it was followed.
-    let edit = move |f: Box<dyn FnOnce(&mut RecipeSpec)>| {
-        design.update(|d| {
-            let custom = d.custom_systems.clone();
-            edit_recipe(&mut d.recipe, &custom, f);
-        });
-    };
+    // Forms follow the target unless picked by hand; decided from the forms
+    // of a design when it is opened (see `follows_suggestion`).
+    let follow = app.forms_follow;
+    Effect::new(move |_| {
+        app.revision.track();
+        if follow.get_untracked().is_none() {
+            let auto = design.with_untracked(|d| follows_suggestion(&d.recipe, &d.custom_systems));
+            follow.set(Some(auto));
+        }
+    });
+    let notice: RwSignal<Option<FormsNotice>> = RwSignal::new(None);
     let set_raw = move |f: Box<dyn FnOnce(&mut RecipeSpec)>| {
         design.update(|d| f(&mut d.recipe));
+    };
+    // The user is done with the target or temperature (left the field, pressed
+    // Enter): if the forms follow the target and it now sits at another pK,
+    // move them, say so, and offer to undo. Never on a passing keystroke.
+    let commit = move |_: f64| {
+        if follow.get_untracked() == Some(false) {
+            return;
+        }
+        let (before, after) = design.with_untracked(|d| {
+            (
+                d.recipe.method.clone(),
+                retarget(&d.recipe, &d.custom_systems),
+            )
+        });
+        let Some(after) = after else { return };
+        let text = design.with_untracked(|d| {
+            format!(
+                "Forms changed for the new target: {} → {}.",
+                forms_text(&before, &d.recipe.system, &d.custom_systems),
+                forms_text(&after, &d.recipe.system, &d.custom_systems)
+            )
+        });
+        design.update(|d| d.recipe.method = after);
+        notice.set(Some(FormsNotice { before, text }));
     };
 
     let err_for = move |path: &'static str| -> Signal<Option<String>> {
@@ -328,6 +483,8 @@ pub fn RecipeWorkspace() -> impl IntoView {
             d.recipe.system = id;
             apply_suggestion(&mut d.recipe, &custom);
         });
+        follow.set(Some(true));
+        notice.set(None);
     });
 
     let temperature = Signal::derive(move || spec.with(|s| s.temperature_c));
@@ -346,7 +503,8 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     id="recipe-ph"
                     label="Target pH"
                     value=Signal::derive(move || spec.with(|s| s.target_ph))
-                    on_value=Callback::new(move |v| edit(Box::new(move |s: &mut RecipeSpec| s.target_ph = v)))
+                    on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.target_ph = v)))
+                    on_commit=Callback::new(commit)
                     rule=PH
                     error=err_for("target_ph")
                 />
@@ -354,7 +512,8 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     id="recipe-temp"
                     label="Working temperature"
                     value=temperature
-                    on_value=Callback::new(move |v| edit(Box::new(move |s: &mut RecipeSpec| s.temperature_c = v)))
+                    on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.temperature_c = v)))
+                    on_commit=Callback::new(commit)
                     rule=TEMPERATURE
                     suffix="°C"
                     error=err_for("temperature_c")
@@ -380,7 +539,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     error=err_for("volume_l")
                 />
             </div>
-            <MethodInputs spec=spec custom=custom result=result />
+            <MethodInputs spec=spec custom=custom result=result notice=notice />
             <details class="more">
                 <summary>"Salt, activity model and tolerance"</summary>
                 <SaltInputs spec=spec err=err_for("salt.conc_m") />
@@ -424,15 +583,121 @@ pub fn RecipeWorkspace() -> impl IntoView {
     }
 }
 
+/// A change of forms the page made, with what was there before (for undo).
+#[derive(Debug, Clone, PartialEq)]
+pub struct FormsNotice {
+    /// The method before the change.
+    pub before: Method,
+    /// What changed, in words.
+    pub text: String,
+}
+
+/// Whether the forms follow the target, what the page changed (with undo),
+/// and what would change when the target moved to another pK.
+#[component]
+fn FormsStatus(
+    spec: Memo<RecipeSpec>,
+    custom: Memo<Vec<AcidSystem>>,
+    notice: RwSignal<Option<FormsNotice>>,
+) -> impl IntoView {
+    let app = use_app();
+    let design = app.design;
+    let follow = app.forms_follow;
+    let readonly = move || app.view.with(|v| v.readonly);
+    let proposal = Memo::new(move |_| spec.with(|s| custom.with(|c| retarget(s, c))));
+    let proposal_text = move || {
+        proposal.get().map(|m| {
+            let text = spec.with(|s| custom.with(|c| forms_text(&m, &s.system, c)));
+            (m, text)
+        })
+    };
+    let undo = move |_| {
+        if let Some(n) = notice.get_untracked() {
+            design.update(|d| d.recipe.method = n.before);
+            follow.set(Some(false));
+            notice.set(None);
+        }
+    };
+    let use_proposal = move |_| {
+        if let Some((m, _)) = proposal_text() {
+            let before = spec.with_untracked(|s| s.method.clone());
+            let text = spec.with_untracked(|s| {
+                custom.with_untracked(|c| {
+                    format!(
+                        "Forms changed: {} → {}.",
+                        forms_text(&before, &s.system, c),
+                        forms_text(&m, &s.system, c)
+                    )
+                })
+            });
+            design.update(|d| d.recipe.method = m);
+            notice.set(Some(FormsNotice { before, text }));
+        }
+    };
+    view! {
+        {move || {
+            notice
+                .get()
+                .map(|n| {
+                    view! {
+                        <p class="notice" data-testid="recipe-forms-notice" role="status">
+                            {n.text}
+                            " "
+                            <button type="button" class="btn link" data-testid="recipe-forms-undo"
+                                disabled=readonly on:click=undo>
+                                "Undo"
+                            </button>
+                        </p>
+                    }
+                })
+        }}
+        {move || {
+            proposal_text()
+                .map(|(_, text)| {
+                    if follow.get() == Some(false) {
+                        view! {
+                            <p class="notice" data-testid="recipe-forms-offer" role="status">
+                                "The target sits at another pK than the forms you picked. "
+                                <button type="button" class="btn link" data-testid="recipe-forms-use"
+                                    disabled=readonly on:click=use_proposal>
+                                    {format!("Use {text}")}
+                                </button>
+                            </p>
+                        }
+                            .into_any()
+                    } else {
+                        view! {
+                            <p class="hint" data-testid="recipe-forms-offer">
+                                {format!("The target sits at another pK: when you leave the field, the forms change to {text}.")}
+                            </p>
+                        }
+                            .into_any()
+                    }
+                })
+        }}
+        <p class="hint">
+            {move || {
+                if follow.get() == Some(false) {
+                    "Forms picked by hand: they stay as they are when the target changes."
+                } else {
+                    "Forms follow the target: when you finish typing a target at another pK, the pair on either side of it is chosen for you, keeping your hydrate and counter-ion where the system has them."
+                }
+            }}
+        </p>
+    }
+}
+
 /// Method choice with its form pickers and stock strengths.
 #[component]
 fn MethodInputs(
     spec: Memo<RecipeSpec>,
     custom: Memo<Vec<AcidSystem>>,
     result: Memo<Result<RecipeResult, SolverError>>,
+    notice: RwSignal<Option<FormsNotice>>,
 ) -> impl IntoView {
     let app = use_app();
     let design = app.design;
+    let follow = app.forms_follow;
     let readonly = move || app.view.with(|v| v.readonly);
     let set_method =
         move |f: Box<dyn FnOnce(&mut Method)>| design.update(|d| f(&mut d.recipe.method));
@@ -483,6 +748,8 @@ fn MethodInputs(
         };
         let on_change = move |ev: leptos::ev::Event| {
             let v = event_target_value(&ev);
+            follow.set(Some(false));
+            notice.set(None);
             set_method(Box::new(move |m: &mut Method| match (m, which) {
                 (Method::TwoForms { acid_form, .. } | Method::TwoStocks { acid_form, .. }, 0) => {
                     *acid_form = v
@@ -570,12 +837,16 @@ fn MethodInputs(
                             _ => Additive::Naoh,
                         };
                         design.update(|d| {
-                            let custom = d.custom_systems.clone();
-                            edit_recipe(&mut d.recipe, &custom, |s| {
-                                if let Method::Titrate { titrant, .. } = &mut s.method {
-                                    *titrant = t;
+                            if let Method::Titrate { titrant, .. } = &mut d.recipe.method {
+                                *titrant = t;
+                            }
+                            // Acid form for a base titrant, base form for HCl: the
+                            // weighed form follows the titrant unless picked by hand.
+                            if follow.get_untracked() != Some(false) {
+                                if let Some(m) = retarget(&d.recipe, &d.custom_systems) {
+                                    d.recipe.method = m;
                                 }
-                            });
+                            }
                         });
                     }
                 >
@@ -610,7 +881,9 @@ fn MethodInputs(
                 design.update(|d| {
                     let custom = d.custom_systems.clone();
                     switch_method(&mut d.recipe, &custom, &k);
-                })
+                });
+                follow.set(Some(true));
+                notice.set(None);
             })
         />
         {move || match kind.get().as_str() {
@@ -641,15 +914,7 @@ fn MethodInputs(
                     .into_any()
             }
         }}
-        <p class="hint">
-            {move || {
-                if spec.with(|s| custom.with(|c| follows_suggestion(s, c))) {
-                    "Forms follow the target: when it moves to another pK, the pair on either side of it is chosen for you."
-                } else {
-                    "Forms picked by hand: they stay as they are when the target changes."
-                }
-            }}
-        </p>
+        <FormsStatus spec=spec custom=custom notice=notice />
         {move || {
             method_err
                 .get()
@@ -809,7 +1074,7 @@ fn RecipeResultView(
                 <p class="print-title">{move || app.design.with(|d| d.name.clone())}</p>
                 <p>"Printed " {today} " · Bufferwright recipe sheet"</p>
             </div>
-            <h2 class="card-title" id="recipe-result-title">
+            <h2 class="card-title" id="recipe-result-title" data-testid="recipe-headline">
                 {move || {
                     spec.with(|s| {
                         format!(
@@ -872,6 +1137,7 @@ fn RecipeResultView(
 fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
     let r = result;
     let eq = &r.equilibrium;
+    let checks = bench_checks(&spec, &r.ingredients);
     let mut notes: Vec<String> = r.warnings.iter().map(warning_text).collect();
     if eq.warnings.contains(&Warning::ExtremePh) {
         notes.push("Extreme pH: the model is rough this far from neutral.".into());
@@ -901,6 +1167,14 @@ fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
     let lo = spec.target_ph - r.tolerance.window;
     let hi = spec.target_ph + r.tolerance.window;
     view! {
+        {(!checks.is_empty())
+            .then(|| {
+                view! {
+                    <ul class="unit-checks" data-testid="recipe-unit-check" role="alert">
+                        {checks.into_iter().map(|n| view! { <li>{n}</li> }).collect_view()}
+                    </ul>
+                }
+            })}
         <div class="headline">
             <div class="big-number">
                 <span class="big-label">"Predicted pH"</span>
@@ -1025,33 +1299,99 @@ mod tests {
     fn demo_hydrates_count_as_following_the_suggestion() {
         let spec = demo_design().recipe;
         assert!(follows_suggestion(&spec, &[]));
+        assert_eq!(
+            retarget(&spec, &[]),
+            None,
+            "7.4 already sits between the demo's forms"
+        );
     }
 
     #[test]
-    fn moving_the_target_to_another_pk_moves_the_pair() {
+    fn moving_the_target_to_another_pk_keeps_hydrate_and_counter_ion() {
         let mut spec = demo_design().recipe;
-        edit_recipe(&mut spec, &[], |s| s.target_ph = 7.1);
+        spec.target_ph = 7.1;
+        assert_eq!(retarget(&spec, &[]), None, "same step: nothing to change");
+        spec.target_ph = 11.5;
+        spec.method = retarget(&spec, &[]).unwrap();
+        let (a, b) = forms(&spec);
         assert_eq!(
-            forms(&spec),
-            ("nah2po4_h2o".into(), "na2hpo4_7h2o".into()),
-            "same step: hydrates kept"
+            a, "na2hpo4_7h2o",
+            "the heptahydrate sits on the new acid side: kept"
         );
-        edit_recipe(&mut spec, &[], |s| s.target_ph = 11.5);
-        let want = suggest_pair("phosphate", 11.5, 37.0, &[]).unwrap();
-        assert_eq!(forms(&spec), want);
+        let sys = lookup("phosphate", &[]).unwrap();
+        let base = find_form(sys, &b).unwrap();
+        assert!(
+            base.formula.contains('·'),
+            "a hydrate replaces a hydrate: {}",
+            base.formula
+        );
+        assert!(base
+            .counter_ions
+            .iter()
+            .all(|(i, _)| *i == solver::system::Ion::Na));
         let r = solve_recipe(&spec, &[]);
         assert!(r.is_ok(), "{r:?}");
+        // Back to 7.4: the monohydrate-or-anhydrous choice follows the user's forms.
+        spec.target_ph = 7.4;
+        spec.method = retarget(&spec, &[]).unwrap();
+        assert_eq!(forms(&spec).1, "na2hpo4_7h2o");
     }
 
     #[test]
-    fn hand_picked_forms_stay() {
+    fn a_passing_keystroke_changes_nothing_by_itself() {
+        // The page moves forms only on commit; the design holding a transient
+        // target keeps the user's forms, and coming back proposes nothing.
+        let mut spec = demo_design().recipe;
+        let before = spec.method.clone();
+        spec.target_ph = 1.0;
+        assert!(retarget(&spec, &[]).is_some(), "pH 1 is at another pK");
+        assert_eq!(spec.method, before);
+        spec.target_ph = 7.4;
+        assert_eq!(retarget(&spec, &[]), None);
+        assert_eq!(spec.method, before);
+    }
+
+    #[test]
+    fn hand_picked_forms_are_detected_on_open() {
         let mut spec = demo_design().recipe;
         if let Method::TwoForms { base_form, .. } = &mut spec.method {
             *base_form = "na3po4_12h2o".into();
         }
         assert!(!follows_suggestion(&spec, &[]));
-        edit_recipe(&mut spec, &[], |s| s.target_ph = 6.5);
-        assert_eq!(forms(&spec).1, "na3po4_12h2o");
+    }
+
+    #[test]
+    fn implausible_bench_amounts_ask_to_check_the_unit() {
+        let mut spec = demo_design().recipe;
+        let r = solve_recipe(&spec, &[]).unwrap();
+        assert!(
+            bench_checks(&spec, &r.ingredients).is_empty(),
+            "the demo is a bench recipe"
+        );
+        spec.volume_l = 250.0; // "250" typed, then the unit switched to L
+        let r = solve_recipe(&spec, &[]).unwrap();
+        let checks = bench_checks(&spec, &r.ingredients);
+        assert!(
+            checks.iter().any(|c| c.contains("final volume")),
+            "{checks:?}"
+        );
+        assert!(
+            checks.iter().any(|c| c.contains("more than 1 kg")),
+            "{checks:?}"
+        );
+        spec.volume_l = 0.5;
+        spec.total_conc_m = 2.5;
+        assert!(bench_checks(&spec, &[])
+            .iter()
+            .any(|c| c.contains("unusually strong")));
+    }
+
+    #[test]
+    fn forms_read_as_formulas() {
+        let spec = demo_design().recipe;
+        let t = forms_text(&spec.method, &spec.system, &[]);
+        assert!(t.contains(" + "), "{t}");
+        assert!(t.contains('·'), "{t}");
     }
 
     #[test]

@@ -1,8 +1,8 @@
 //! Shared page state: the current design (single source of truth for inputs) and view options.
 
 use leptos::prelude::*;
-use solver::design::{demo_design, Design};
-use std::collections::BTreeSet;
+use solver::design::{demo_design, Design, Workspace};
+use std::collections::{BTreeMap, BTreeSet};
 
 /// How the page is shown (from URL parameters).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -31,6 +31,46 @@ pub struct AppState {
     /// design still holds their last valid value, so results that depend on
     /// them are stale and the workspaces say so instead of showing numbers).
     pub pending: RwSignal<BTreeSet<String>>,
+    /// Text typed into fields of a workspace that is not on screen (tab
+    /// switch), by field id: it comes back when the tab does, and while it is
+    /// invalid the field stays in `pending`, so nothing is silently restored.
+    pub parked: RwSignal<BTreeMap<String, String>>,
+    /// A decimal comma (`7,4`) was typed somewhere in this entry: `1.000` is
+    /// then as ambiguous as `1,000`.
+    pub decimal_comma: RwSignal<bool>,
+    /// A row removal in progress: (field id prefix, removed row), see
+    /// [`AppState::rows_removed`].
+    pub row_shift: StoredValue<Option<(String, usize)>>,
+    /// Whether the recipe's forms follow the target (`Some(true)`) or were
+    /// picked by hand (`Some(false)`); `None` right after a design is loaded,
+    /// until the recipe workspace decides from the loaded forms.
+    pub forms_follow: RwSignal<Option<bool>>,
+}
+
+/// Where the field `id` of row `n` goes when row `removed` of the list with
+/// this `prefix` is removed: `None` when `id` is not in that list,
+/// `Some(None)` when it was in the removed row, else its new id.
+pub fn shifted_id(id: &str, prefix: &str, removed: usize) -> Option<Option<String>> {
+    let rest = id.strip_prefix(prefix)?;
+    let (n, tail) = rest.split_once('-')?;
+    let n: usize = n.parse().ok()?;
+    Some(match n.cmp(&removed) {
+        std::cmp::Ordering::Less => Some(id.to_string()),
+        std::cmp::Ordering::Equal => None,
+        std::cmp::Ordering::Greater => Some(format!("{prefix}{}-{tail}", n - 1)),
+    })
+}
+
+/// The workspace an input field belongs to, from its id prefix.
+pub fn workspace_of(field_id: &str) -> Option<Workspace> {
+    let prefix = field_id.split('-').next().unwrap_or_default();
+    match prefix {
+        "recipe" => Some(Workspace::Recipe),
+        "mixture" | "whatif" => Some(Workspace::Mixture),
+        "plot" | "species" => Some(Workspace::Species),
+        "field" => Some(Workspace::Field),
+        _ => None,
+    }
 }
 
 impl AppState {
@@ -41,6 +81,10 @@ impl AppState {
             revision: RwSignal::new(0),
             view: RwSignal::new(ViewOptions::default()),
             pending: RwSignal::new(BTreeSet::new()),
+            parked: RwSignal::new(BTreeMap::new()),
+            decimal_comma: RwSignal::new(false),
+            row_shift: StoredValue::new(None),
+            forms_follow: RwSignal::new(None),
         }
     }
 
@@ -48,6 +92,9 @@ impl AppState {
     pub fn load(&self, d: Design) {
         self.design.set(d);
         self.pending.update(BTreeSet::clear);
+        self.parked.update(BTreeMap::clear);
+        self.decimal_comma.set(false);
+        self.forms_follow.set(None);
         self.revision.update(|r| *r += 1);
     }
 
@@ -62,6 +109,75 @@ impl AppState {
         } else if !valid && !known {
             self.pending.try_update(|p| p.insert(id.to_string()));
         }
+    }
+
+    /// A field is going away with the text typed into it (`None` when it
+    /// showed the design's value). The text is parked under the field's id
+    /// (renumbered when its row moved up): a field that comes back (tab
+    /// switch, list redrawn) takes it again with its pending mark, so nothing
+    /// typed is silently replaced. A field that does not come back (row
+    /// removed, method changed) is forgotten once the page has redrawn.
+    pub fn field_gone(&self, id: &str, typed: Option<String>) {
+        let shift = self.row_shift.try_get_value().flatten();
+        let target = match &shift {
+            Some((prefix, removed)) => shifted_id(id, prefix, *removed),
+            None => Some(Some(id.to_string())),
+        };
+        let shifted = shift.is_some() && target != Some(Some(id.to_string()));
+        let Some(new_id) = target.unwrap_or_else(|| Some(id.to_string())) else {
+            return; // its row was removed; `rows_removed` dropped its mark
+        };
+        let active = self.design.try_with_untracked(|d| d.workspace);
+        let off_screen = active.is_some() && workspace_of(id) != active;
+        match typed {
+            Some(t) => {
+                self.parked.try_update(|p| p.insert(new_id.clone(), t));
+                if !off_screen {
+                    let app = *self;
+                    set_timeout(move || app.sweep(&new_id), std::time::Duration::ZERO);
+                }
+            }
+            None if !shifted && !off_screen => self.mark_field(id, true),
+            None => {}
+        }
+    }
+
+    /// Forget parked text that no field took back after a redraw.
+    fn sweep(&self, id: &str) {
+        let active = self.design.try_with_untracked(|d| d.workspace);
+        if active.is_some() && workspace_of(id) != active {
+            return; // its tab went away meanwhile: keep it for the tab's return
+        }
+        if self.parked.try_update(|p| p.remove(id)).flatten().is_some() {
+            self.mark_field(id, true);
+        }
+    }
+
+    /// Text parked for `id` by [`AppState::field_gone`], taken back by the field.
+    pub fn take_parked(&self, id: &str) -> Option<String> {
+        self.parked.try_update(|p| p.remove(id)).flatten()
+    }
+
+    /// Row `removed` of the list whose field ids start with `prefix`
+    /// (`mixture-comp-`) is being removed: the rows after it move up by one,
+    /// and their typed text and pending marks move with them.
+    pub fn rows_removed(&self, prefix: &str, removed: usize) {
+        self.pending.try_update(|p| {
+            *p = p
+                .iter()
+                .filter_map(|id| {
+                    shifted_id(id, prefix, removed).unwrap_or_else(|| Some(id.clone()))
+                })
+                .collect();
+        });
+        self.row_shift
+            .try_set_value(Some((prefix.to_string(), removed)));
+        let shift = self.row_shift;
+        // The redraw that follows runs before any timer does.
+        set_timeout(
+            move || drop(shift.try_set_value(None)),
+            std::time::Duration::ZERO,
+        );
     }
 
     /// Ids of invalid fields whose id starts with `prefix` (`recipe-`, `mixture-`...).
@@ -84,4 +200,39 @@ impl Default for AppState {
 /// The state from context (provided by the shell).
 pub fn use_app() -> AppState {
     use_context::<AppState>().unwrap_or_default()
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn rows_after_a_removed_one_move_up() {
+        let p = "mixture-comp-";
+        assert_eq!(
+            shifted_id("mixture-comp-0-conc", p, 1),
+            Some(Some("mixture-comp-0-conc".into()))
+        );
+        assert_eq!(shifted_id("mixture-comp-1-conc", p, 1), Some(None));
+        assert_eq!(
+            shifted_id("mixture-comp-3-conc", p, 1),
+            Some(Some("mixture-comp-2-conc".into()))
+        );
+        assert_eq!(shifted_id("mixture-add-3-conc", p, 1), None);
+        assert_eq!(shifted_id("mixture-comp-x-conc", p, 1), None);
+    }
+
+    #[test]
+    fn field_ids_belong_to_their_tab() {
+        assert_eq!(workspace_of("recipe-ph"), Some(Workspace::Recipe));
+        assert_eq!(workspace_of("whatif-dilution"), Some(Workspace::Mixture));
+        assert_eq!(
+            workspace_of("mixture-comp-0-conc"),
+            Some(Workspace::Mixture)
+        );
+        assert_eq!(workspace_of("plot-lo"), Some(Workspace::Species));
+        assert_eq!(workspace_of("field-ph"), Some(Workspace::Field));
+        assert_eq!(workspace_of("design-name"), None);
+    }
 }

@@ -82,6 +82,14 @@ async fn type_into(root: &Element, id: &str, value: &str) {
     settle().await;
 }
 
+async fn commit(root: &Element, id: &str) {
+    let input: HtmlInputElement = find(root, &format!("#{id}"))
+        .unwrap_or_else(|| panic!("no input #{id}"))
+        .unchecked_into();
+    input.dispatch_event(&bubbling("change")).unwrap();
+    settle().await;
+}
+
 async fn choose(root: &Element, id: &str, value: &str) {
     let select: HtmlSelectElement = find(root, &format!("#{id}"))
         .unwrap_or_else(|| panic!("no select #{id}"))
@@ -193,16 +201,25 @@ async fn recipe_forms_follow_target_until_picked_by_hand() {
     let state = AppState::new();
     let root = mount(state, || view! { <RecipeWorkspace /> });
     settle().await;
-    // Phosphate at pH 11.8: the pair moves to the third step.
+    // Phosphate at pH 11.8: typing alone changes no form; leaving the field
+    // moves the pair to the third step, keeping the heptahydrate, with a notice.
     type_into(&root, "recipe-ph", "11.8").await;
-    let expected = solver::recipe::suggest_pair("phosphate", 11.8, 37.0, &[]).unwrap();
+    let before = state.design.get_untracked().recipe.method;
+    assert!(text(&root, "recipe-forms-offer").is_some());
+    commit(&root, "recipe-ph").await;
     match state.design.get_untracked().recipe.method {
         solver::recipe::Method::TwoForms {
             acid_form,
             base_form,
-        } => assert_eq!((acid_form, base_form), expected),
+        } => assert_eq!(
+            (acid_form.as_str(), base_form.as_str()),
+            ("na2hpo4_7h2o", "na3po4_12h2o")
+        ),
         other => panic!("unexpected method {other:?}"),
     }
+    assert!(text(&root, "recipe-forms-notice").unwrap().contains("→"));
+    click(&root, "recipe-forms-undo").await;
+    assert_eq!(state.design.get_untracked().recipe.method, before);
     // Pick a form by hand: a later target change keeps it.
     choose(&root, "recipe-acid-form", "kh2po4").await;
     type_into(&root, "recipe-ph", "7.0").await;

@@ -49,10 +49,10 @@ fn benches(cr: &mut Criterion) {
         temperature_c: 37.0,
         total_conc_m: 0.05,
         volume_l: 0.5,
-        salt: Some(AdditiveSpec {
+        salts: vec![AdditiveSpec {
             additive: Additive::Nacl,
             conc_m: 0.15,
-        }),
+        }],
         activity: ActivityModel::Davies,
         method: Method::TwoForms {
             acid_form: "nah2po4_h2o".into(),

@@ -19,7 +19,10 @@ use crate::thermo::validate_system;
 use serde::{Deserialize, Serialize};
 
 /// Current schema version of [`Design`].
-pub const SCHEMA_VERSION: u32 = 1;
+///
+/// History: 1, the first published schema; 2, `recipe.salt` (one optional
+/// salt) became `recipe.salts` (a list).
+pub const SCHEMA_VERSION: u32 = 2;
 
 /// The page's workspaces.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
@@ -87,9 +90,9 @@ fn doc_err(field: &str, reason: impl Into<String>) -> SolverError {
 
 /// Bring an older document up to [`SCHEMA_VERSION`].
 ///
-/// Version 1 is the first published schema, so there is nothing to migrate
-/// yet; each future version adds one arm here that rewrites the JSON value
-/// from `n` to `n + 1`, and a test with a stored version-`n` document.
+/// Each version adds one arm here that rewrites the JSON value from `n` to
+/// `n + 1`, and a test with stored version-`n` documents
+/// (`solver/tests/data/schema1/`, `solver/tests/migration.rs`).
 fn migrate(mut value: serde_json::Value) -> Result<serde_json::Value> {
     let version = value
         .get("schema")
@@ -101,10 +104,26 @@ fn migrate(mut value: serde_json::Value) -> Result<serde_json::Value> {
             format!("version {version} is not supported (this page reads 1 to {SCHEMA_VERSION})"),
         ));
     }
+    if version < 2 {
+        migrate_1_to_2(&mut value);
+    }
     if let Some(obj) = value.as_object_mut() {
         obj.insert("schema".into(), serde_json::Value::from(SCHEMA_VERSION));
     }
     Ok(value)
+}
+
+/// Schema 1 → 2: the recipe's one optional `salt` becomes the list `salts`
+/// (`null` or absent → `[]`). Anything else is left for the parser to judge.
+fn migrate_1_to_2(value: &mut serde_json::Value) {
+    use serde_json::Value;
+    if let Some(recipe) = value.get_mut("recipe").and_then(Value::as_object_mut) {
+        let salts = match recipe.remove("salt") {
+            None | Some(Value::Null) => vec![],
+            Some(salt) => vec![salt],
+        };
+        recipe.insert("salts".into(), Value::Array(salts));
+    }
 }
 
 /// Parse, migrate and validate a design document.
@@ -276,9 +295,10 @@ pub fn validate_design(d: &Design) -> Result<()> {
         crate::recipe::CONCENTRATE_FACTOR_MAX,
     )
     .map_err(rp)?;
-    if let Some(s) = &r.salt {
-        in_range("salt.conc_m", s.conc_m, 0.0, 5.0).map_err(rp)?;
+    for (i, s) in r.salts.iter().enumerate() {
+        in_range(&format!("salts[{i}].conc_m"), s.conc_m, 0.0, 5.0).map_err(rp)?;
     }
+    crate::recipe::validate_salts(&r.salts).map_err(rp)?;
     let form_ok = |field: &str, id: &str| -> Result<()> {
         if find_form(sys, id).is_some() {
             Ok(())
@@ -379,7 +399,7 @@ pub fn demo_design() -> Design {
             temperature_c: 37.0,
             total_conc_m: 0.05,
             volume_l: 0.5,
-            salt: None,
+            salts: vec![],
             activity: ActivityModel::Davies,
             method: Method::TwoForms {
                 acid_form: "nah2po4_h2o".into(),
@@ -489,10 +509,13 @@ mod tests {
     #[test]
     fn future_and_missing_schema_are_refused() {
         let j = to_json(&demo_design());
-        let future = j.replace("\"schema\":1", "\"schema\":99");
+        let now = format!("\"schema\":{SCHEMA_VERSION}");
+        let future = j.replace(&now, "\"schema\":99");
+        assert_ne!(future, j);
         let e = parse_design(&future).unwrap_err().to_string();
         assert!(e.starts_with("schema"), "{e}");
-        let missing = j.replace("\"schema\":1,", "");
+        let missing = j.replace(&format!("{now},"), "");
+        assert_ne!(missing, j);
         assert!(parse_design(&missing)
             .unwrap_err()
             .to_string()

@@ -73,9 +73,9 @@ pub struct RecipeSpec {
     pub total_conc_m: f64,
     /// Final volume, L.
     pub volume_l: f64,
-    /// Optional inert salt (NaCl or KCl).
+    /// Inert salts (NaCl, KCl), each at most once; empty for none.
     #[serde(default)]
-    pub salt: Option<AdditiveSpec>,
+    pub salts: Vec<AdditiveSpec>,
     /// Activity model.
     #[serde(default)]
     pub activity: ActivityModel,
@@ -394,15 +394,7 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
         1.0,
         CONCENTRATE_FACTOR_MAX,
     )?;
-    if let Some(s) = &spec.salt {
-        non_negative("salt.conc_m", s.conc_m)?;
-        if s.additive.charge() != 0.0 {
-            return Err(SolverError::Infeasible {
-                field: "salt.additive".into(),
-                reason: "the added salt must be neutral (NaCl or KCl); use the titration method for acids and bases".into(),
-            });
-        }
-    }
+    validate_salts(&spec.salts)?;
     match &spec.method {
         Method::TwoForms { .. } => {}
         Method::Titrate {
@@ -423,6 +415,34 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
         } => {
             in_range("method.acid_stock_m", *acid_stock_m, 1e-6, 20.0)?;
             in_range("method.base_stock_m", *base_stock_m, 1e-6, 20.0)?;
+        }
+    }
+    Ok(())
+}
+
+/// Check a recipe's salts: amounts finite and not negative, each salt
+/// neutral and listed once. Fields are named `salts[i]...`.
+///
+/// # Errors
+///
+/// The first bad salt, by its index.
+pub fn validate_salts(salts: &[AdditiveSpec]) -> Result<()> {
+    for (i, s) in salts.iter().enumerate() {
+        non_negative(&format!("salts[{i}].conc_m"), s.conc_m)?;
+        if s.additive.charge() != 0.0 {
+            return Err(SolverError::Infeasible {
+                field: format!("salts[{i}].additive"),
+                reason: "an added salt must be neutral (NaCl or KCl); use the titration method for acids and bases".into(),
+            });
+        }
+        if let Some(j) = salts.iter().take(i).position(|o| o.additive == s.additive) {
+            return Err(SolverError::Infeasible {
+                field: format!("salts[{i}]"),
+                reason: format!(
+                    "{} is listed twice (also salts[{j}]): merge them into one entry",
+                    s.additive.formula()
+                ),
+            });
         }
     }
     Ok(())
@@ -495,7 +515,7 @@ fn empty_mixture(spec: &RecipeSpec) -> MixtureSpec {
         temperature_c: spec.temperature_c,
         activity: spec.activity,
         components: vec![],
-        additives: spec.salt.iter().copied().collect(),
+        additives: spec.salts.clone(),
     }
 }
 
@@ -635,7 +655,7 @@ fn finish(
             ing.push(t);
         }
     }
-    if let Some(s) = &spec.salt {
+    for s in &spec.salts {
         if s.conc_m > 0.0 {
             ing.push(weigh(
                 s.additive.formula(),
@@ -743,7 +763,7 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
 ///     temperature_c: 37.0,
 ///     total_conc_m: 0.05,
 ///     volume_l: 0.5,
-///     salt: None,
+///     salts: vec![],
 ///     activity: ActivityModel::Davies,
 ///     method: Method::TwoForms {
 ///         acid_form: "nah2po4_h2o".into(),

@@ -17,7 +17,7 @@ fn spec(system: &str, method: Method, target: f64, t: f64) -> RecipeSpec {
         temperature_c: t,
         total_conc_m: 0.05,
         volume_l: 0.5,
-        salt: None,
+        salts: vec![],
         activity: ActivityModel::Davies,
         method,
         tolerance_ph: 0.05,
@@ -205,10 +205,10 @@ fn concentrate_dilution_returns_the_target() {
     ] {
         for n in [2.0, 5.0, 10.0] {
             let mut s = spec(system, method.clone(), target, t);
-            s.salt = Some(AdditiveSpec {
+            s.salts = vec![AdditiveSpec {
                 additive: Additive::Nacl,
                 conc_m: 0.1,
-            });
+            }];
             s.concentrate_factor = n;
             let r = solve_recipe(&s, &[]).unwrap();
             let c = r.concentrate.unwrap();
@@ -322,10 +322,10 @@ fn out_of_range_bench_inputs_are_refused_by_name() {
     );
     // The salt counts too.
     let mut s = spec("tris", tris_pair(), 8.0, 25.0);
-    s.salt = Some(AdditiveSpec {
+    s.salts = vec![AdditiveSpec {
         additive: Additive::Nacl,
         conc_m: 0.15,
-    });
+    }];
     s.concentrate_factor = 40.0;
     let e = solve_recipe(&s, &[]).unwrap_err().to_string();
     assert!(e.contains("NaCl") && e.contains("above 5 mol/L"), "{e}");

@@ -136,7 +136,7 @@ fn recipe(method: Method, system: &str, target: f64, t: f64) -> RecipeSpec {
         temperature_c: t,
         total_conc_m: 0.05,
         volume_l: 0.5,
-        salt: None,
+        salts: vec![],
         activity: ActivityModel::Davies,
         method,
         tolerance_ph: 0.05,

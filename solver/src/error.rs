@@ -126,7 +126,7 @@ pub const QUOTE_MAX: usize = 60;
 const PATH_MAX: usize = 120;
 
 /// Most characters of a reason that a message shows.
-const REASON_MAX: usize = 400;
+const REASON_MAX: usize = 300;
 
 /// `s` cut to at most `max` characters, with an ellipsis when it was cut.
 pub fn clip(s: &str, max: usize) -> String {

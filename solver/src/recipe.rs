@@ -395,6 +395,18 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
         CONCENTRATE_FACTOR_MAX,
     )?;
     validate_salts(&spec.salts)?;
+    // What a concentrate holds without solving anything: the buffer total and
+    // the salts (the forms and titrant are checked once the recipe is known).
+    let n = spec.concentrate_factor;
+    if spec.total_conc_m * n > CONCENTRATE_MAX_M {
+        let what = format!("{} (buffer total)", clip(&spec.system, QUOTE_MAX));
+        return Err(too_concentrated(n, &what, spec.total_conc_m * n));
+    }
+    for s in &spec.salts {
+        if s.conc_m * n > CONCENTRATE_MAX_M {
+            return Err(too_concentrated(n, s.additive.formula(), s.conc_m * n));
+        }
+    }
     match &spec.method {
         Method::TwoForms { .. } => {}
         Method::Titrate {
@@ -667,6 +679,18 @@ fn finish(
     Ok((mix, ing))
 }
 
+/// The refusal of a concentrate holding `c` mol/L of `what`.
+fn too_concentrated(factor: f64, what: &str, c: f64) -> SolverError {
+    SolverError::Infeasible {
+        field: "concentrate_factor".into(),
+        reason: format!(
+            "the {}× concentrate would hold {} mol/L of {what}, above {CONCENTRATE_MAX_M} mol/L (a sanity bound for solubility); choose a smaller factor",
+            sig_trim(factor, 3),
+            sig(c, 3)
+        ),
+    }
+}
+
 /// The concentrate of a finished working buffer: every amount times the
 /// factor; `None` for factor 1.
 ///
@@ -685,16 +709,7 @@ fn concentrate_of(
         return Ok(None);
     }
     let mut m = working.clone();
-    let too_much = |what: &str, c: f64| {
-        SolverError::Infeasible {
-        field: "concentrate_factor".into(),
-        reason: format!(
-            "the {}× concentrate would hold {} mol/L of {what}, above {CONCENTRATE_MAX_M} mol/L (a sanity bound for solubility); choose a smaller factor",
-            sig_trim(factor, 3),
-            sig(c, 3)
-        ),
-    }
-    };
+    let too_much = |what: &str, c: f64| too_concentrated(factor, what, c);
     let total = spec.total_conc_m * factor;
     if total > CONCENTRATE_MAX_M {
         let what = format!("{} (buffer total)", clip(&sys.name, QUOTE_MAX));

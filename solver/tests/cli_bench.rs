@@ -82,3 +82,29 @@ fn a_document_with_a_typo_in_a_bench_field_is_refused() {
         "{err}"
     );
 }
+
+#[test]
+fn the_bench_example_gives_its_target_meter_and_concentrate() {
+    let path = format!(
+        "{}/examples/bench-concentrate.json",
+        env!("CARGO_MANIFEST_DIR")
+    );
+    let text = std::fs::read_to_string(path).unwrap();
+    let (code, out, err) = run(&["-"], &text);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let r = &v["recipe"]["Ok"];
+    assert!((r["equilibrium"]["ph"].as_f64().unwrap() - 7.4).abs() < 1e-6);
+    assert_eq!(r["meter"]["temperature_c"].as_f64(), Some(22.0));
+    // Made cooler than it is used, Tris reads higher (Bates & Hetzer 1961).
+    assert!(r["meter"]["ph"].as_f64().unwrap() > 7.4);
+    assert_eq!(r["concentrate"]["factor"].as_f64(), Some(10.0));
+    let nacl = r["ingredients"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|i| i["formula"] == "NaCl")
+        .unwrap();
+    // 0.15 M × 10 in 0.5 L.
+    assert!((nacl["mol"].as_f64().unwrap() - 0.75).abs() < 1e-12);
+}

@@ -1,23 +1,33 @@
-//! Bufferwright page: Leptos components wired to the pure solver crate.
+//! Bufferwright page: a buffer-making and water-reading calculator that runs
+//! entirely in the browser.
 //!
-//! Module owners while the first version is built (see DEVELOPERS.md):
-//! shell/inputs/workspaces, plots/species, store/share/designs.
+//! How data flows: the user types into a workspace's inputs; valid values are
+//! written into one [`solver::design::Design`] held in [`state::AppState`]
+//! (typed text that is not a value yet stays with its field and marks it
+//! pending); each workspace derives its results with a `Memo` over the solver;
+//! views and canvas plots show those results. Storage, share links and embeds
+//! sit at the edge ([`store`], [`share`], [`embed`]): they read and write the same `Design` as
+//! plain serde data with a schema version, never signals.
+//!
+//! The tree reads like the page:
+//! - [`shell`]: the page frame, tabs and notes; [`state`]: the shared state.
+//! - [`workspaces`]: one module per tab (Recipe, Flask, Species & capacity, Field reading).
+//! - [`widgets`]: validated inputs, parsing and number formatting, cautions.
+//! - [`plots`]: plot data, drawing generic over the plotters backend, the canvas.
+//! - [`store`], [`designs_ws`], [`share`], [`embed`]: saved designs, the designs panel, share links, embeds.
+//! - [`bench`]: in-browser timing of the solver workloads (for `app/PERF.md`).
 
 pub mod bench;
-pub mod cautions;
+// Saved designs, the designs panel, share links and embeds (moving into `designs/`).
 pub mod designs_ws;
 pub mod embed;
-pub mod field_ws;
-pub mod format;
-pub mod inputs;
-pub mod mixture_ws;
 pub mod plots;
-pub mod recipe_ws;
 pub mod share;
 pub mod shell;
-pub mod species_ws;
 pub mod state;
 pub mod store;
+pub mod widgets;
+pub mod workspaces;
 
 /// Mount the application on the page body.
 pub fn start() {

@@ -5,14 +5,14 @@
 //! In embed mode (`?embed=1`) the header, tabs and designs panel give way to
 //! the embed bar.
 
-use crate::cautions::ModelNote;
 use crate::designs_ws::{DesignsPanel, StorageAlert};
 use crate::embed::EmbedBar;
-use crate::field_ws::FieldWorkspace;
-use crate::mixture_ws::MixtureWorkspace;
-use crate::recipe_ws::RecipeWorkspace;
-use crate::species_ws::SpeciesWorkspace;
 use crate::state::{use_app, AppState};
+use crate::widgets::cautions::ModelNote;
+use crate::workspaces::field::FieldWorkspace;
+use crate::workspaces::flask::FlaskWorkspace;
+use crate::workspaces::recipe::RecipeWorkspace;
+use crate::workspaces::species::SpeciesWorkspace;
 use leptos::prelude::*;
 use solver::design::Workspace;
 
@@ -78,7 +78,7 @@ pub fn Shell() -> impl IntoView {
                     let key = key_of(ws);
                     let body = match ws {
                         Workspace::Recipe => view! { <RecipeWorkspace /> }.into_any(),
-                        Workspace::Mixture => view! { <MixtureWorkspace /> }.into_any(),
+                        Workspace::Mixture => view! { <FlaskWorkspace /> }.into_any(),
                         Workspace::Species => view! { <SpeciesWorkspace /> }.into_any(),
                         Workspace::Field => view! { <FieldWorkspace /> }.into_any(),
                     };

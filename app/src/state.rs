@@ -197,6 +197,40 @@ impl Default for AppState {
     }
 }
 
+/// Why the current design must not be saved now: fields whose text is not a
+/// valid value (the design still holds their previous value, so saving would
+/// store something other than what is on screen). Names the fields by their
+/// visible labels.
+pub fn unsaved_reason(state: &AppState) -> Option<String> {
+    let bad: Vec<String> = state
+        .pending
+        .with_untracked(|p| p.iter().cloned().collect());
+    if bad.is_empty() {
+        return None;
+    }
+    let names: Vec<String> = bad.iter().map(|id| field_label(id)).collect();
+    Some(format!(
+        "Not saved: correct the marked field{} first ({}). What is on screen is not what would be saved.",
+        if names.len() == 1 { "" } else { "s" },
+        names.join(", ")
+    ))
+}
+
+/// The visible label of the input `id` (from the page), or the id itself.
+fn field_label(id: &str) -> String {
+    web_sys::window()
+        .and_then(|w| w.document())
+        .and_then(|d| {
+            d.query_selector(&format!("label[for=\"{id}\"]"))
+                .ok()
+                .flatten()
+        })
+        .and_then(|l| l.text_content())
+        .map(|t| t.trim().to_string())
+        .filter(|t| !t.is_empty())
+        .unwrap_or_else(|| id.to_string())
+}
+
 /// The state from context (provided by the shell).
 pub fn use_app() -> AppState {
     use_context::<AppState>().unwrap_or_default()

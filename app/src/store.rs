@@ -1260,6 +1260,10 @@ impl Store {
 
     /// Save the working design: over the open saved design, or as a new one.
     pub fn save(&self, as_new: bool) {
+        if let Some(why) = crate::state::unsaved_reason(&self.state) {
+            self.notify(NoticeKind::Error, why, None);
+            return;
+        }
         let Some(mut kv) = self.kv() else {
             return;
         };

@@ -11,8 +11,8 @@
     missing_docs
 )]
 
-use app::species_ws::SpeciesWorkspace;
 use app::state::AppState;
+use app::workspaces::species::SpeciesWorkspace;
 use leptos::prelude::*;
 use solver::design::PlotSource;
 use wasm_bindgen::JsCast;

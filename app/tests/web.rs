@@ -13,12 +13,12 @@
     missing_docs
 )]
 
-use app::field_ws::FieldWorkspace;
-use app::format::{fmt_pct, fmt_ph};
-use app::mixture_ws::MixtureWorkspace;
-use app::recipe_ws::RecipeWorkspace;
 use app::shell::Shell;
 use app::state::AppState;
+use app::widgets::format::{fmt_pct, fmt_ph};
+use app::workspaces::field::FieldWorkspace;
+use app::workspaces::flask::FlaskWorkspace;
+use app::workspaces::recipe::RecipeWorkspace;
 use leptos::prelude::*;
 use solver::design::demo_design;
 use wasm_bindgen::JsCast;
@@ -253,7 +253,7 @@ async fn recipe_titration_method_pours_titrant() {
 #[wasm_bindgen_test]
 async fn mixture_shows_ph_and_follows_temperature() {
     let state = AppState::new();
-    let root = mount(state, || view! { <MixtureWorkspace /> });
+    let root = mount(state, || view! { <FlaskWorkspace /> });
     settle().await;
     let mut spec = demo_design().mixture;
     let r = solver::mixture::solve_mixture(&spec, &[]).unwrap();
@@ -268,7 +268,7 @@ async fn mixture_shows_ph_and_follows_temperature() {
 #[wasm_bindgen_test]
 async fn mixture_rows_add_and_remove_and_what_ifs_show_changes() {
     let state = AppState::new();
-    let root = mount(state, || view! { <MixtureWorkspace /> });
+    let root = mount(state, || view! { <FlaskWorkspace /> });
     settle().await;
     click(&root, "mixture-add-additive").await;
     assert_eq!(state.design.get_untracked().mixture.additives.len(), 2);

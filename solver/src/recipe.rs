@@ -944,6 +944,12 @@ pub fn sig(v: f64, n: i32) -> String {
         return "0".into();
     }
     let mag = v.abs().log10().floor() as i32;
+    // Far from 1 (a hand-edited document carrying 1e-300 L), plain decimals
+    // would run to hundreds of digits: use an exponent instead.
+    if !(-6..15).contains(&mag) {
+        let digits = (n - 1).max(0) as usize;
+        return format!("{v:.digits$e}");
+    }
     let decimals = (n - 1 - mag).max(0) as usize;
     format!("{v:.decimals$}")
 }

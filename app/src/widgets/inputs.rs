@@ -6,8 +6,8 @@
 //! (`AppState::load` bumps `revision`), the typed text is forgotten and the
 //! field shows the design's value again.
 
-use crate::format::{best_unit, check_in, fmt_input, uses_decimal_comma, Rule, Unit};
 use crate::state::use_app;
+use crate::widgets::format::{best_unit, check_in, fmt_input, uses_decimal_comma, Rule, Unit};
 use leptos::prelude::*;
 use solver::library::library;
 use solver::system::AcidSystem;
@@ -307,7 +307,7 @@ pub fn system_matches(sys: &AcidSystem, query: &str, t_c: f64) -> bool {
     if q.is_empty() {
         return true;
     }
-    if let Ok(x) = crate::format::parse_number(&q) {
+    if let Ok(x) = crate::widgets::format::parse_number(&q) {
         return system_pks(sys, t_c).is_ok_and(|pks| pks.iter().any(|p| (p - x).abs() <= 1.0));
     }
     sys.name.to_lowercase().contains(&q)
@@ -362,7 +362,7 @@ pub fn SystemPicker(
                     .filter(|s| s.id == sel || system_matches(s, &q, t)),
             );
             // A pH typed in the search box lists the nearest pK first.
-            if let Ok(x) = crate::format::parse_number(&q) {
+            if let Ok(x) = crate::widgets::format::parse_number(&q) {
                 let gap = |s: &AcidSystem| {
                     system_pks(s, t)
                         .ok()

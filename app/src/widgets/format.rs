@@ -292,7 +292,11 @@ pub fn fmt_input(v: f64) -> String {
         return String::new();
     }
     let s = sig(v, 6);
-    trim_zeros(&s)
+    match s.split_once('e') {
+        // 1.50000e-9 -> 1.5e-9
+        Some((m, e)) => format!("{}e{e}", trim_zeros(m)),
+        None => trim_zeros(&s),
+    }
 }
 
 fn trim_zeros(s: &str) -> String {
@@ -608,7 +612,10 @@ mod tests {
         assert_eq!(fmt_input(7.4), "7.4");
         assert_eq!(fmt_input(0.05), "0.05");
         assert_eq!(fmt_input(37.0), "37");
-        assert_eq!(fmt_input(1e-7), "0.0000001");
+        assert_eq!(fmt_input(1e-7), "1e-7");
+        assert_eq!(fmt_input(1e-300), "1e-300");
+        assert_eq!(fmt_input(2.5e-6), "0.0000025");
+        assert_eq!(parse_number(&fmt_input(1.5e-9)), Ok(1.5e-9));
         assert_eq!(best_unit(CONC_UNITS, 0.05), 1);
         assert_eq!(best_unit(CONC_UNITS, 1.0), 0);
         assert_eq!(best_unit(CONC_UNITS, 5e-6), 2);

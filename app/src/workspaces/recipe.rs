@@ -7,14 +7,14 @@
 //! replace them (this is decided from the design itself, so it survives tab
 //! switches and reloads).
 
-use crate::cautions::{cautions_for, corrosive_only_if, Caution, CautionPanel};
-use crate::format::{
+use crate::state::use_app;
+use crate::widgets::cautions::{cautions_for, corrosive_only_if, Caution, CautionPanel};
+use crate::widgets::format::{
     error_field, error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_input, fmt_ph, fmt_sig,
     pretty_formula, BUFFER_CONC, CONC_UNITS, PH, STOCK, TEMPERATURE, TOLERANCE, VOLUME,
     VOLUME_UNITS,
 };
-use crate::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
-use crate::state::use_app;
+use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
 use leptos::prelude::*;
 use solver::activity::ActivityModel;
 use solver::equilibrium::Warning;
@@ -983,7 +983,7 @@ fn SaltInputs(spec: Memo<RecipeSpec>, err: Signal<Option<String>>) -> impl IntoV
                             }
                         })
                     })
-                    rule=crate::format::AMOUNT
+                    rule=crate::widgets::format::AMOUNT
                     units=CONC_UNITS
                     error=err
                 />
@@ -1152,14 +1152,14 @@ fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl IntoView {
         Some(a) => format!(
             "pK {} · base share {} → would really give pH {} ({} from target)",
             fmt_ph(est.pk),
-            crate::format::fmt_pct(est.base_fraction),
+            crate::widgets::format::fmt_pct(est.base_fraction),
             fmt_ph(a),
             fmt_dph(a - spec.target_ph)
         ),
         None => format!(
             "pK {} · base share {} → cannot be made with these reagents",
             fmt_ph(est.pk),
-            crate::format::fmt_pct(est.base_fraction)
+            crate::widgets::format::fmt_pct(est.base_fraction)
         ),
     };
     let est_diff = est.actual_ph.map(|a| fmt_dph(a - spec.target_ph));

@@ -4,13 +4,13 @@
 //! buttons for the common questions, big touch targets, big numbers. The
 //! result is one `Memo` over `solver::field::field_reading`.
 
-use crate::cautions::{cautions_for, corrosive_only_if, CautionPanel};
-use crate::format::{
+use crate::state::use_app;
+use crate::widgets::cautions::{cautions_for, corrosive_only_if, CautionPanel};
+use crate::widgets::format::{
     error_field, error_message, fmt_conc, fmt_input, fmt_mg_l, fmt_pct, fmt_ph, fmt_sig,
     CONDUCTIVITY, FIELD_TOTAL, IONIC, PH, TDS, TEMPERATURE,
 };
-use crate::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
-use crate::state::use_app;
+use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
 use leptos::prelude::*;
 use solver::field::{
     field_reading, reporting_basis, FieldResult, FieldSpec, IonicSource, TotalUnit,
@@ -145,7 +145,7 @@ pub fn FieldWorkspace() -> impl IntoView {
         };
         Some(view! {
             <NumberField
-                id=format!("field-ionic-{kind}")
+                id=format!("field-ionic-{kind}-value")
                 label=label
                 value=Signal::derive(move || {
                     spec.with(|s| match s.ionic {

@@ -4,13 +4,13 @@
 //! place in the design's mixture; the result and the what-ifs are `Memo`s
 //! over `solve_mixture` and `what_if`.
 
-use crate::cautions::{cautions_for_many, corrosive_only_if, CautionPanel};
-use crate::format::{
+use crate::state::use_app;
+use crate::widgets::cautions::{cautions_for_many, corrosive_only_if, CautionPanel};
+use crate::widgets::format::{
     error_field, error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_pct, fmt_ph, pretty_formula,
     AMOUNT, CONC_UNITS, DILUTION, TEMPERATURE,
 };
-use crate::inputs::{all_systems, system_label, Choice, ChoiceOption, NumberField};
-use crate::state::use_app;
+use crate::widgets::inputs::{all_systems, system_label, Choice, ChoiceOption, NumberField};
 use leptos::prelude::*;
 use solver::activity::ActivityModel;
 use solver::design::PlotSource;
@@ -53,7 +53,10 @@ fn additive_from_key(k: &str) -> Additive {
         .unwrap_or(Additive::Nacl)
 }
 
-fn mixture_cautions(spec: &MixtureSpec, custom: &[AcidSystem]) -> Vec<crate::cautions::Caution> {
+fn mixture_cautions(
+    spec: &MixtureSpec,
+    custom: &[AcidSystem],
+) -> Vec<crate::widgets::cautions::Caution> {
     let systems: Vec<&AcidSystem> = spec
         .components
         .iter()
@@ -83,7 +86,7 @@ fn mixture_cautions(spec: &MixtureSpec, custom: &[AcidSystem]) -> Vec<crate::cau
 
 /// The flask workspace.
 #[component]
-pub fn MixtureWorkspace() -> impl IntoView {
+pub fn FlaskWorkspace() -> impl IntoView {
     let app = use_app();
     let design = app.design;
     let spec = Memo::new(move |_| design.with(|d| d.mixture.clone()));

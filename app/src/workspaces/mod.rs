@@ -1,0 +1,8 @@
+//! The four workspaces, one module per tab and named after it: Recipe, Flask,
+//! Species & capacity, Field reading. Each reads its part of the design,
+//! writes it from input handlers, and shows one `Memo` over the solver.
+
+pub mod field;
+pub mod flask;
+pub mod recipe;
+pub mod species;

@@ -75,16 +75,18 @@ pub fn bench_engine() -> String {
         temperature_c: 37.0,
         total_conc_m: 0.05,
         volume_l: 0.5,
-        salt: Some(AdditiveSpec {
+        salts: vec![AdditiveSpec {
             additive: Additive::Nacl,
             conc_m: 0.15,
-        }),
+        }],
         activity: ActivityModel::Davies,
         method: Method::TwoForms {
             acid_form: "nah2po4_h2o".into(),
             base_form: "na2hpo4_7h2o".into(),
         },
         tolerance_ph: 0.05,
+        prepare_temperature_c: None,
+        concentrate_factor: 1.0,
     };
     let recipe_us = time_us(2_000, || solve_recipe(&recipe, &[]).is_ok());
     format!(

@@ -49,16 +49,18 @@ fn benches(cr: &mut Criterion) {
         temperature_c: 37.0,
         total_conc_m: 0.05,
         volume_l: 0.5,
-        salt: Some(AdditiveSpec {
+        salts: vec![AdditiveSpec {
             additive: Additive::Nacl,
             conc_m: 0.15,
-        }),
+        }],
         activity: ActivityModel::Davies,
         method: Method::TwoForms {
             acid_form: "nah2po4_h2o".into(),
             base_form: "na2hpo4_7h2o".into(),
         },
         tolerance_ph: 0.05,
+        prepare_temperature_c: None,
+        concentrate_factor: 1.0,
     };
     cr.bench_function("recipe: two forms, exact + HH + tolerance", |b| {
         b.iter(|| solve_recipe(black_box(&recipe), &[]).unwrap())

@@ -5,7 +5,7 @@
 //! schema versions, then checks every field and names the first bad one.
 
 use crate::activity::ActivityModel;
-use crate::error::{in_range, Result, SolverError};
+use crate::error::{clip, in_range, shorten_quoted, Result, SolverError, QUOTE_MAX};
 use crate::field::{field_reading, FieldResult, FieldSpec, IonicSource, TotalUnit};
 use crate::library::find_form;
 use crate::mixture::{
@@ -19,7 +19,10 @@ use crate::thermo::validate_system;
 use serde::{Deserialize, Serialize};
 
 /// Current schema version of [`Design`].
-pub const SCHEMA_VERSION: u32 = 1;
+///
+/// History: 1, the first published schema; 2, `recipe.salt` (one optional
+/// salt) became `recipe.salts` (a list).
+pub const SCHEMA_VERSION: u32 = 2;
 
 /// The page's workspaces.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
@@ -49,6 +52,7 @@ pub enum PlotSource {
 
 /// One saved design: every input of every workspace.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct Design {
     /// Schema version; always [`SCHEMA_VERSION`] after parsing.
     pub schema: u32,
@@ -86,9 +90,9 @@ fn doc_err(field: &str, reason: impl Into<String>) -> SolverError {
 
 /// Bring an older document up to [`SCHEMA_VERSION`].
 ///
-/// Version 1 is the first published schema, so there is nothing to migrate
-/// yet; each future version adds one arm here that rewrites the JSON value
-/// from `n` to `n + 1`, and a test with a stored version-`n` document.
+/// Each version adds one arm here that rewrites the JSON value from `n` to
+/// `n + 1`, and a test with stored version-`n` documents
+/// (`solver/tests/data/schema1/`, `solver/tests/migration.rs`).
 fn migrate(mut value: serde_json::Value) -> Result<serde_json::Value> {
     let version = value
         .get("schema")
@@ -100,10 +104,26 @@ fn migrate(mut value: serde_json::Value) -> Result<serde_json::Value> {
             format!("version {version} is not supported (this page reads 1 to {SCHEMA_VERSION})"),
         ));
     }
+    if version < 2 {
+        migrate_1_to_2(&mut value);
+    }
     if let Some(obj) = value.as_object_mut() {
         obj.insert("schema".into(), serde_json::Value::from(SCHEMA_VERSION));
     }
     Ok(value)
+}
+
+/// Schema 1 → 2: the recipe's one optional `salt` becomes the list `salts`
+/// (`null` or absent → `[]`). Anything else is left for the parser to judge.
+fn migrate_1_to_2(value: &mut serde_json::Value) {
+    use serde_json::Value;
+    if let Some(recipe) = value.get_mut("recipe").and_then(Value::as_object_mut) {
+        let salts = match recipe.remove("salt") {
+            None | Some(Value::Null) => vec![],
+            Some(salt) => vec![salt],
+        };
+        recipe.insert("salts".into(), Value::Array(salts));
+    }
 }
 
 /// Parse, migrate and validate a design document.
@@ -130,12 +150,86 @@ pub fn parse_design(text: &str) -> Result<Design> {
     let value: serde_json::Value = serde_json::from_str(text)
         .map_err(|e| doc_err("document", format!("not valid JSON: {e}")))?;
     let value = migrate(value)?;
-    let design: Design = serde_path_to_error::deserialize(value).map_err(|e| {
+    let design: Design = serde_path_to_error::deserialize(&value).map_err(|e| {
         let path = e.path().to_string();
-        doc_err(&path, e.into_inner().to_string())
+        serde_err(&path, &e.into_inner().to_string())
     })?;
+    let back = serde_json::to_value(&design).unwrap_or(serde_json::Value::Null);
+    if let Some(field) = extra_tagged_key(&value, &back, "") {
+        return Err(doc_err(
+            &field,
+            "unknown field (this kind takes no such key; check the spelling)",
+        ));
+    }
     validate_design(&design)?;
     Ok(design)
+}
+
+/// A serde error as a field-named [`SolverError::Document`]: an unknown key
+/// joins the path (`recipe.prepare_temprature_c: unknown field ...`), and a
+/// quoted bad value is cut short.
+fn serde_err(path: &str, msg: &str) -> SolverError {
+    if let Some((key, expected)) = msg
+        .strip_prefix("unknown field `")
+        .and_then(|rest| rest.split_once('`'))
+    {
+        // The path may already end with the key (plain structs) or stop at
+        // the enclosing object (internally tagged enums).
+        let parent = path
+            .strip_suffix(key)
+            .map(|p| p.trim_end_matches('.'))
+            .unwrap_or(path);
+        let key = clip(key, QUOTE_MAX);
+        let field = if parent.is_empty() || parent == "." {
+            key
+        } else {
+            format!("{parent}.{key}")
+        };
+        let expected = expected.trim_start_matches([',', ' ']);
+        let reason = if expected.is_empty() {
+            "unknown field (check the spelling)".to_string()
+        } else {
+            format!("unknown field ({expected}; check the spelling)")
+        };
+        return doc_err(&field, reason);
+    }
+    doc_err(path, shorten_quoted(msg))
+}
+
+/// A key of an internally tagged object (one with a `kind`) that the parsed
+/// design does not carry. Serde's `deny_unknown_fields` does not reach the
+/// unit variants of such enums (`{"kind": "zero", "us_cm": 3}` would pass),
+/// so the document is compared with the design read from it.
+fn extra_tagged_key(
+    input: &serde_json::Value,
+    parsed: &serde_json::Value,
+    path: &str,
+) -> Option<String> {
+    use serde_json::Value;
+    let join = |key: &str| {
+        if path.is_empty() {
+            clip(key, QUOTE_MAX)
+        } else {
+            format!("{path}.{}", clip(key, QUOTE_MAX))
+        }
+    };
+    match (input, parsed) {
+        (Value::Object(a), Value::Object(b)) => {
+            if a.contains_key("kind") {
+                if let Some(k) = a.keys().find(|k| !b.contains_key(k.as_str())) {
+                    return Some(join(k));
+                }
+            }
+            a.iter()
+                .find_map(|(k, va)| b.get(k).and_then(|vb| extra_tagged_key(va, vb, &join(k))))
+        }
+        (Value::Array(a), Value::Array(b)) => a
+            .iter()
+            .zip(b)
+            .enumerate()
+            .find_map(|(i, (va, vb))| extra_tagged_key(va, vb, &format!("{path}[{i}]"))),
+        _ => None,
+    }
 }
 
 fn prefixed(prefix: &str, e: SolverError) -> SolverError {
@@ -158,6 +252,10 @@ fn prefixed(prefix: &str, e: SolverError) -> SolverError {
             max,
         },
         SolverError::Infeasible { field, reason } => SolverError::Infeasible {
+            field: p(field),
+            reason,
+        },
+        SolverError::Document { field, reason } => SolverError::Document {
             field: p(field),
             reason,
         },
@@ -187,9 +285,20 @@ pub fn validate_design(d: &Design) -> Result<()> {
     in_range("total_conc_m", r.total_conc_m, 0.0, 5.0).map_err(rp)?;
     in_range("volume_l", r.volume_l, 0.0, 1000.0).map_err(rp)?;
     in_range("tolerance_ph", r.tolerance_ph, 0.0, 2.0).map_err(rp)?;
-    if let Some(s) = &r.salt {
-        in_range("salt.conc_m", s.conc_m, 0.0, 5.0).map_err(rp)?;
+    if let Some(t) = r.prepare_temperature_c {
+        in_range("prepare_temperature_c", t, sys.t_min_c, sys.t_max_c).map_err(rp)?;
     }
+    in_range(
+        "concentrate_factor",
+        r.concentrate_factor,
+        1.0,
+        crate::recipe::CONCENTRATE_FACTOR_MAX,
+    )
+    .map_err(rp)?;
+    for (i, s) in r.salts.iter().enumerate() {
+        in_range(&format!("salts[{i}].conc_m"), s.conc_m, 0.0, 5.0).map_err(rp)?;
+    }
+    crate::recipe::validate_salts(&r.salts).map_err(rp)?;
     let form_ok = |field: &str, id: &str| -> Result<()> {
         if find_form(sys, id).is_some() {
             Ok(())
@@ -290,13 +399,15 @@ pub fn demo_design() -> Design {
             temperature_c: 37.0,
             total_conc_m: 0.05,
             volume_l: 0.5,
-            salt: None,
+            salts: vec![],
             activity: ActivityModel::Davies,
             method: Method::TwoForms {
                 acid_form: "nah2po4_h2o".into(),
                 base_form: "na2hpo4_7h2o".into(),
             },
             tolerance_ph: 0.05,
+            prepare_temperature_c: None,
+            concentrate_factor: 1.0,
         },
         mixture: MixtureSpec {
             temperature_c: 20.0,
@@ -398,10 +509,13 @@ mod tests {
     #[test]
     fn future_and_missing_schema_are_refused() {
         let j = to_json(&demo_design());
-        let future = j.replace("\"schema\":1", "\"schema\":99");
+        let now = format!("\"schema\":{SCHEMA_VERSION}");
+        let future = j.replace(&now, "\"schema\":99");
+        assert_ne!(future, j);
         let e = parse_design(&future).unwrap_err().to_string();
         assert!(e.starts_with("schema"), "{e}");
-        let missing = j.replace("\"schema\":1,", "");
+        let missing = j.replace(&format!("{now},"), "");
+        assert_ne!(missing, j);
         assert!(parse_design(&missing)
             .unwrap_err()
             .to_string()

@@ -80,21 +80,24 @@ pub enum SolverError {
 impl fmt::Display for SolverError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
-            Self::NotFinite { field } => write!(f, "{field}: not a finite number"),
+            Self::NotFinite { field } => write!(f, "{}: not a finite number", path(field)),
             Self::Negative { field, value } => {
-                write!(f, "{field}: must not be negative (got {value})")
+                write!(f, "{}: must not be negative (got {value})", path(field))
             }
             Self::OutOfRange {
                 field,
                 value,
                 min,
                 max,
-            } => write!(f, "{field}: {value} is outside {min} to {max}"),
-            Self::Unknown { kind, name } => write!(f, "unknown {kind} \"{name}\""),
+            } => write!(f, "{}: {value} is outside {min} to {max}", path(field)),
+            Self::Unknown { kind, name } => {
+                write!(f, "unknown {} {}", shorten_quoted(kind), quote(name))
+            }
             Self::BadFormula { formula, position } => {
                 write!(
                     f,
-                    "cannot read formula \"{formula}\" at position {position}"
+                    "cannot read formula {} at position {position}",
+                    quote(formula)
                 )
             }
             Self::NoBracket { lo, hi } => {
@@ -107,13 +110,78 @@ impl fmt::Display for SolverError {
                 f,
                 "did not converge after {iterations} iterations (residual {residual:e})"
             ),
-            Self::Infeasible { field, reason } => write!(f, "{field}: {reason}"),
-            Self::Document { field, reason } => write!(f, "{field}: {reason}"),
+            Self::Infeasible { field, reason } | Self::Document { field, reason } => {
+                write!(f, "{}: {}", path(field), shorten_quoted(reason))
+            }
         }
     }
 }
 
 impl std::error::Error for SolverError {}
+
+/// Most characters of a user's value that a message quotes.
+pub const QUOTE_MAX: usize = 60;
+
+/// Most characters of a field path that a message shows.
+const PATH_MAX: usize = 120;
+
+/// Most characters of a reason that a message shows.
+const REASON_MAX: usize = 300;
+
+/// `s` cut to at most `max` characters, with an ellipsis when it was cut.
+pub fn clip(s: &str, max: usize) -> String {
+    match s.char_indices().nth(max) {
+        Some((cut, _)) => format!("{}…", &s[..cut]),
+        None => s.to_string(),
+    }
+}
+
+/// A value the user gave, for a message: in double quotes, at most
+/// [`QUOTE_MAX`] characters, with an ellipsis when it was cut.
+///
+/// ```
+/// let long = "x".repeat(10_000);
+/// let q = solver::error::quote(&long);
+/// assert!(q.chars().count() < 70 && q.ends_with("…\""));
+/// assert_eq!(solver::error::quote("tris"), "\"tris\"");
+/// ```
+pub fn quote(s: &str) -> String {
+    format!("\"{}\"", clip(s, QUOTE_MAX))
+}
+
+fn path(field: &str) -> String {
+    clip(field, PATH_MAX)
+}
+
+/// A message with every quoted run (`"…"` or `` `…` ``, as serde quotes the
+/// offending value) cut to [`QUOTE_MAX`] characters, and the whole message
+/// to a few hundred, so a huge input never comes back whole.
+pub fn shorten_quoted(msg: &str) -> String {
+    let mut out = String::with_capacity(msg.len().min(REASON_MAX + 8));
+    let mut rest = msg;
+    while let Some(open) = rest.find(['"', '`']) {
+        let (before, tail) = rest.split_at(open);
+        out.push_str(before);
+        let mut chars = tail.chars();
+        let q = chars.next().unwrap_or('"');
+        let inner = chars.as_str();
+        match inner.find(q) {
+            Some(close) => {
+                out.push(q);
+                out.push_str(&clip(&inner[..close], QUOTE_MAX));
+                out.push(q);
+                rest = &inner[close + q.len_utf8()..];
+            }
+            None => {
+                out.push(q);
+                out.push_str(&clip(inner, QUOTE_MAX));
+                rest = "";
+            }
+        }
+    }
+    out.push_str(rest);
+    clip(&out, REASON_MAX)
+}
 
 /// Result alias used throughout the crate.
 pub type Result<T> = std::result::Result<T, SolverError>;

@@ -23,6 +23,7 @@ use serde::{Deserialize, Serialize};
 /// Where the ionic strength of a field sample comes from.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
 #[serde(tag = "kind", rename_all = "snake_case")]
+#[serde(deny_unknown_fields)]
 pub enum IonicSource {
     /// Take I = 0 (infinite dilution).
     Zero,
@@ -57,6 +58,7 @@ pub enum TotalUnit {
 
 /// A field reading.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct FieldSpec {
     /// System id.
     pub system: String,

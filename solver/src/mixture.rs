@@ -76,6 +76,7 @@ impl Additive {
 
 /// One acid system in the flask, added as a shelf form (or as the system itself).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct ComponentSpec {
     /// System id (library or custom).
     pub system: String,
@@ -88,6 +89,7 @@ pub struct ComponentSpec {
 
 /// A strong acid, base or salt in the flask.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct AdditiveSpec {
     /// Which one.
     pub additive: Additive,
@@ -97,6 +99,7 @@ pub struct AdditiveSpec {
 
 /// A mixture: what is in the flask and at which temperature.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct MixtureSpec {
     /// Temperature, °C.
     pub temperature_c: f64,
@@ -399,6 +402,7 @@ pub fn solve_mixture(spec: &MixtureSpec, custom: &[AcidSystem]) -> Result<Mixtur
 
 /// Changes to try on a mixture.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct WhatIf {
     /// Dilute every concentration by this factor (≥ 1; 1 = no dilution).
     pub dilution_factor: f64,

@@ -15,7 +15,7 @@
 
 use crate::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{solve, solve_addition, Equilibrium};
-use crate::error::{in_range, non_negative, Result, SolverError};
+use crate::error::{clip, in_range, non_negative, Result, SolverError, QUOTE_MAX};
 use crate::formula::molar_mass;
 use crate::library::{counter_charge, find_form};
 use crate::mixture::{
@@ -28,6 +28,7 @@ use serde::{Deserialize, Serialize};
 /// How the buffer is made.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(tag = "kind", rename_all = "snake_case")]
+#[serde(deny_unknown_fields)]
 pub enum Method {
     /// Weigh two forms of the same system (for example NaH₂PO₄·H₂O and Na₂HPO₄·7H₂O).
     TwoForms {
@@ -60,6 +61,7 @@ pub enum Method {
 
 /// Everything the technician enters for a recipe.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct RecipeSpec {
     /// System id.
     pub system: String,
@@ -71,9 +73,9 @@ pub struct RecipeSpec {
     pub total_conc_m: f64,
     /// Final volume, L.
     pub volume_l: f64,
-    /// Optional inert salt (NaCl or KCl).
+    /// Inert salts (NaCl, KCl), each at most once; empty for none.
     #[serde(default)]
-    pub salt: Option<AdditiveSpec>,
+    pub salts: Vec<AdditiveSpec>,
     /// Activity model.
     #[serde(default)]
     pub activity: ActivityModel,
@@ -82,10 +84,63 @@ pub struct RecipeSpec {
     /// Tolerance window half-width, pH units.
     #[serde(default = "default_tolerance")]
     pub tolerance_ph: f64,
+    /// Temperature at which the buffer is made and its pH read on the meter,
+    /// °C; absent means the working temperature. Must lie in the system's
+    /// data range. The amounts do not change: the target stays the pH at the
+    /// working temperature; the result says what the meter reads here.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub prepare_temperature_c: Option<f64>,
+    /// Make an N-fold concentrate (1 to 50; 1 = the working buffer itself):
+    /// N times every amount in the same final volume, so that diluting it
+    /// N-fold with water gives the target at the working temperature.
+    #[serde(default = "default_factor", skip_serializing_if = "is_one")]
+    pub concentrate_factor: f64,
 }
 
 fn default_tolerance() -> f64 {
     0.05
+}
+
+fn default_factor() -> f64 {
+    1.0
+}
+
+#[allow(clippy::trivially_copy_pass_by_ref)] // serde's skip_serializing_if passes a reference
+fn is_one(v: &f64) -> bool {
+    *v == 1.0
+}
+
+/// Highest concentration of anything in a concentrate, mol/L: a
+/// solubility-like sanity bound, not a solubility.
+pub const CONCENTRATE_MAX_M: f64 = 5.0;
+
+/// Highest concentrate factor.
+pub const CONCENTRATE_FACTOR_MAX: f64 = 50.0;
+
+/// A fact of the trade (common practice) to show beside a meter reading.
+pub const METER_NOTE: &str = "A pH meter's automatic temperature compensation corrects the electrode's slope for temperature, not the buffer's chemistry: the buffer's own pH still changes with temperature, so compare the reading with the pH given for the temperature it is read at.";
+
+/// What the meter shows while the buffer is made.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct MeterReading {
+    /// Preparation temperature, °C (the working temperature when none was given).
+    pub temperature_c: f64,
+    /// pH of the solution being made (the concentrate, when one is made) at
+    /// that temperature: same total composition, pK(T), Kw(T) and
+    /// Debye–Hückel A(T), ionic strength solved again.
+    pub ph: f64,
+}
+
+/// The concentrate itself, before dilution.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct ConcentrateResult {
+    /// Concentrate factor N.
+    pub factor: f64,
+    /// Predicted pH of the concentrate at the working temperature
+    /// (indicative when its ionic strength is beyond the activity model).
+    pub ph: f64,
+    /// Ionic strength of the concentrate, mol/L.
+    pub ionic_strength: f64,
 }
 
 /// One thing to weigh or pour.
@@ -128,6 +183,41 @@ pub enum RecipeWarning {
         /// Actual pH of the estimate minus the target.
         difference: f64,
     },
+    /// The concentrate's ionic strength is past the Davies model's range:
+    /// its predicted pH is indicative, the diluted buffer's is exact.
+    ConcentrateBeyondModel {
+        /// Concentrate factor.
+        factor: f64,
+        /// Ionic strength of the concentrate, mol/L.
+        ionic_strength: f64,
+    },
+}
+
+impl RecipeWarning {
+    /// Plain-language text of the warning, for pages and reports.
+    pub fn message(&self) -> String {
+        match self {
+            Self::FarFromPk { distance, pk } => format!(
+                "The target is {} pH units from the nearest pK ({pk:.2}): this buffer has little capacity there.",
+                sig(*distance, 2)
+            ),
+            Self::IonicStrengthBeyondModel { ionic_strength } => format!(
+                "Ionic strength {} M is beyond the range the Davies equation is trusted in (about {DAVIES_LIMIT} M): treat the predicted pH as approximate and check with a meter.",
+                sig(*ionic_strength, 3)
+            ),
+            Self::EstimateOff { difference } => format!(
+                "The Henderson–Hasselbalch estimate would miss the target by {difference:+.2} pH: weigh the exact amounts."
+            ),
+            Self::ConcentrateBeyondModel {
+                factor,
+                ionic_strength,
+            } => format!(
+                "The {}× concentrate's ionic strength, {} M, is beyond the range the Davies equation is trusted in (about {DAVIES_LIMIT} M): its predicted pH and meter reading are indicative; the diluted buffer's pH is exact.",
+                sig_trim(*factor, 3),
+                sig(*ionic_strength, 3)
+            ),
+        }
+    }
 }
 
 /// The Henderson–Hasselbalch estimate beside the exact recipe.
@@ -162,8 +252,13 @@ pub struct RecipeResult {
     pub estimate: Estimate,
     /// Warnings.
     pub warnings: Vec<RecipeWarning>,
-    /// The finished solution as a mixture (for plots and what-ifs).
+    /// The finished solution as a mixture (for plots and what-ifs); with a
+    /// concentrate, the diluted working buffer.
     pub mixture: MixtureSpec,
+    /// What the meter reads while the buffer is made.
+    pub meter: MeterReading,
+    /// The concentrate, when one is made (factor above 1).
+    pub concentrate: Option<ConcentrateResult>,
 }
 
 struct FormInfo<'a> {
@@ -269,7 +364,7 @@ pub fn suggest_pair(
             field: "method".into(),
             reason: format!(
                 "no shelf forms for both sides of step {k} of {}; choose the forms by hand",
-                sys.name
+                clip(&sys.name, QUOTE_MAX)
             ),
         }),
     }
@@ -290,13 +385,26 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
     in_range("total_conc_m", c, 1e-9, 5.0)?;
     in_range("volume_l", spec.volume_l, 1e-6, 1000.0)?;
     in_range("tolerance_ph", spec.tolerance_ph, 1e-4, 2.0)?;
-    if let Some(s) = &spec.salt {
-        non_negative("salt.conc_m", s.conc_m)?;
-        if s.additive.charge() != 0.0 {
-            return Err(SolverError::Infeasible {
-                field: "salt.additive".into(),
-                reason: "the added salt must be neutral (NaCl or KCl); use the titration method for acids and bases".into(),
-            });
+    if let Some(t) = spec.prepare_temperature_c {
+        in_range("prepare_temperature_c", t, 0.0, 60.0)?;
+    }
+    in_range(
+        "concentrate_factor",
+        spec.concentrate_factor,
+        1.0,
+        CONCENTRATE_FACTOR_MAX,
+    )?;
+    validate_salts(&spec.salts)?;
+    // What a concentrate holds without solving anything: the buffer total and
+    // the salts (the forms and titrant are checked once the recipe is known).
+    let n = spec.concentrate_factor;
+    if spec.total_conc_m * n > CONCENTRATE_MAX_M {
+        let what = format!("{} (buffer total)", clip(&spec.system, QUOTE_MAX));
+        return Err(too_concentrated(n, &what, spec.total_conc_m * n));
+    }
+    for s in &spec.salts {
+        if s.conc_m * n > CONCENTRATE_MAX_M {
+            return Err(too_concentrated(n, s.additive.formula(), s.conc_m * n));
         }
     }
     match &spec.method {
@@ -319,6 +427,34 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
         } => {
             in_range("method.acid_stock_m", *acid_stock_m, 1e-6, 20.0)?;
             in_range("method.base_stock_m", *base_stock_m, 1e-6, 20.0)?;
+        }
+    }
+    Ok(())
+}
+
+/// Check a recipe's salts: amounts finite and not negative, each salt
+/// neutral and listed once. Fields are named `salts[i]...`.
+///
+/// # Errors
+///
+/// The first bad salt, by its index.
+pub fn validate_salts(salts: &[AdditiveSpec]) -> Result<()> {
+    for (i, s) in salts.iter().enumerate() {
+        non_negative(&format!("salts[{i}].conc_m"), s.conc_m)?;
+        if s.additive.charge() != 0.0 {
+            return Err(SolverError::Infeasible {
+                field: format!("salts[{i}].additive"),
+                reason: "an added salt must be neutral (NaCl or KCl); use the titration method for acids and bases".into(),
+            });
+        }
+        if let Some(j) = salts.iter().take(i).position(|o| o.additive == s.additive) {
+            return Err(SolverError::Infeasible {
+                field: format!("salts[{i}]"),
+                reason: format!(
+                    "{} is listed twice (also salts[{j}]): merge them into one entry",
+                    s.additive.formula()
+                ),
+            });
         }
     }
     Ok(())
@@ -391,7 +527,7 @@ fn empty_mixture(spec: &RecipeSpec) -> MixtureSpec {
         temperature_c: spec.temperature_c,
         activity: spec.activity,
         components: vec![],
-        additives: spec.salt.iter().copied().collect(),
+        additives: spec.salts.clone(),
     }
 }
 
@@ -438,6 +574,9 @@ fn finish(
 ) -> Result<(MixtureSpec, Vec<Ingredient>)> {
     let c = spec.total_conc_m;
     let v = spec.volume_l;
+    // Amounts are for the concentrate: N times the working buffer's, in the
+    // same final volume (N = 1: the working buffer itself).
+    let amt = v * spec.concentrate_factor;
     let mut mix = empty_mixture(spec);
     let mut ing = Vec::new();
     match forms {
@@ -466,8 +605,8 @@ fn finish(
             mix.components.push(component(sys, a, na));
             mix.components.push(component(sys, b, nb));
             if let Some((acid_stock_m, base_stock_m)) = *stocks {
-                let ia = pour(&a.form.formula, &a.form.name, na * v, acid_stock_m);
-                let ib = pour(&b.form.formula, &b.form.name, nb * v, base_stock_m);
+                let ia = pour(&a.form.formula, &a.form.name, na * amt, acid_stock_m);
+                let ib = pour(&b.form.formula, &b.form.name, nb * amt, base_stock_m);
                 let total_ml = ia.ml.unwrap_or(0.0) + ib.ml.unwrap_or(0.0);
                 if check && total_ml > v * 1000.0 * (1.0 + 1e-9) {
                     return Err(SolverError::Infeasible {
@@ -481,8 +620,8 @@ fn finish(
                 ing.push(ia);
                 ing.push(ib);
             } else {
-                ing.push(weigh(&a.form.formula, &a.form.name, na * v)?);
-                ing.push(weigh(&b.form.formula, &b.form.name, nb * v)?);
+                ing.push(weigh(&a.form.formula, &a.form.name, na * amt)?);
+                ing.push(weigh(&b.form.formula, &b.form.name, nb * amt)?);
             }
         }
         Forms::Titrate {
@@ -511,8 +650,13 @@ fn finish(
                 additive: *titrant,
                 conc_m: x,
             });
-            ing.push(weigh(&f.form.formula, &f.form.name, nf * v)?);
-            let t = pour(titrant.formula(), titrant_name(*titrant), x * v, *titrant_m);
+            ing.push(weigh(&f.form.formula, &f.form.name, nf * amt)?);
+            let t = pour(
+                titrant.formula(),
+                titrant_name(*titrant),
+                x * amt,
+                *titrant_m,
+            );
             if check && t.ml.unwrap_or(0.0) > v * 1000.0 {
                 return Err(SolverError::Infeasible {
                     field: "method.titrant_m".into(),
@@ -523,16 +667,68 @@ fn finish(
             ing.push(t);
         }
     }
-    if let Some(s) = &spec.salt {
+    for s in &spec.salts {
         if s.conc_m > 0.0 {
             ing.push(weigh(
                 s.additive.formula(),
                 titrant_name(s.additive),
-                s.conc_m * v,
+                s.conc_m * amt,
             )?);
         }
     }
     Ok((mix, ing))
+}
+
+/// The refusal of a concentrate holding `c` mol/L of `what`.
+fn too_concentrated(factor: f64, what: &str, c: f64) -> SolverError {
+    SolverError::Infeasible {
+        field: "concentrate_factor".into(),
+        reason: format!(
+            "the {}× concentrate would hold {} mol/L of {what}, above {CONCENTRATE_MAX_M} mol/L (a sanity bound for solubility); choose a smaller factor",
+            sig_trim(factor, 3),
+            sig(c, 3)
+        ),
+    }
+}
+
+/// The concentrate of a finished working buffer: every amount times the
+/// factor; `None` for factor 1.
+///
+/// # Errors
+///
+/// [`SolverError::Infeasible`] on `concentrate_factor` when anything in the
+/// concentrate (a form, the buffer's total, a salt or titrant) would pass
+/// [`CONCENTRATE_MAX_M`].
+fn concentrate_of(
+    spec: &RecipeSpec,
+    sys: &AcidSystem,
+    working: &MixtureSpec,
+) -> Result<Option<MixtureSpec>> {
+    let factor = spec.concentrate_factor;
+    if factor == 1.0 {
+        return Ok(None);
+    }
+    let mut m = working.clone();
+    let too_much = |what: &str, c: f64| too_concentrated(factor, what, c);
+    let total = spec.total_conc_m * factor;
+    if total > CONCENTRATE_MAX_M {
+        let what = format!("{} (buffer total)", clip(&sys.name, QUOTE_MAX));
+        return Err(too_much(&what, total));
+    }
+    for c in &mut m.components {
+        c.conc_m *= factor;
+        if c.conc_m > CONCENTRATE_MAX_M {
+            let what = c.form.as_deref().unwrap_or(c.system.as_str());
+            return Err(too_much(&clip(what, QUOTE_MAX), c.conc_m));
+        }
+    }
+    for a in &mut m.additives {
+        a.conc_m *= factor;
+        if a.conc_m > CONCENTRATE_MAX_M {
+            return Err(too_much(a.additive.formula(), a.conc_m));
+        }
+    }
+    Ok(Some(m))
 }
 
 fn titrant_name(a: Additive) -> &'static str {
@@ -582,13 +778,15 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
 ///     temperature_c: 37.0,
 ///     total_conc_m: 0.05,
 ///     volume_l: 0.5,
-///     salt: None,
+///     salts: vec![],
 ///     activity: ActivityModel::Davies,
 ///     method: Method::TwoForms {
 ///         acid_form: "nah2po4_h2o".into(),
 ///         base_form: "na2hpo4_7h2o".into(),
 ///     },
 ///     tolerance_ph: 0.05,
+///     prepare_temperature_c: None,
+///     concentrate_factor: 1.0,
 /// };
 /// let r = solve_recipe(&spec, &[])?;
 /// assert!((r.equilibrium.ph - 7.4).abs() < 1e-6);
@@ -599,6 +797,9 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
 pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeResult> {
     validate(spec)?;
     let sys = lookup(&spec.system, custom)?;
+    if let Some(t) = spec.prepare_temperature_c {
+        in_range("prepare_temperature_c", t, sys.t_min_c, sys.t_max_c)?;
+    }
     let pks = system_pks(sys, spec.temperature_c)?;
     let (k, pk) = nearest_of(sys, &pks, spec.target_ph)?;
     let forms = resolve_forms(spec, sys)?;
@@ -606,9 +807,36 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
     let prepared = prepare(&st.base, custom)?;
     let (x, _) = solve_addition(&prepared.composition, spec.target_ph, st.dcharge, st.dz2)?;
     let (mixture, ingredients) = finish(spec, sys, &forms, x, true)?;
+    let concentrated = concentrate_of(spec, sys, &mixture)?;
     let p = prepare(&mixture, custom)?;
     let eq = solve(&p.composition, spec.target_ph)?;
     let tol = tolerance(&p, &eq, spec.tolerance_ph)?;
+    let concentrate = match &concentrated {
+        Some(m) => {
+            let e = prepare(m, custom)?.solve()?;
+            Some(ConcentrateResult {
+                factor: spec.concentrate_factor,
+                ph: e.ph,
+                ionic_strength: e.ionic_strength,
+            })
+        }
+        None => None,
+    };
+    // The meter reads the solution being made (the concentrate, if any) at
+    // the preparation temperature.
+    let t_prep = spec.prepare_temperature_c.unwrap_or(spec.temperature_c);
+    let vessel_ph = concentrate.map_or(eq.ph, |c| c.ph);
+    let meter_ph = if t_prep == spec.temperature_c {
+        vessel_ph
+    } else {
+        let mut m = concentrated.unwrap_or_else(|| mixture.clone());
+        m.temperature_c = t_prep;
+        solve(&prepare(&m, custom)?.composition, vessel_ph)?.ph
+    };
+    let meter = MeterReading {
+        temperature_c: t_prep,
+        ph: meter_ph,
+    };
 
     // Henderson–Hasselbalch: share f of level k, rest at k−1, spectator
     // charge S = C (k − 1 + f − z₀); ideal, no water terms.
@@ -656,7 +884,21 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
             warnings.push(RecipeWarning::EstimateOff { difference: d });
         }
     }
-    let steps = steps_text(spec, &ingredients);
+    let indicative = match concentrate {
+        Some(c) if spec.activity == ActivityModel::Davies && c.ionic_strength > DAVIES_LIMIT => {
+            warnings.push(RecipeWarning::ConcentrateBeyondModel {
+                factor: c.factor,
+                ionic_strength: c.ionic_strength,
+            });
+            true
+        }
+        _ => false,
+    };
+    let steps = if concentrate.is_none() && t_prep == spec.temperature_c {
+        steps_text(spec, &ingredients)
+    } else {
+        bench_steps(spec, &ingredients, &meter, indicative)
+    };
     Ok(RecipeResult {
         ingredients,
         steps,
@@ -667,6 +909,8 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
         estimate,
         warnings,
         mixture,
+        meter,
+        concentrate,
     })
 }
 
@@ -772,6 +1016,138 @@ fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
         sig_fixed(spec.target_ph, 2),
         sig(spec.temperature_c, 3)
     ));
+    steps
+}
+
+/// [`sig`] without trailing zeros: `10`, `2.5`.
+pub fn sig_trim(v: f64, n: i32) -> String {
+    let t = sig(v, n);
+    if t.contains('.') {
+        t.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        t
+    }
+}
+
+/// A volume in plain words: `50 mL`, `1.5 L`.
+fn volume_words(ml: f64) -> String {
+    if ml >= 1000.0 {
+        format!("{} L", sig_trim(ml / 1000.0, 4))
+    } else {
+        format!("{} mL", sig_trim(ml, 4))
+    }
+}
+
+/// Steps at the bench when the buffer is made at another temperature than
+/// it is used at, or made as a concentrate: what to dissolve, at which
+/// temperature to read the meter, what it should read there, how to dilute.
+fn bench_steps(
+    spec: &RecipeSpec,
+    ing: &[Ingredient],
+    meter: &MeterReading,
+    indicative: bool,
+) -> Vec<String> {
+    let v_ml = spec.volume_l * 1000.0;
+    let n = spec.concentrate_factor;
+    let tp = sig(meter.temperature_c, 3);
+    let t = sig(spec.temperature_c, 3);
+    let target = sig_fixed(spec.target_ph, 2);
+    let reading = format!("pH {} at {tp} °C", sig_fixed(meter.ph, 2));
+    let (what, beside) = if n > 1.0 {
+        (
+            format!("the {}× concentrate", sig_trim(n, 3)),
+            format!(
+                "diluted {}-fold it is pH {target} at {t} °C",
+                sig_trim(n, 3)
+            ),
+        )
+    } else {
+        (
+            "the buffer".to_string(),
+            format!("pH {target} at the working temperature, {t} °C"),
+        )
+    };
+    let hedge = if indicative {
+        " — indicative only: the concentrate is beyond the activity model's range"
+    } else {
+        ""
+    };
+    let mut steps = Vec::new();
+    let mut pours = Vec::new();
+    for i in ing {
+        match (i.grams, i.ml) {
+            (Some(g), _) => steps.push(format!(
+                "Weigh {} of {} — {}.",
+                format_mass(g),
+                i.formula,
+                i.name
+            )),
+            (None, Some(ml)) => pours.push((i, ml)),
+            _ => {}
+        }
+    }
+    match &spec.method {
+        Method::TwoStocks { .. } => {
+            for (i, ml) in &pours {
+                steps.push(format!(
+                    "Measure {} of {} M {} stock.",
+                    format_volume_ml(*ml),
+                    sig(i.stock_m.unwrap_or(0.0), 3),
+                    i.formula
+                ));
+            }
+            steps.push(format!(
+                "Combine in a {} mL volumetric flask, bring to {tp} °C and make up to the mark with water.",
+                sig(v_ml, 4)
+            ));
+        }
+        Method::Titrate { .. } => {
+            steps.push(format!(
+                "Dissolve in about {} mL of water and bring to {tp} °C.",
+                sig(v_ml * 0.8, 3)
+            ));
+            for (i, ml) in &pours {
+                if indicative {
+                    steps.push(format!(
+                        "Add exactly {} of {} M {} while stirring (the computed amount; the meter should then read about {reading}{hedge}).",
+                        format_volume_ml(*ml),
+                        sig(i.stock_m.unwrap_or(0.0), 3),
+                        i.formula
+                    ));
+                } else {
+                    steps.push(format!(
+                        "Add {} of {} M {} while stirring (predicted), titrating until the meter reads {reading} ({beside}).",
+                        format_volume_ml(*ml),
+                        sig(i.stock_m.unwrap_or(0.0), 3),
+                        i.formula
+                    ));
+                }
+            }
+            steps.push(format!(
+                "Make up to {} mL with water at {tp} °C.",
+                sig(v_ml, 4)
+            ));
+        }
+        Method::TwoForms { .. } => {
+            steps.push(format!(
+                "Dissolve in about {} mL of water, bring to {tp} °C, then make up to {} mL.",
+                sig(v_ml * 0.8, 3),
+                sig(v_ml, 4)
+            ));
+        }
+    }
+    steps.push(format!(
+        "Check: the meter should read {reading} for {what} ({beside}){hedge}."
+    ));
+    if n > 1.0 {
+        steps.push(format!(
+            "Before use, dilute 1 + {} with water: {} of concentrate made up to {} gives pH {target} at {t} °C; this batch makes {}.",
+            sig_trim(n - 1.0, 3),
+            volume_words(v_ml / n),
+            volume_words(v_ml),
+            volume_words(v_ml * n)
+        ));
+    }
     steps
 }
 

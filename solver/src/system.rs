@@ -46,6 +46,7 @@ impl Ion {
 /// How a dissociation constant varies with temperature.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(tag = "kind", rename_all = "snake_case")]
+#[serde(deny_unknown_fields)]
 pub enum TempModel {
     /// Van 't Hoff with constant heat capacity (Goldberg, Kishore & Lennen 2002):
     ///
@@ -93,6 +94,7 @@ pub enum PkFormula {
 
 /// One dissociation step `HₙA ⇌ H⁺ + Hₙ₋₁A`.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct Step {
     /// Thermodynamic pK at 25 °C and I = 0.
     pub pk25: f64,
@@ -102,6 +104,7 @@ pub struct Step {
 
 /// A reagent as it sits on the shelf: a salt, a free acid or base, a hydrate.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct ReagentForm {
     /// Stable identifier, unique within its system (`na2hpo4_7h2o`).
     pub id: String,
@@ -132,6 +135,7 @@ pub enum Hazard {
 
 /// A polyprotic acid–base system with its constants and shelf forms.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
 pub struct AcidSystem {
     /// Stable identifier (`phosphate`).
     pub id: String,

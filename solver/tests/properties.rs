@@ -135,8 +135,9 @@ proptest! {
         };
         let spec = RecipeSpec {
             system: sys.id.clone(), target_ph: target, temperature_c: t,
-            total_conc_m: 10f64.powf(lc), volume_l: 1.0, salt: None,
+            total_conc_m: 10f64.powf(lc), volume_l: 1.0, salts: vec![],
             activity: ActivityModel::Davies, method: m, tolerance_ph: 0.05,
+            prepare_temperature_c: None, concentrate_factor: 1.0,
         };
         // Some targets are legitimately infeasible (e.g. beyond what the pair spans);
         // those must be errors, and every success must round-trip.
@@ -157,9 +158,11 @@ proptest! {
         let _ = solve_mixture(&spec, &[]);
         let mut r = RecipeSpec {
             system: "tris".into(), target_ph: ph, temperature_c: t, total_conc_m: c, volume_l: c,
-            salt: None, activity: ActivityModel::Davies,
+            salts: vec![], activity: ActivityModel::Davies,
             method: Method::TwoForms { acid_form: "tris_hcl".into(), base_form: "tris_base".into() },
             tolerance_ph: 0.05,
+            prepare_temperature_c: None,
+            concentrate_factor: 1.0,
         };
         let _ = solve_recipe(&r, &[]);
         r.system = "no_such".into();

@@ -136,10 +136,12 @@ fn recipe(method: Method, system: &str, target: f64, t: f64) -> RecipeSpec {
         temperature_c: t,
         total_conc_m: 0.05,
         volume_l: 0.5,
-        salt: None,
+        salts: vec![],
         activity: ActivityModel::Davies,
         method,
         tolerance_ph: 0.05,
+        prepare_temperature_c: None,
+        concentrate_factor: 1.0,
     }
 }
 

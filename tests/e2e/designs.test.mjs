@@ -74,7 +74,7 @@ test('save, reload and find the design; unsaved edits survive a reload', async (
     const index = JSON.parse(store['bufferwright.index']);
     assert.equal(index.ids.length, 1);
     const doc = JSON.parse(store[`bufferwright.design.${index.ids[0]}`]);
-    assert.equal(doc.schema, 1);
+    assert.equal(doc.schema, 2);
     assert.equal(doc.name, 'Wash buffer A');
     assert.equal(doc.recipe.target_ph, 6.8);
     assert.ok(doc.saved_at_ms > 0);

@@ -10,7 +10,7 @@
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
 
 use solver::design::{demo_design, parse_design, report, to_json_pretty, Report};
-use solver::recipe::{format_mass, format_volume_ml, sig};
+use solver::recipe::{format_mass, format_volume_ml, sig, sig_trim, METER_NOTE};
 use std::io::Read;
 use std::process::ExitCode;
 
@@ -106,6 +106,19 @@ fn render_table(r: &Report) -> String {
                 sig(rec.equilibrium.ionic_strength, 3),
                 sig(rec.equilibrium.capacity * 1000.0, 3)
             ));
+            out.push_str(&format!(
+                "  meter reads       pH {:.2} at {} °C\n",
+                rec.meter.ph,
+                sig(rec.meter.temperature_c, 3)
+            ));
+            if let Some(c) = &rec.concentrate {
+                out.push_str(&format!(
+                    "  concentrate {:>4}×  pH {:.2}, ionic strength {} M\n",
+                    sig_trim(c.factor, 3),
+                    c.ph,
+                    sig(c.ionic_strength, 3)
+                ));
+            }
             if let Some(a) = rec.estimate.actual_ph {
                 out.push_str(&format!(
                     "  HH estimate gives pH {:.3} (off by {:+.3})\n",
@@ -119,6 +132,12 @@ fn render_table(r: &Report) -> String {
                 sig(rec.tolerance.acid_mmol_per_l, 3),
                 sig(rec.tolerance.base_mmol_per_l, 3)
             ));
+            if rec.meter.temperature_c != rec.mixture.temperature_c {
+                out.push_str(&format!("  note: {METER_NOTE}\n"));
+            }
+            for w in &rec.warnings {
+                out.push_str(&format!("  warning: {}\n", w.message()));
+            }
             for (n, s) in rec.steps.iter().enumerate() {
                 out.push_str(&format!("  {}. {}\n", n + 1, s));
             }

@@ -156,7 +156,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
             <MethodInputs spec=spec custom=custom result=result notice=notice />
             <details class="more">
                 <summary>"Salt, activity model and tolerance"</summary>
-                <SaltInputs spec=spec err=err_for("salt.conc_m") />
+                <SaltInputs spec=spec err=err_for("salts[0].conc_m") />
                 <Choice
                     name="recipe-activity"
                     legend="Activity model"
@@ -549,7 +549,7 @@ fn SaltInputs(spec: Memo<RecipeSpec>, err: Signal<Option<String>>) -> impl IntoV
     let app = use_app();
     let design = app.design;
     let readonly = move || app.view.with(|v| v.readonly);
-    let salt = move || spec.with(|s| s.salt.map(|a| a.additive));
+    let salt = move || spec.with(|s| s.salts.first().map(|a| a.additive));
     let current = move || match salt() {
         Some(Additive::Kcl) => "kcl",
         Some(_) => "nacl",
@@ -566,12 +566,17 @@ fn SaltInputs(spec: Memo<RecipeSpec>, err: Signal<Option<String>>) -> impl IntoV
                     on:change=move |ev| {
                         let v = event_target_value(&ev);
                         design.update(|d| {
-                            let conc = d.recipe.salt.map_or(0.15, |s| s.conc_m);
-                            d.recipe.salt = match v.as_str() {
+                            let conc = d.recipe.salts.first().map_or(0.15, |s| s.conc_m);
+                            let first = match v.as_str() {
                                 "nacl" => Some(AdditiveSpec { additive: Additive::Nacl, conc_m: conc }),
                                 "kcl" => Some(AdditiveSpec { additive: Additive::Kcl, conc_m: conc }),
                                 _ => None,
                             };
+                            match (first, d.recipe.salts.first_mut()) {
+                                (Some(a), Some(s0)) => *s0 = a,
+                                (Some(a), None) => d.recipe.salts.push(a),
+                                (None, _) => d.recipe.salts.clear(),
+                            }
                         });
                     }
                 >
@@ -584,10 +589,10 @@ fn SaltInputs(spec: Memo<RecipeSpec>, err: Signal<Option<String>>) -> impl IntoV
                 <NumberField
                     id="recipe-salt-conc"
                     label="Salt concentration"
-                    value=Signal::derive(move || spec.with(|s| s.salt.map_or(0.0, |a| a.conc_m)))
+                    value=Signal::derive(move || spec.with(|s| s.salts.first().map_or(0.0, |a| a.conc_m)))
                     on_value=Callback::new(move |v: f64| {
                         design.update(|d| {
-                            if let Some(s) = d.recipe.salt.as_mut() {
+                            if let Some(s) = d.recipe.salts.first_mut() {
                                 s.conc_m = v;
                             }
                         })

@@ -80,6 +80,7 @@ pub fn warning_text(w: &RecipeWarning) -> String {
             "The Henderson–Hasselbalch estimate would miss the target by {} pH: weigh the exact amounts above.",
             fmt_dph(*difference)
         ),
+        RecipeWarning::ConcentrateBeyondModel { .. } => w.message(),
     }
 }
 

@@ -1,0 +1,244 @@
+//! A recipe's bench steps in words, and the number formats amounts are written in.
+
+use super::*;
+
+/// Format a mass with sensible significant figures (g or mg).
+pub fn format_mass(g: f64) -> String {
+    if !g.is_finite() {
+        return "—".into();
+    }
+    if g.abs() < 1.0 {
+        format!("{} mg", sig(g * 1000.0, 4))
+    } else {
+        format!("{} g", sig(g, 4))
+    }
+}
+
+/// Format a volume (mL or µL) with sensible significant figures.
+pub fn format_volume_ml(ml: f64) -> String {
+    if !ml.is_finite() {
+        return "—".into();
+    }
+    if ml.abs() < 1.0 {
+        format!("{} µL", sig(ml * 1000.0, 3))
+    } else {
+        format!("{} mL", sig(ml, 4))
+    }
+}
+
+/// Round to `n` significant figures and print without exponent.
+pub fn sig(v: f64, n: i32) -> String {
+    if v == 0.0 || !v.is_finite() {
+        return "0".into();
+    }
+    let mag = v.abs().log10().floor() as i32;
+    // Far from 1 (a hand-edited document carrying 1e-300 L), plain decimals
+    // would run to hundreds of digits: use an exponent instead.
+    if !(-6..15).contains(&mag) {
+        let digits = (n - 1).max(0) as usize;
+        return format!("{v:.digits$e}");
+    }
+    let decimals = (n - 1 - mag).max(0) as usize;
+    format!("{v:.decimals$}")
+}
+
+pub(crate) fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
+    let v_ml = spec.volume_l * 1000.0;
+    let mut steps = Vec::new();
+    let mut pours = Vec::new();
+    for i in ing {
+        match (i.grams, i.ml) {
+            (Some(g), _) => steps.push(format!(
+                "Weigh {} of {} — {}.",
+                format_mass(g),
+                i.formula,
+                i.name
+            )),
+            (None, Some(ml)) => pours.push((i, ml)),
+            _ => {}
+        }
+    }
+    match &spec.method {
+        Method::TwoStocks { .. } => {
+            for (i, ml) in &pours {
+                steps.push(format!(
+                    "Measure {} of {} M {} stock.",
+                    format_volume_ml(*ml),
+                    sig(i.stock_m.unwrap_or(0.0), 3),
+                    i.formula
+                ));
+            }
+            steps.push(format!(
+                "Combine in a {} mL volumetric flask and make up to the mark with water at {} °C.",
+                sig(v_ml, 4),
+                sig(spec.temperature_c, 3)
+            ));
+        }
+        Method::Titrate { .. } => {
+            steps.push(format!(
+                "Dissolve in about {} mL of water.",
+                sig(v_ml * 0.8, 3)
+            ));
+            for (i, ml) in &pours {
+                steps.push(format!(
+                    "Add {} of {} M {} while stirring (predicted); confirm with a calibrated pH meter at {} °C.",
+                    format_volume_ml(*ml),
+                    sig(i.stock_m.unwrap_or(0.0), 3),
+                    i.formula,
+                    sig(spec.temperature_c, 3)
+                ));
+            }
+            steps.push(format!("Make up to {} mL with water.", sig(v_ml, 4)));
+        }
+        Method::TwoForms { .. } => {
+            steps.push(format!(
+                "Dissolve in about {} mL of water, then make up to {} mL at {} °C.",
+                sig(v_ml * 0.8, 3),
+                sig(v_ml, 4),
+                sig(spec.temperature_c, 3)
+            ));
+        }
+    }
+    steps.push(format!(
+        "Check: pH {} at {} °C.",
+        sig_fixed(spec.target_ph, 2),
+        sig(spec.temperature_c, 3)
+    ));
+    steps
+}
+
+/// [`sig`] without trailing zeros: `10`, `2.5`.
+pub fn sig_trim(v: f64, n: i32) -> String {
+    let t = sig(v, n);
+    if t.contains('.') {
+        t.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        t
+    }
+}
+
+/// A volume in plain words: `50 mL`, `1.5 L`.
+pub(crate) fn volume_words(ml: f64) -> String {
+    if ml >= 1000.0 {
+        format!("{} L", sig_trim(ml / 1000.0, 4))
+    } else {
+        format!("{} mL", sig_trim(ml, 4))
+    }
+}
+
+/// Steps at the bench when the buffer is made at another temperature than
+/// it is used at, or made as a concentrate: what to dissolve, at which
+/// temperature to read the meter, what it should read there, how to dilute.
+pub(crate) fn bench_steps(
+    spec: &RecipeSpec,
+    ing: &[Ingredient],
+    meter: &MeterReading,
+    indicative: bool,
+) -> Vec<String> {
+    let v_ml = spec.volume_l * 1000.0;
+    let n = spec.concentrate_factor;
+    let tp = sig(meter.temperature_c, 3);
+    let t = sig(spec.temperature_c, 3);
+    let target = sig_fixed(spec.target_ph, 2);
+    let reading = format!("pH {} at {tp} °C", sig_fixed(meter.ph, 2));
+    let (what, beside) = if n > 1.0 {
+        (
+            format!("the {}× concentrate", sig_trim(n, 3)),
+            format!(
+                "diluted {}-fold it is pH {target} at {t} °C",
+                sig_trim(n, 3)
+            ),
+        )
+    } else {
+        (
+            "the buffer".to_string(),
+            format!("pH {target} at the working temperature, {t} °C"),
+        )
+    };
+    let hedge = if indicative {
+        " — indicative only: the concentrate is beyond the activity model's range"
+    } else {
+        ""
+    };
+    let mut steps = Vec::new();
+    let mut pours = Vec::new();
+    for i in ing {
+        match (i.grams, i.ml) {
+            (Some(g), _) => steps.push(format!(
+                "Weigh {} of {} — {}.",
+                format_mass(g),
+                i.formula,
+                i.name
+            )),
+            (None, Some(ml)) => pours.push((i, ml)),
+            _ => {}
+        }
+    }
+    match &spec.method {
+        Method::TwoStocks { .. } => {
+            for (i, ml) in &pours {
+                steps.push(format!(
+                    "Measure {} of {} M {} stock.",
+                    format_volume_ml(*ml),
+                    sig(i.stock_m.unwrap_or(0.0), 3),
+                    i.formula
+                ));
+            }
+            steps.push(format!(
+                "Combine in a {} mL volumetric flask, bring to {tp} °C and make up to the mark with water.",
+                sig(v_ml, 4)
+            ));
+        }
+        Method::Titrate { .. } => {
+            steps.push(format!(
+                "Dissolve in about {} mL of water and bring to {tp} °C.",
+                sig(v_ml * 0.8, 3)
+            ));
+            for (i, ml) in &pours {
+                if indicative {
+                    steps.push(format!(
+                        "Add exactly {} of {} M {} while stirring (the computed amount; the meter should then read about {reading}{hedge}).",
+                        format_volume_ml(*ml),
+                        sig(i.stock_m.unwrap_or(0.0), 3),
+                        i.formula
+                    ));
+                } else {
+                    steps.push(format!(
+                        "Add {} of {} M {} while stirring (predicted), titrating until the meter reads {reading} ({beside}).",
+                        format_volume_ml(*ml),
+                        sig(i.stock_m.unwrap_or(0.0), 3),
+                        i.formula
+                    ));
+                }
+            }
+            steps.push(format!(
+                "Make up to {} mL with water at {tp} °C.",
+                sig(v_ml, 4)
+            ));
+        }
+        Method::TwoForms { .. } => {
+            steps.push(format!(
+                "Dissolve in about {} mL of water, bring to {tp} °C, then make up to {} mL.",
+                sig(v_ml * 0.8, 3),
+                sig(v_ml, 4)
+            ));
+        }
+    }
+    steps.push(format!(
+        "Check: the meter should read {reading} for {what} ({beside}){hedge}."
+    ));
+    if n > 1.0 {
+        steps.push(format!(
+            "Before use, dilute 1 + {} with water: {} of concentrate made up to {} gives pH {target} at {t} °C; this batch makes {}.",
+            sig_trim(n - 1.0, 3),
+            volume_words(v_ml / n),
+            volume_words(v_ml),
+            volume_words(v_ml * n)
+        ));
+    }
+    steps
+}
+
+pub(crate) fn sig_fixed(v: f64, d: usize) -> String {
+    format!("{v:.d$}")
+}

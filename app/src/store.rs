@@ -1761,8 +1761,11 @@ fn open_fragment(
     hash: &str,
     href: &str,
 ) -> Option<Design> {
-    match share::decode_fragment(hash)? {
-        Ok(d) => {
+    match share::decode_link(hash)? {
+        Ok(share::LinkDesign { design: d, checked }) => {
+            if !checked {
+                store.notify(NoticeKind::Info, share::UNCHECKED_NOTE, None);
+            }
             if !store.ephemeral {
                 if let Some(kv) = kv {
                     if let Ok(Some(text)) = kv.get(DRAFT_KEY) {

@@ -100,6 +100,12 @@ pub const STOCK: Rule = Rule {
     max: 20.0,
     range_msg: "Stock strength must be above zero and at most 20 M.",
 };
+/// Concentrate factor of a recipe (1 = made at working strength).
+pub const CONCENTRATE: Rule = Rule {
+    min: 1.0,
+    max: 50.0,
+    range_msg: "A concentrate is 1× (working strength) to 50×.",
+};
 /// Dilution factor.
 pub const DILUTION: Rule = Rule {
     min: 1.0,

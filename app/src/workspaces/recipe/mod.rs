@@ -22,6 +22,7 @@ pub use result::*;
 use crate::state::use_app;
 use crate::widgets::cautions::CautionPanel;
 use crate::widgets::format::{
+    CONCENTRATE,
     error_field, error_message, fmt_sig, pretty_formula, BUFFER_CONC, CONC_UNITS, PH, STOCK,
     TEMPERATURE, TOLERANCE, VOLUME, VOLUME_UNITS,
 };
@@ -151,6 +152,28 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     rule=VOLUME
                     units=VOLUME_UNITS
                     error=err_for("volume_l")
+                />
+            </div>
+            <div class="row-2">
+                <NumberField
+                    id="recipe-prep-temp"
+                    label="Made and checked at"
+                    hint="Where the meter reads it: usually the bench, 20–25 °C."
+                    value=Signal::derive(move || spec.with(|s| s.prepare_temperature_c.unwrap_or(s.temperature_c)))
+                    on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.prepare_temperature_c = Some(v))))
+                    rule=TEMPERATURE
+                    suffix="°C"
+                    error=err_for("prepare_temperature_c")
+                />
+                <NumberField
+                    id="recipe-concentrate"
+                    label="Make as a concentrate"
+                    hint="1 = working strength; 10 = a 10× stock diluted later."
+                    value=Signal::derive(move || spec.with(|s| s.concentrate_factor))
+                    on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.concentrate_factor = v)))
+                    rule=CONCENTRATE
+                    suffix="×"
+                    error=err_for("concentrate_factor")
                 />
             </div>
             <MethodInputs spec=spec custom=custom result=result notice=notice />

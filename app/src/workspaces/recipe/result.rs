@@ -337,6 +337,8 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
     let r = result;
     let eq = &r.equilibrium;
     let checks = bench_checks(&spec, &r.ingredients);
+    let meter_shown = (r.meter.temperature_c - spec.temperature_c).abs() > 1e-9
+        || r.concentrate.is_some();
     let mut notes: Vec<String> = r.warnings.iter().map(warning_text).collect();
     if eq.warnings.contains(&Warning::ExtremePh) {
         notes.push("Extreme pH: the model is rough this far from neutral.".into());
@@ -376,9 +378,15 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
             })}
         <div class="headline">
             <div class="big-number">
-                <span class="big-label">"Predicted pH"</span>
+                <span class="big-label">{format!("Predicted pH at {} °C", fmt_input(spec.temperature_c))}</span>
                 <span class="big-value" data-testid="recipe-ph-exact">{fmt_ph(eq.ph)}</span>
             </div>
+            {meter_shown.then(|| view! {
+                <div class="big-number meter">
+                    <span class="big-label">{format!("Meter should read, at {} °C", fmt_input(r.meter.temperature_c))}</span>
+                    <span class="big-value" data-testid="recipe-meter-ph">{fmt_ph(r.meter.ph)}</span>
+                </div>
+            })}
             <dl class="facts">
                 <div>
                     <dt>"Ionic strength"</dt>
@@ -395,8 +403,17 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
                         {est_diff.map(|d| view! { <span class="delta">" (" {d} ")"</span> })}
                     </dd>
                 </div>
+                {r.concentrate.map(|c| view! {
+                    <div>
+                        <dt>{format!("The {}× concentrate itself", fmt_input(c.factor))}</dt>
+                        <dd data-testid="recipe-concentrate">
+                            {format!("pH {} · I {}", fmt_ph(c.ph), fmt_conc(c.ionic_strength))}
+                        </dd>
+                    </div>
+                })}
             </dl>
         </div>
+        {meter_shown.then(|| view! { <p class="hint meter-note">{solver::recipe::METER_NOTE}</p> })}
         <h3>"Reagents"</h3>
         <table class="table ingredients">
             <thead>

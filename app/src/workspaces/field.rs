@@ -177,7 +177,31 @@ pub fn FieldWorkspace() -> impl IntoView {
         })
     });
 
+    let answer = Signal::derive(move || {
+        if pending.get() {
+            return (
+                false,
+                "Correct the marked fields to see the reading.".to_string(),
+            );
+        }
+        result.with(|r| match r {
+            Err(e) => (false, format!("No reading: {}", error_message(e))),
+            Ok(r) => {
+                let key = spec.with(|s| key_species(&s.system)).map_or(0, |(i, _)| i);
+                let text = r.species.get(key).map_or_else(String::new, |sp| {
+                    let amount = sp
+                        .mg_l_as
+                        .filter(|_| r.basis != "mmol")
+                        .map(|v| format!(" · {} as {}", fmt_mg_l(v), r.basis))
+                        .unwrap_or_default();
+                    format!("{} {}{amount}", sp.name, fmt_pct(sp.fraction))
+                });
+                (true, text)
+            }
+        })
+    });
     view! {
+            <crate::widgets::answer::AnswerBar text=Signal::derive(move || answer.get().1) ok=Signal::derive(move || answer.get().0) />
             <div class="ws-grid field-ws">
                 <div class="inputs card">
                     <h2 class="card-title">"Reading"</h2>

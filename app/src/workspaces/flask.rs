@@ -135,7 +135,29 @@ pub fn FlaskWorkspace() -> impl IntoView {
     };
     let cautions = Signal::derive(move || spec.with(|s| custom.with(|c| mixture_cautions(s, c))));
 
+    let answer = Signal::derive(move || {
+        if pending.get() {
+            return (
+                false,
+                "Correct the marked fields to see the pH.".to_string(),
+            );
+        }
+        result.with(|r| match r {
+            Err(e) => (false, format!("No answer: {}", error_message(e))),
+            Ok(r) => (
+                true,
+                format!(
+                    "pH {} at {} °C · I {} · β {}",
+                    fmt_ph(r.equilibrium.ph),
+                    spec.with(|s| crate::widgets::format::fmt_input(s.temperature_c)),
+                    fmt_conc(r.equilibrium.ionic_strength),
+                    fmt_capacity(r.equilibrium.capacity)
+                ),
+            ),
+        })
+    });
     view! {
+        <crate::widgets::answer::AnswerBar text=Signal::derive(move || answer.get().1) ok=Signal::derive(move || answer.get().0) />
         <div class="ws-grid">
             <div class="inputs card">
                 <h2 class="card-title">"In the flask"</h2>

@@ -20,11 +20,11 @@ pub use forms::*;
 pub use result::*;
 
 use crate::state::use_app;
+use crate::widgets::answer::AnswerBar;
 use crate::widgets::cautions::CautionPanel;
 use crate::widgets::format::{
-    CONCENTRATE,
-    error_field, error_message, fmt_sig, pretty_formula, BUFFER_CONC, CONC_UNITS, PH, STOCK,
-    TEMPERATURE, TOLERANCE, VOLUME, VOLUME_UNITS,
+    error_field, error_message, fmt_sig, pretty_formula, BUFFER_CONC, CONCENTRATE, CONC_UNITS, PH,
+    STOCK, TEMPERATURE, TOLERANCE, VOLUME, VOLUME_UNITS,
 };
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
 use leptos::prelude::*;
@@ -209,7 +209,20 @@ pub fn RecipeWorkspace() -> impl IntoView {
     };
 
     let cautions = Signal::derive(move || spec.with(|s| custom.with(|c| recipe_cautions(s, c))));
+    let answer = Signal::derive(move || {
+        if pending.get() {
+            return (
+                false,
+                "Correct the marked fields to see the recipe.".to_string(),
+            );
+        }
+        result.with(|r| match r {
+            Err(e) => (false, format!("No recipe: {}", error_message(e))),
+            Ok(r) => spec.with(|s| (true, answer_line(s, r))),
+        })
+    });
     view! {
+        <AnswerBar text=Signal::derive(move || answer.get().1) ok=Signal::derive(move || answer.get().0) />
         <div class="ws-grid">
             {inputs}
             <div class="results">

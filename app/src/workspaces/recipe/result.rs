@@ -26,6 +26,30 @@ pub fn amount_text(i: &Ingredient) -> String {
     }
 }
 
+/// The recipe's answer in one line: the amounts, the pH at the working
+/// temperature and, when it differs, what the meter reads where it is made.
+pub fn answer_line(spec: &RecipeSpec, r: &RecipeResult) -> String {
+    let amounts: Vec<String> = r
+        .ingredients
+        .iter()
+        .map(|i| format!("{} {}", amount_text(i), pretty_formula(&i.formula)))
+        .collect();
+    let mut line = format!(
+        "{} · pH {} at {} °C",
+        amounts.join(" + "),
+        fmt_ph(r.equilibrium.ph),
+        fmt_input(spec.temperature_c)
+    );
+    if (r.meter.temperature_c - spec.temperature_c).abs() > 1e-9 || r.concentrate.is_some() {
+        line.push_str(&format!(
+            " · meter {} at {} °C",
+            fmt_ph(r.meter.ph),
+            fmt_input(r.meter.temperature_c)
+        ));
+    }
+    line
+}
+
 /// Above these a bench recipe is probably a unit slip (common practice of
 /// the page, not chemistry): 20 L of final volume, 1 kg of one reagent, 2 M
 /// of buffer.
@@ -337,8 +361,8 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
     let r = result;
     let eq = &r.equilibrium;
     let checks = bench_checks(&spec, &r.ingredients);
-    let meter_shown = (r.meter.temperature_c - spec.temperature_c).abs() > 1e-9
-        || r.concentrate.is_some();
+    let meter_shown =
+        (r.meter.temperature_c - spec.temperature_c).abs() > 1e-9 || r.concentrate.is_some();
     let mut notes: Vec<String> = r.warnings.iter().map(warning_text).collect();
     if eq.warnings.contains(&Warning::ExtremePh) {
         notes.push("Extreme pH: the model is rough this far from neutral.".into());

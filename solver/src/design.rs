@@ -259,6 +259,7 @@ pub fn validate_design(d: &Design) -> Result<()> {
         in_range("total", t, 0.0, 1e6).map_err(fp)?;
     }
     crate::field::ionic_from(&d.field.ionic).map_err(fp)?;
+    crate::field::validate_field(&d.field, custom).map_err(fp)?;
     Ok(())
 }
 
@@ -326,6 +327,8 @@ pub fn demo_design() -> Design {
             total: Some(0.8),
             total_unit: TotalUnit::MgPerLAs,
             ionic: IonicSource::Conductivity { us_cm: 450.0 },
+            alkalinity: None,
+            limit: None,
         },
         plot_source: PlotSource::Recipe,
         custom_systems: vec![],

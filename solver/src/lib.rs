@@ -2,10 +2,13 @@
 #![forbid(unsafe_code)]
 
 pub mod activity;
+pub mod carbonate_field;
 pub mod design;
 pub mod equilibrium;
 pub mod error;
 pub mod field;
+pub mod field_limit;
+pub mod field_plot;
 pub mod formula;
 pub mod library;
 pub mod mixture;

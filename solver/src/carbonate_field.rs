@@ -34,6 +34,13 @@ pub enum AlkalinityUnit {
     MeqPerL,
 }
 
+fn caco3() -> Result<f64> {
+    match crate::field::basis_mass("CaCO3") {
+        Some(m) => Ok(m),
+        None => molar_mass("CaCO3"),
+    }
+}
+
 /// A measured (total) alkalinity.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -58,7 +65,7 @@ impl Alkalinity {
         let v = non_negative("alkalinity.value", self.value)?;
         let meq = match self.unit {
             AlkalinityUnit::MeqPerL => v,
-            AlkalinityUnit::MgPerLCaco3 => v / (molar_mass("CaCO3")? / 2.0),
+            AlkalinityUnit::MgPerLCaco3 => v / (caco3()? / 2.0),
         };
         if meq > MAX_ALKALINITY_MEQ_L {
             return Err(SolverError::OutOfRange {
@@ -67,9 +74,7 @@ impl Alkalinity {
                 min: 0.0,
                 max: match self.unit {
                     AlkalinityUnit::MeqPerL => MAX_ALKALINITY_MEQ_L,
-                    AlkalinityUnit::MgPerLCaco3 => {
-                        MAX_ALKALINITY_MEQ_L * molar_mass("CaCO3")? / 2.0
-                    }
+                    AlkalinityUnit::MgPerLCaco3 => MAX_ALKALINITY_MEQ_L * caco3()? / 2.0,
                 },
             });
         }
@@ -144,7 +149,7 @@ pub fn carbonate_from_alkalinity(
     let g1 = sample.gamma1;
     let a_h = 10f64.powf(-ph);
     let h = a_h / g1;
-    let oh = sample.prepared.composition.kw / (a_h * g1);
+    let oh = sample.kw / (a_h * g1);
     let a0 = sample.fraction(0, ph);
     let a1 = sample.fraction(1, ph);
     let a2 = sample.fraction(2, ph);
@@ -179,7 +184,13 @@ pub fn carbonate_from_alkalinity(
         )));
     }
     let dic = carb / per_c;
-    let mg = |f: &str, c: f64| -> Result<f64> { Ok(c * molar_mass(f)? * 1000.0) };
+    let mg = |f: &str, c: f64| -> Result<f64> {
+        let m = match crate::field::basis_mass(f) {
+            Some(m) => m,
+            None => molar_mass(f)?,
+        };
+        Ok(c * m * 1000.0)
+    };
     Ok(CarbonateResult {
         dic_mmol_l: dic * 1000.0,
         free_co2_mg_l: mg("CO2", dic * a0)?,

@@ -36,11 +36,14 @@
 
 use crate::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::carbonate_field::{carbonate_from_alkalinity, Alkalinity, CarbonateResult};
+use crate::equilibrium::{fractions_into, Acid};
 use crate::error::{in_range, non_negative, Result, SolverError};
 use crate::field_limit::{evaluate_limit, validate_limit, Limit, LimitResult};
 use crate::formula::molar_mass;
-use crate::mixture::{lookup, prepare, ComponentSpec, MixtureSpec, Prepared};
-use crate::system::{AcidSystem, Hazard};
+use crate::mixture::lookup;
+use crate::system::{AcidSystem, Hazard, MAX_STEPS};
+use crate::thermo::system_pks;
+use crate::water::{debye_huckel_a, pkw};
 use serde::{Deserialize, Serialize};
 
 /// Where the ionic strength of a field sample comes from.
@@ -309,6 +312,22 @@ pub fn total_to_molar(system_id: &str, total: f64, unit: TotalUnit) -> Result<f6
     })
 }
 
+/// Molar mass of a reporting-basis or limit formula, computed once per
+/// formula (CIAAW 2021 weights through [`molar_mass`]); `None` when the
+/// formula does not parse.
+pub fn basis_mass(formula: &str) -> Option<f64> {
+    use std::sync::OnceLock;
+    const FORMULAS: [&str; 13] = [
+        "N", "NH3", "Cl2", "S", "H2S", "C", "CaCO3", "CO2", "P", "B", "HOCl", "HCO3", "CO3",
+    ];
+    static MASSES: OnceLock<Vec<Option<f64>>> = OnceLock::new();
+    let masses = MASSES.get_or_init(|| FORMULAS.iter().map(|f| molar_mass(f).ok()).collect());
+    match FORMULAS.iter().position(|f| *f == formula) {
+        Some(i) => masses.get(i).copied().flatten(),
+        None => molar_mass(formula).ok(),
+    }
+}
+
 /// Warning text for an ionic strength past the Davies range.
 pub fn beyond_davies_warning(ionic: f64) -> String {
     format!(
@@ -318,67 +337,82 @@ pub fn beyond_davies_warning(ionic: f64) -> String {
     )
 }
 
-/// A field sample resolved at its temperature: what the speciation,
-/// limit crossing and plots reuse.
-#[derive(Debug, Clone)]
+/// A field sample resolved at its temperature and ionic strength: what the
+/// speciation, alkalinity, limit crossing, plots and grids reuse. Built
+/// without the mixture machinery (no allocation beyond the pK list) because
+/// logs build one per row.
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct FieldSample {
-    /// The system's prepared composition (total 1 mol/L when none is known).
-    pub prepared: Prepared,
-    /// γ₁ at the sample's ionic strength.
+    /// The system's constants at the temperature (total 1 mol/L).
+    pub acid: Acid,
+    /// Ionic product of water at the temperature.
+    pub kw: f64,
+    /// Debye–Hückel A at the temperature.
+    pub a_dh: f64,
+    /// γ₁ at the sample's ionic strength (Davies).
     pub gamma1: f64,
     /// Ionic strength, mol/L.
     pub ionic_strength: f64,
 }
 
 impl FieldSample {
-    /// Resolve a system at a temperature and ionic strength.
+    /// Resolve a system (by id) at a temperature and ionic strength.
     ///
     /// # Errors
     ///
-    /// Unknown system, temperature outside its data.
+    /// Unknown system, temperature outside 0–60 °C or the system's data.
     pub fn new(
         system: &str,
         temperature_c: f64,
         ionic_strength: f64,
         custom: &[AcidSystem],
     ) -> Result<Self> {
-        let mix = MixtureSpec {
-            temperature_c,
-            activity: ActivityModel::Davies,
-            components: vec![ComponentSpec {
-                system: system.into(),
-                form: None,
-                conc_m: 1.0,
-            }],
-            additives: vec![],
-        };
-        let prepared = prepare(&mix, custom)?;
-        let gamma1 = crate::activity::gamma1(
-            ActivityModel::Davies,
-            prepared.composition.a_dh,
-            ionic_strength,
-        );
+        Self::for_system(lookup(system, custom)?, temperature_c, ionic_strength)
+    }
+
+    /// Resolve a system at a temperature and ionic strength.
+    ///
+    /// # Errors
+    ///
+    /// Temperature outside 0–60 °C or the system's data (field `temperature_c`).
+    pub fn for_system(sys: &AcidSystem, temperature_c: f64, ionic_strength: f64) -> Result<Self> {
+        let t = in_range("temperature_c", temperature_c, 0.0, 60.0)?;
+        let pks = system_pks(sys, t)?;
+        let a_dh = debye_huckel_a(t)?;
         Ok(Self {
-            prepared,
-            gamma1,
+            acid: Acid::from_pks(sys.z0, &pks, 1.0),
+            kw: 10f64.powf(-pkw(t)?),
+            a_dh,
+            gamma1: crate::activity::gamma1(ActivityModel::Davies, a_dh, ionic_strength),
             ionic_strength,
         })
     }
 
+    /// Fractions of every species at `ph` (most protonated first) and their number.
+    pub fn fractions(&self, ph: f64) -> ([f64; MAX_STEPS + 1], usize) {
+        let mut out = [0.0; MAX_STEPS + 1];
+        let n = fractions_into(&self.acid, ph, self.gamma1, &mut out);
+        (out, n)
+    }
+
     /// Fraction of species `index` at `ph` (0 when there is no such species).
     pub fn fraction(&self, index: usize, ph: f64) -> f64 {
-        let mut out = [0.0; crate::system::MAX_STEPS + 1];
-        match self.prepared.composition.acids.first() {
-            Some(acid) => {
-                let n = crate::equilibrium::fractions_into(acid, ph, self.gamma1, &mut out);
-                if index < n {
-                    out.get(index).copied().unwrap_or(0.0)
-                } else {
-                    0.0
-                }
-            }
-            None => 0.0,
+        let (f, n) = self.fractions(ph);
+        if index < n {
+            f.get(index).copied().unwrap_or(0.0)
+        } else {
+            0.0
         }
+    }
+
+    /// Thermodynamic pK values at the temperature (I = 0).
+    pub fn pks(&self) -> Vec<f64> {
+        self.acid
+            .ka
+            .iter()
+            .take(self.acid.n)
+            .map(|k| -k.log10())
+            .collect()
     }
 }
 
@@ -420,7 +454,7 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
     let ionic = ionic_from(&spec.ionic)?;
     let sys = lookup(&spec.system, custom)?;
     let (label, _) = reporting_basis(&sys.id);
-    let sample = FieldSample::new(&sys.id, spec.temperature_c, ionic, custom)?;
+    let sample = FieldSample::for_system(sys, spec.temperature_c, ionic)?;
     let mut warnings = Vec::new();
     if ionic > DAVIES_LIMIT {
         warnings.push(beyond_davies_warning(ionic));
@@ -444,18 +478,19 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
         (None, Some(t)) => Some(total_to_molar(&sys.id, t, spec.total_unit)?),
         (None, None) => None,
     };
-    let rows = sample.prepared.speciate(ph, ionic);
     let bases: Vec<(&str, f64)> = reporting_bases(&sys.id)
         .iter()
-        .filter_map(|(l, f)| molar_mass(f).ok().map(|m| (*l, m)))
+        .filter_map(|(l, f)| basis_mass(f).map(|m| (*l, m)))
         .collect();
     let basis_mm = bases.first().map(|b| b.1);
-    let mut species = Vec::new();
-    let mut pks = Vec::new();
-    if let Some(s) = rows.first() {
-        pks.clone_from(&s.pks);
-        for row in &s.species {
-            let conc = total_m.map(|t| t * row.fraction);
+    let pks = sample.pks();
+    let (fractions, n) = sample.fractions(ph);
+    let species = fractions
+        .iter()
+        .take(n)
+        .enumerate()
+        .map(|(j, f)| {
+            let conc = total_m.map(|t| t * f);
             let amounts = match conc {
                 Some(c) => bases
                     .iter()
@@ -466,18 +501,22 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
                     .collect(),
                 None => Vec::new(),
             };
-            species.push(FieldSpecies {
-                name: row.name.clone(),
-                fraction: row.fraction,
+            FieldSpecies {
+                name: sys
+                    .species
+                    .get(j)
+                    .cloned()
+                    .unwrap_or_else(|| format!("species {j}")),
+                fraction: *f,
                 conc_m: conc,
                 mg_l_as: conc.map(|c| match basis_mm {
                     Some(mm) => c * mm * 1000.0,
                     None => c * 1000.0,
                 }),
                 amounts,
-            });
-        }
-    }
+            }
+        })
+        .collect();
     // Apparent pK: pK − log10(γ_{z−1}/γ_z) with γ_z = γ₁^(z²), exponent 2z+1.
     let g1 = sample.gamma1;
     let apparent_pks = pks
@@ -489,7 +528,7 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
         })
         .collect();
     let limit = match (&spec.limit, total_m) {
-        (Some(l), Some(t)) => Some(evaluate_limit(l, &sample, ph, t)?),
+        (Some(l), Some(t)) => Some(evaluate_limit(l, &sample, sys, ph, t)?),
         _ => None,
     };
     Ok(FieldResult {

@@ -14,6 +14,7 @@
 use crate::error::{finite, Result, SolverError};
 use crate::field::{target_species, FieldSample};
 use crate::formula::molar_mass;
+use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};
 
 /// Unit of a limit: mass per litre of the form that matters, as a basis.
@@ -209,8 +210,8 @@ pub fn validate_limit(limit: &Limit, system_id: &str) -> Result<()> {
     Ok(())
 }
 
-/// Compare a sample (total `total_m` mol/L at `ph`) with a limit and find
-/// the crossing pH.
+/// Compare a sample of `system` (total `total_m` mol/L at `ph`) with a
+/// limit and find the crossing pH.
 ///
 /// # Errors
 ///
@@ -218,28 +219,22 @@ pub fn validate_limit(limit: &Limit, system_id: &str) -> Result<()> {
 pub fn evaluate_limit(
     limit: &Limit,
     sample: &FieldSample,
+    system: &AcidSystem,
     ph: f64,
     total_m: f64,
 ) -> Result<LimitResult> {
-    let system_id = sample
-        .prepared
-        .systems
-        .first()
-        .map(|s| s.id.as_str())
-        .unwrap_or("");
+    let system_id = system.id.as_str();
     validate_limit(limit, system_id)?;
     let (index, _) = target_species(system_id).unwrap_or((0, ""));
     let (_, basis, formula, scale) = limit.unit.parts();
-    let mm = molar_mass(formula)?;
+    let mm = match crate::field::basis_mass(formula) {
+        Some(m) => m,
+        None => molar_mass(formula)?,
+    };
     let limit_mg_l = limit.value * scale;
     let to_mg = |fraction: f64| total_m * fraction * mm * 1000.0;
     let value_mg_l = to_mg(sample.fraction(index, ph));
-    let species = sample
-        .prepared
-        .systems
-        .first()
-        .and_then(|s| s.species.get(index).cloned())
-        .unwrap_or_default();
+    let species = system.species.get(index).cloned().unwrap_or_default();
     let rises = sample.fraction(index, 14.0) > sample.fraction(index, 0.0);
     // Bisection on fraction − wanted over pH 0–14 (monotone).
     let wanted = if total_m > 0.0 {
@@ -247,19 +242,8 @@ pub fn evaluate_limit(
     } else {
         f64::INFINITY
     };
-    let g = |p: f64| sample.fraction(index, p) - wanted;
-    let crossing_ph = if wanted.is_finite() && wanted < 1.0 && g(0.0) * g(14.0) < 0.0 {
-        let (mut lo, mut hi) = (0.0_f64, 14.0_f64);
-        let glo = g(lo);
-        for _ in 0..64 {
-            let mid = 0.5 * (lo + hi);
-            if (g(mid) < 0.0) == (glo < 0.0) {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        Some(0.5 * (lo + hi))
+    let crossing_ph = if wanted.is_finite() && wanted > 0.0 && wanted < 1.0 {
+        crossing(sample, index, wanted)
     } else {
         None
     };
@@ -274,4 +258,39 @@ pub fn evaluate_limit(
         crossing_ph,
         rises_with_ph: rises,
     })
+}
+
+/// pH in 0–14 at which species `index` of `sample` is the fraction `wanted`
+/// (0 < wanted < 1), or `None`.
+///
+/// Monoprotic systems have the closed form `pH = pK' ± log10(f/(1 − f))`
+/// with the same apparent constant the speciation uses; others are solved
+/// by bisection (52 halvings of 0–14, below 1e−14 pH).
+fn crossing(sample: &FieldSample, index: usize, wanted: f64) -> Option<f64> {
+    let g = |p: f64| sample.fraction(index, p) - wanted;
+    let (g0, g14) = (g(0.0), g(14.0));
+    if g0 * g14 >= 0.0 {
+        return None;
+    }
+    let acid = &sample.acid;
+    if acid.n == 1 {
+        // K' = K γ₁^(2 z₁ + 1), z₁ = z0 − 1 (as in the engine's fractions).
+        let z1 = acid.z0 - 1;
+        let k = acid.ka.first()? * sample.gamma1.powi(2 * z1 + 1);
+        let pk = -k.log10();
+        let r = (wanted / (1.0 - wanted)).log10();
+        // index 1 (base form) rises: f/(1−f) = 10^(pH − pK'); index 0 falls.
+        let ph = if index == 1 { pk + r } else { pk - r };
+        return (0.0..=14.0).contains(&ph).then_some(ph);
+    }
+    let (mut lo, mut hi) = (0.0_f64, 14.0_f64);
+    for _ in 0..52 {
+        let mid = 0.5 * (lo + hi);
+        if (g(mid) < 0.0) == (g0 < 0.0) {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    Some(0.5 * (lo + hi))
 }

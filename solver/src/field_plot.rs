@@ -97,7 +97,7 @@ pub fn fraction_curves(
                 field: "species".into(),
                 value: i as f64,
                 min: 0.0,
-                max: (sys.species.len() - 1) as f64,
+                max: sys.species.len().saturating_sub(1) as f64,
             })
         }
         None => {

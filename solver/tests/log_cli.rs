@@ -499,3 +499,36 @@ fn grid_markdown_html_and_refusals() {
     );
     assert_eq!(code, 2, "{err}");
 }
+
+#[test]
+fn garbage_never_panics() {
+    // Deterministic pseudo-random bytes and CSV-like text (a 64-bit LCG).
+    let mut x: u64 = 0x2545_F491_4F6C_DD1D;
+    let mut next = || {
+        x = x
+            .wrapping_mul(6_364_136_223_846_793_005)
+            .wrapping_add(1_442_695_040_888_963_407);
+        (x >> 33) as usize
+    };
+    let alphabet = b"pH,;\t\"\n\r 0123456789.,-+eE temp TAN cond sal alk \xB0C\x00\xFF";
+    for opts in [
+        LogOptions::new("ammonium"),
+        LogOptions::new("carbonate"),
+        LogOptions::new("sulfide"),
+    ] {
+        for _ in 0..400 {
+            let len = next() % 200;
+            let mut bytes: Vec<u8> = b"pH;Temp;TAN;Cond;Sal;Alk\n".to_vec();
+            for _ in 0..len {
+                bytes.push(alphabet[next() % alphabet.len()]);
+            }
+            if let Ok(plan) = LogPlan::new(&bytes, &opts, &[], None) {
+                let rows = plan.compute(0..plan.len());
+                assert_eq!(rows.len(), plan.len());
+                let _ = plan.write_csv(&rows);
+            }
+            let raw: Vec<u8> = (0..len).map(|_| (next() % 256) as u8).collect();
+            let _ = run_log(&raw, &opts, &[], None);
+        }
+    }
+}

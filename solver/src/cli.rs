@@ -49,6 +49,14 @@ fn usage(msg: &str, usage: &str) -> CliOutput {
     }
 }
 
+fn help(usage: &str) -> CliOutput {
+    CliOutput {
+        stdout: format!("{usage}\n"),
+        stderr: String::new(),
+        code: 0,
+    }
+}
+
 fn refused(msg: String) -> CliOutput {
     CliOutput {
         stdout: String::new(),
@@ -150,11 +158,7 @@ pub fn log_command(
     let mut it = args.iter();
     while let Some(a) = it.next() {
         if a == "-h" || a == "--help" {
-            return CliOutput {
-                stdout: format!("{LOG_USAGE}\n"),
-                stderr: String::new(),
-                code: 0,
-            };
+            return help(LOG_USAGE);
         }
         let mut val = || {
             it.next()
@@ -290,11 +294,7 @@ pub fn grid_command(args: &[String]) -> CliOutput {
     let mut it = args.iter();
     while let Some(a) = it.next() {
         if a == "-h" || a == "--help" {
-            return CliOutput {
-                stdout: format!("{GRID_USAGE}\n"),
-                stderr: String::new(),
-                code: 0,
-            };
+            return help(GRID_USAGE);
         }
         let mut val = || {
             it.next()

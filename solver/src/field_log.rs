@@ -697,12 +697,10 @@ impl LogPlan {
     pub fn write_csv(&self, outcomes: &[RowOutcome]) -> String {
         let sep = self.table.separator;
         let width = self.table.header.len();
-        let mut out = String::with_capacity(
-            200 + outcomes.len() * (width * 10 + self.computed_header().len() * 11),
-        );
         let computed = self.computed_header();
         let n = computed.len();
         let head: Vec<String> = self.table.header.iter().cloned().chain(computed).collect();
+        let mut out = String::with_capacity(200 + outcomes.len() * (width * 10 + n * 11));
         push_row(&mut out, head.iter().map(String::as_str), sep);
         let mut by_line = self.table.rows.iter().peekable();
         for o in outcomes {

@@ -360,14 +360,9 @@ pub fn validate_design(d: &Design) -> Result<()> {
     in_range("add_base_m", w.add_base_m, 0.0, 5.0).map_err(wp)?;
     in_range("temperature_c", w.temperature_c, 0.0, 60.0).map_err(wp)?;
     // Field.
+    // Field: system, pH, temperature, total, ionic source, alkalinity, limit.
     let fp = |e| prefixed("field", e);
-    lookup(&d.field.system, custom)?;
-    in_range("ph", d.field.ph, 0.0, 14.0).map_err(fp)?;
-    in_range("temperature_c", d.field.temperature_c, 0.0, 60.0).map_err(fp)?;
-    if let Some(t) = d.field.total {
-        in_range("total", t, 0.0, 1e6).map_err(fp)?;
-    }
-    crate::field::ionic_from(&d.field.ionic).map_err(fp)?;
+    crate::field::validate_field(&d.field, custom).map_err(fp)?;
     Ok(())
 }
 
@@ -437,6 +432,8 @@ pub fn demo_design() -> Design {
             total: Some(0.8),
             total_unit: TotalUnit::MgPerLAs,
             ionic: IonicSource::Conductivity { us_cm: 450.0 },
+            alkalinity: None,
+            limit: None,
         },
         plot_source: PlotSource::Recipe,
         custom_systems: vec![],

@@ -2,11 +2,18 @@
 #![forbid(unsafe_code)]
 
 pub mod activity;
+pub mod carbonate_field;
+pub mod cli;
+pub mod csv;
 pub mod design;
 pub mod equilibrium;
 pub mod error;
 pub mod field;
+pub mod field_limit;
+pub mod field_log;
+pub mod field_plot;
 pub mod formula;
+pub mod grid;
 pub mod library;
 pub mod mixture;
 pub mod recipe;

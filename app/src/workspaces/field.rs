@@ -43,6 +43,7 @@ fn ionic_key(i: &IonicSource) -> &'static str {
         IonicSource::Direct { .. } => "direct",
         IonicSource::Conductivity { .. } => "conductivity",
         IonicSource::Tds { .. } => "tds",
+        IonicSource::Salinity { .. } => "salinity",
     }
 }
 
@@ -152,6 +153,7 @@ pub fn FieldWorkspace() -> impl IntoView {
                         IonicSource::Direct { ionic_strength } => ionic_strength,
                         IonicSource::Conductivity { us_cm } => us_cm,
                         IonicSource::Tds { mg_l } => mg_l,
+                        IonicSource::Salinity { psu } => psu,
                         IonicSource::Zero => 0.0,
                     })
                 })
@@ -160,6 +162,7 @@ pub fn FieldWorkspace() -> impl IntoView {
                         IonicSource::Direct { ionic_strength } => *ionic_strength = v,
                         IonicSource::Conductivity { us_cm } => *us_cm = v,
                         IonicSource::Tds { mg_l } => *mg_l = v,
+                        IonicSource::Salinity { psu } => *psu = v,
                         IonicSource::Zero => {}
                     })
                 })

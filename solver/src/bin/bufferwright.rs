@@ -2,6 +2,8 @@
 //!
 //! ```text
 //! bufferwright [--table] [--demo] [FILE|-]
+//! bufferwright log --system ID [options] FILE.csv|-     (see solver::cli)
+//! bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]
 //! ```
 //!
 //! Prints JSON by default (every part of the design: recipe, mixture,
@@ -17,6 +19,13 @@ use std::process::ExitCode;
 const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]";
 
 fn main() -> ExitCode {
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    let rest = args.get(1..).unwrap_or(&[]);
+    match args.first().map(String::as_str) {
+        Some("log") => return emit(solver::cli::log_command(rest, &mut read_limited)),
+        Some("grid") => return emit(solver::cli::grid_command(rest)),
+        _ => {}
+    }
     let mut table = false;
     let mut demo = false;
     let mut path: Option<String> = None;
@@ -82,6 +91,25 @@ fn main() -> ExitCode {
         }
     }
     ExitCode::SUCCESS
+}
+
+/// Print a subcommand's output and turn its code into the exit code.
+fn emit(out: solver::cli::CliOutput) -> ExitCode {
+    print!("{}", out.stdout);
+    eprint!("{}", out.stderr);
+    ExitCode::from(out.code)
+}
+
+/// Read a file (or stdin for `-`), at most one byte past the log size limit.
+fn read_limited(path: &str) -> Result<Vec<u8>, String> {
+    let limit = solver::csv::MAX_BYTES as u64 + 1;
+    let mut buf = Vec::new();
+    let r = if path == "-" {
+        std::io::stdin().take(limit).read_to_end(&mut buf)
+    } else {
+        std::fs::File::open(path).and_then(|f| f.take(limit).read_to_end(&mut buf))
+    };
+    r.map(|_| buf).map_err(|e| e.to_string())
 }
 
 fn render_table(r: &Report) -> String {

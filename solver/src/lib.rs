@@ -10,6 +10,7 @@ pub mod formula;
 pub mod library;
 pub mod mixture;
 pub mod recipe;
+pub mod selfcheck;
 pub mod system;
 pub mod thermo;
 pub mod water;

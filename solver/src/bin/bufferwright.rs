@@ -2,11 +2,13 @@
 //!
 //! ```text
 //! bufferwright [--table] [--demo] [FILE|-]
+//! bufferwright self-check [--json|--csv]
 //! ```
 //!
 //! Prints JSON by default (every part of the design: recipe, mixture,
 //! what-if, field reading, curves); `--table` prints a readable summary.
 //! `--demo` prints the demo design document instead of reading one.
+//! `self-check` runs the reference cases of `solver::selfcheck` (exit 1 if any fails).
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
 
 use solver::design::{demo_design, parse_design, report, to_json_pretty, Report};
@@ -14,9 +16,19 @@ use solver::recipe::{format_mass, format_volume_ml, sig};
 use std::io::Read;
 use std::process::ExitCode;
 
-const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]";
+const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]\n       bufferwright self-check [--json|--csv]";
 
 fn main() -> ExitCode {
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    if args.first().map(String::as_str) == Some("self-check") {
+        let (text, code) = solver::selfcheck::self_check_command(args.get(1..).unwrap_or(&[]));
+        if code == 2 {
+            eprint!("{text}");
+        } else {
+            print!("{text}");
+        }
+        return ExitCode::from(code);
+    }
     let mut table = false;
     let mut demo = false;
     let mut path: Option<String> = None;

@@ -13,6 +13,7 @@ pub mod recipe;
 pub mod selfcheck;
 pub mod system;
 pub mod thermo;
+pub mod uncertainty;
 pub mod water;
 
 pub use error::{Result, SolverError};

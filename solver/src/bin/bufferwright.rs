@@ -3,12 +3,14 @@
 //! ```text
 //! bufferwright [--table] [--demo] [FILE|-]
 //! bufferwright self-check [--json|--csv]
+//! bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]
 //! ```
 //!
 //! Prints JSON by default (every part of the design: recipe, mixture,
 //! what-if, field reading, curves); `--table` prints a readable summary.
 //! `--demo` prints the demo design document instead of reading one.
-//! `self-check` runs the reference cases of `solver::selfcheck` (exit 1 if any fails).
+//! `self-check` runs the reference cases of `solver::selfcheck` (exit 1 if any fails);
+//! `uncertainty` prints the uncertainty budgets of a design (`solver::uncertainty`).
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
 
 use solver::design::{demo_design, parse_design, report, to_json_pretty, Report};
@@ -16,7 +18,7 @@ use solver::recipe::{format_mass, format_volume_ml, sig};
 use std::io::Read;
 use std::process::ExitCode;
 
-const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]\n       bufferwright self-check [--json|--csv]";
+const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]\n       bufferwright self-check [--json|--csv]\n       bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]";
 
 fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
@@ -27,6 +29,13 @@ fn main() -> ExitCode {
         } else {
             print!("{text}");
         }
+        return ExitCode::from(code);
+    }
+    if args.first().map(String::as_str) == Some("uncertainty") {
+        let (out, err, code) =
+            solver::uncertainty::uncertainty_command(args.get(1..).unwrap_or(&[]), &read_source);
+        print!("{out}");
+        eprint!("{err}");
         return ExitCode::from(code);
     }
     let mut table = false;
@@ -94,6 +103,19 @@ fn main() -> ExitCode {
         }
     }
     ExitCode::SUCCESS
+}
+
+/// Read a file, or stdin for `-`.
+fn read_source(p: &str) -> Result<String, String> {
+    if p == "-" {
+        let mut s = String::new();
+        std::io::stdin()
+            .read_to_string(&mut s)
+            .map_err(|e| format!("cannot read stdin: {e}"))?;
+        Ok(s)
+    } else {
+        std::fs::read_to_string(p).map_err(|e| format!("cannot read {p}: {e}"))
+    }
 }
 
 fn render_table(r: &Report) -> String {

@@ -143,32 +143,41 @@ fn titrant_sensitivity_matches_analytic_capacity() {
 /// first-order U95 within 10 % on representative recipes and a mixture.
 #[test]
 fn monte_carlo_agrees_with_first_order() {
-    let inputs = UncertaintyInputs::default();
-    for (name, spec) in [
-        ("phosphate", phosphate_two_forms()),
-        ("tris", tris_titrate()),
-        ("acetate", acetate_stocks()),
-    ] {
-        let r = solve_recipe(&spec, &[]).unwrap();
-        let fo = recipe_uncertainty(&spec, &r, &inputs, &[]).unwrap();
-        let mc = recipe_monte_carlo(&spec, &r, &inputs, &[], 3000, 20_261_202).unwrap();
-        println!(
-            "{name}: first order {:.5}, Monte Carlo {:.5}",
-            fo.u95_ph, mc.u95_ph
-        );
-        assert_eq!(mc.draws, 3000);
-        assert!(
-            (mc.u95_ph - fo.u95_ph).abs() < 0.10 * fo.u95_ph,
-            "{name}: {} vs {}",
-            mc.u95_ph,
-            fo.u95_ph
-        );
-        assert!(
-            (mc.mean - r.equilibrium.ph).abs() < 0.2 * fo.u95_ph,
-            "{name}"
-        );
-        assert!(mc.low < r.equilibrium.ph && mc.high > r.equilibrium.ph);
+    // Also without the (normal, additive) activity allowance, so that the
+    // rectangular bench inputs and the pK carry the whole spread.
+    let bench_only = UncertaintyInputs {
+        activity_allowance: false,
+        balance_mg: 10.0,
+        ..UncertaintyInputs::default()
+    };
+    for inputs in [UncertaintyInputs::default(), bench_only] {
+        for (name, spec) in [
+            ("phosphate", phosphate_two_forms()),
+            ("tris", tris_titrate()),
+            ("acetate", acetate_stocks()),
+        ] {
+            let r = solve_recipe(&spec, &[]).unwrap();
+            let fo = recipe_uncertainty(&spec, &r, &inputs, &[]).unwrap();
+            let mc = recipe_monte_carlo(&spec, &r, &inputs, &[], 3000, 20_261_202).unwrap();
+            println!(
+                "{name}: first order {:.5}, Monte Carlo {:.5}",
+                fo.u95_ph, mc.u95_ph
+            );
+            assert_eq!(mc.draws, 3000);
+            assert!(
+                (mc.u95_ph - fo.u95_ph).abs() < 0.10 * fo.u95_ph,
+                "{name}: {} vs {}",
+                mc.u95_ph,
+                fo.u95_ph
+            );
+            assert!(
+                (mc.mean - r.equilibrium.ph).abs() < 0.2 * fo.u95_ph,
+                "{name}"
+            );
+            assert!(mc.low < r.equilibrium.ph && mc.high > r.equilibrium.ph);
+        }
     }
+    let inputs = UncertaintyInputs::default();
     let spec = mixture(json!({
         "temperature_c": 20.0, "activity": "davies",
         "components": [

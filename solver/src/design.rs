@@ -16,6 +16,7 @@ use crate::mixture::{
 use crate::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
 use crate::system::AcidSystem;
 use crate::thermo::validate_system;
+use crate::uncertainty::UncertaintyInputs;
 use serde::{Deserialize, Serialize};
 
 /// Current schema version of [`Design`].
@@ -75,6 +76,9 @@ pub struct Design {
     /// User-defined acid systems.
     #[serde(default)]
     pub custom_systems: Vec<AcidSystem>,
+    /// The user's ± figures for the uncertainty budgets (optional; omitted when default).
+    #[serde(default, skip_serializing_if = "UncertaintyInputs::is_default")]
+    pub uncertainty: UncertaintyInputs,
 }
 
 fn doc_err(field: &str, reason: impl Into<String>) -> SolverError {
@@ -259,6 +263,7 @@ pub fn validate_design(d: &Design) -> Result<()> {
         in_range("total", t, 0.0, 1e6).map_err(fp)?;
     }
     crate::field::ionic_from(&d.field.ionic).map_err(fp)?;
+    d.uncertainty.validate()?;
     Ok(())
 }
 
@@ -329,6 +334,7 @@ pub fn demo_design() -> Design {
         },
         plot_source: PlotSource::Recipe,
         custom_systems: vec![],
+        uncertainty: UncertaintyInputs::default(),
     }
 }
 

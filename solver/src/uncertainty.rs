@@ -230,6 +230,11 @@ impl UncertaintyInputs {
         }
     }
 
+    /// Whether these are the defaults (a design document then omits them).
+    pub fn is_default(&self) -> bool {
+        *self == Self::default()
+    }
+
     /// Check every figure, naming the field (`uncertainty.balance_mg`...).
     ///
     /// # Errors
@@ -1314,7 +1319,8 @@ pub fn budget_text(title: &str, u: &Uncertainty) -> String {
 /// bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]
 /// ```
 ///
-/// `--inputs` names a JSON file of [`UncertaintyInputs`] (every key optional).
+/// `--inputs` names a JSON file of [`UncertaintyInputs`] (every key
+/// optional); without it the design's own `uncertainty` key is used.
 pub fn uncertainty_command(
     args: &[String],
     read: &dyn Fn(&str) -> std::result::Result<String, String>,
@@ -1342,8 +1348,16 @@ pub fn uncertainty_command(
             }
         }
     }
+    let text = match read(path.unwrap_or("-")) {
+        Ok(t) => t,
+        Err(e) => return (String::new(), format!("{e}\n"), 1),
+    };
+    let design = match crate::design::parse_design(&text) {
+        Ok(d) => d,
+        Err(e) => return (String::new(), format!("invalid design: {e}\n"), 1),
+    };
     let inputs = match inputs_path {
-        None => UncertaintyInputs::default(),
+        None => design.uncertainty.clone(),
         Some(p) => {
             let parsed = read(p).and_then(|t| {
                 serde_json::from_str::<UncertaintyInputs>(&t).map_err(|e| format!("{p}: {e}"))
@@ -1357,14 +1371,6 @@ pub fn uncertainty_command(
     if let Err(e) = inputs.validate() {
         return (String::new(), format!("invalid inputs: {e}\n"), 1);
     }
-    let text = match read(path.unwrap_or("-")) {
-        Ok(t) => t,
-        Err(e) => return (String::new(), format!("{e}\n"), 1),
-    };
-    let design = match crate::design::parse_design(&text) {
-        Ok(d) => d,
-        Err(e) => return (String::new(), format!("invalid design: {e}\n"), 1),
-    };
     let rep = design_uncertainty(&design, &inputs);
     if table {
         let mut out = String::new();

@@ -77,3 +77,34 @@ fn inputs_file_is_read_and_checked() {
     let (code, _, _) = run(&["uncertainty", "--bogus"], None);
     assert_eq!(code, 2);
 }
+
+#[test]
+fn a_design_carries_its_own_uncertainty_inputs() {
+    let (_, demo, _) = run(&["--demo"], None);
+    assert!(
+        !demo.contains("\"uncertainty\""),
+        "defaults are not written"
+    );
+    let mut v: serde_json::Value = serde_json::from_str(&demo).unwrap();
+    v["uncertainty"] = serde_json::json!({"balance_mg": 0.1, "flask_ml": 0.5});
+    let (code, out, err) = run(&["uncertainty", "-"], Some(&v.to_string()));
+    assert_eq!(code, 0, "{err}");
+    let r: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(r["inputs"]["balance_mg"], 0.1);
+    assert_eq!(r["inputs"]["flask_ml"], 0.5);
+    // The ordinary report still reads the document.
+    let (code, _, err) = run(&["-"], Some(&v.to_string()));
+    assert_eq!(code, 0, "{err}");
+    // Unknown keys and bad values are refused with the path.
+    v["uncertainty"] = serde_json::json!({"balanse_mg": 0.1});
+    let (code, _, err) = run(&["-"], Some(&v.to_string()));
+    assert_eq!(code, 1);
+    assert!(
+        err.contains("uncertainty") && err.contains("balanse_mg"),
+        "{err}"
+    );
+    v["uncertainty"] = serde_json::json!({"temperature_k": -1.0});
+    let (code, _, err) = run(&["-"], Some(&v.to_string()));
+    assert_eq!(code, 1);
+    assert!(err.contains("uncertainty.temperature_k"), "{err}");
+}

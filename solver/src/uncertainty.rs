@@ -747,6 +747,7 @@ fn recipe_model<'a>(
     custom: &'a [AcidSystem],
 ) -> Result<Model<'a>> {
     inputs.validate()?;
+    in_range("volume_l", spec.volume_l, 1e-6, 1000.0)?;
     let mix = &result.mixture;
     let ph0 = result.equilibrium.ph;
     let mut list = common_inputs(mix, custom, inputs, ph0, result.equilibrium.ionic_strength)?;

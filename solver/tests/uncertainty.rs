@@ -9,7 +9,7 @@ use proptest::prelude::*;
 use serde_json::json;
 use solver::field::{field_reading, FieldSpec};
 use solver::mixture::MixtureSpec;
-use solver::recipe::{solve_recipe, RecipeSpec};
+use solver::recipe::{solve_recipe, suggest_pair, RecipeSpec};
 use solver::uncertainty::{
     field_uncertainty, mixture_monte_carlo, mixture_uncertainty, pk_uncertainty,
     recipe_monte_carlo, recipe_uncertainty, suggested_flask_ml, UncertaintyInputs,
@@ -356,5 +356,41 @@ proptest! {
         let ua = recipe_uncertainty(&spec, &r, &a, &[]).unwrap().u95_ph;
         let ub = recipe_uncertainty(&spec, &r, &more, &[]).unwrap().u95_ph;
         prop_assert!(ub >= ua - 1e-12, "{} < {}", ub, ua);
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 40, ..ProptestConfig::default() })]
+
+    /// Any library system, a target near one of its pK, 5–45 °C, any ± figures in their
+    /// accepted ranges: a finite, non-negative U95 whose shares add to one, or an error.
+    #[test]
+    fn budgets_are_finite_or_refused(
+        si in 0usize..25, dpk in -0.8f64..0.8, t in 5.0f64..45.0, c in -3.0f64..-0.7,
+        v in 0.001f64..2.0, bal in 0.0f64..100.0, temp in 0.0f64..5.0, ideal in any::<bool>(),
+    ) {
+        let lib = solver::library::library();
+        let sys = &lib[si % lib.len()];
+        let Ok(pks) = solver::thermo::system_pks(sys, t) else { return Ok(()) };
+        let target = (pks[pks.len() / 2] + dpk).clamp(0.5, 13.5);
+        let Ok((a, b)) = suggest_pair(&sys.id, target, t, &[]) else { return Ok(()) };
+        let spec = recipe(json!({
+            "system": sys.id, "target_ph": target, "temperature_c": t,
+            "total_conc_m": 10f64.powf(c), "volume_l": v,
+            "activity": if ideal { "ideal" } else { "davies" },
+            "method": {"kind": "two_forms", "acid_form": a, "base_form": b},
+            "tolerance_ph": 0.05,
+        }));
+        let Ok(r) = solve_recipe(&spec, &[]) else { return Ok(()) };
+        let inputs = UncertaintyInputs {
+            balance_mg: bal,
+            temperature_k: temp,
+            ..UncertaintyInputs::default()
+        };
+        if let Ok(u) = recipe_uncertainty(&spec, &r, &inputs, &[]) {
+            prop_assert!(u.u95_ph.is_finite() && u.u95_ph >= 0.0, "{}", u.u95_ph);
+            let s: f64 = u.budget.iter().map(|b| b.share).sum();
+            prop_assert!(u.u95_ph == 0.0 || (s - 1.0).abs() < 1e-9, "{}", s);
+        }
     }
 }

@@ -16,6 +16,7 @@ use crate::mixture::{
 use crate::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
 use crate::system::AcidSystem;
 use crate::thermo::validate_system;
+use crate::uncertainty::UncertaintyInputs;
 use serde::{Deserialize, Serialize};
 
 /// Current schema version of [`Design`].
@@ -79,6 +80,9 @@ pub struct Design {
     /// User-defined acid systems.
     #[serde(default)]
     pub custom_systems: Vec<AcidSystem>,
+    /// The user's ± figures for the uncertainty budgets (optional; omitted when default).
+    #[serde(default, skip_serializing_if = "UncertaintyInputs::is_default")]
+    pub uncertainty: UncertaintyInputs,
 }
 
 fn doc_err(field: &str, reason: impl Into<String>) -> SolverError {
@@ -363,6 +367,7 @@ pub fn validate_design(d: &Design) -> Result<()> {
     // Field: system, pH, temperature, total, ionic source, alkalinity, limit.
     let fp = |e| prefixed("field", e);
     crate::field::validate_field(&d.field, custom).map_err(fp)?;
+    d.uncertainty.validate()?;
     Ok(())
 }
 
@@ -437,6 +442,7 @@ pub fn demo_design() -> Design {
         },
         plot_source: PlotSource::Recipe,
         custom_systems: vec![],
+        uncertainty: UncertaintyInputs::default(),
     }
 }
 

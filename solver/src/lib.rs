@@ -17,8 +17,10 @@ pub mod grid;
 pub mod library;
 pub mod mixture;
 pub mod recipe;
+pub mod selfcheck;
 pub mod system;
 pub mod thermo;
+pub mod uncertainty;
 pub mod water;
 
 pub use error::{Result, SolverError};

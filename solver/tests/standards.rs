@@ -8,125 +8,76 @@
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 
 use solver::activity::ActivityModel;
-use solver::mixture::{solve_mixture, ComponentSpec, MixtureSpec};
+use solver::mixture::solve_mixture;
 use solver::recipe::{solve_recipe, Method, RecipeSpec};
 
-fn mix(parts: &[(&str, &str, f64)]) -> MixtureSpec {
-    MixtureSpec {
-        temperature_c: 25.0,
-        activity: ActivityModel::Davies,
-        components: parts
-            .iter()
-            .map(|(s, f, c)| ComponentSpec {
-                system: (*s).into(),
-                form: Some((*f).into()),
-                conc_m: *c,
-            })
-            .collect(),
-        additives: vec![],
+/// The pH(S) standards (Buck et al. 2002, Pure Appl. Chem. 74, 2169, and the
+/// NBS papers it cites), their temperature series, 1e−8 M HCl (Hill, Petrucci
+/// et al., problem 15.109), 0.1 M acetic acid and the Van Slyke capacity live
+/// in ONE list, `solver::selfcheck::cases()`, with value, source, status and
+/// tolerance each. The page's self-check and `bufferwright self-check` run
+/// the same list; here the engine-level cases are run again by name so that
+/// `cargo test --test standards borax` still finds them.
+fn run_cases(prefix: &str) {
+    let list: Vec<_> = solver::selfcheck::cases()
+        .into_iter()
+        .filter(|c| c.id.starts_with(prefix))
+        .collect();
+    assert!(!list.is_empty(), "no case starts with {prefix}");
+    for c in list {
+        let r = solver::selfcheck::run_case(&c);
+        println!("{} -> {:?} (published {})", r.id, r.computed, r.published);
+        assert!(
+            r.pass,
+            "{}: {:?} vs {} ± {}",
+            r.id, r.computed, r.published, r.tolerance
+        );
     }
 }
 
-fn ph(parts: &[(&str, &str, f64)]) -> f64 {
-    let v = solve_mixture(&mix(parts), &[]).unwrap().equilibrium.ph;
-    println!("{parts:?} -> pH {v:.4}");
-    v
-}
-
-/// Hamer, Pinching & Acree (1946) J. Res. NBS 36, 47; Buck et al. (2002) Pure Appl. Chem. 74, 2169.
 #[test]
 fn potassium_hydrogen_phthalate_0_05() {
-    let v = ph(&[("phthalate", "khp", 0.05)]);
-    assert!((v - 4.005).abs() < 0.02, "KHP pH {v}");
+    run_cases("ph_standard_khp_");
 }
 
-/// J. Res. NBS 73A, 37 (1969); Buck et al. 2002.
 #[test]
 fn potassium_dihydrogen_citrate_0_05() {
-    let v = ph(&[("citrate", "kh2_citrate", 0.05)]);
-    assert!((v - 3.776).abs() < 0.02, "KH2citrate pH {v}");
+    run_cases("ph_standard_kh2_citrate_");
 }
 
-/// IUPAC primary standard, Buck et al. 2002.
 #[test]
 fn equimolal_phosphate_0_025() {
-    let v = ph(&[
-        ("phosphate", "kh2po4", 0.025),
-        ("phosphate", "na2hpo4", 0.025),
-    ]);
-    assert!((v - 6.865).abs() < 0.02, "phosphate 1:1 pH {v}");
+    run_cases("ph_standard_phosphate_equimolal_");
 }
 
-/// Buck et al. 2002.
 #[test]
 fn physiological_phosphate_7_413() {
-    let v = ph(&[
-        ("phosphate", "kh2po4", 0.008695),
-        ("phosphate", "na2hpo4", 0.03043),
-    ]);
-    assert!((v - 7.413).abs() < 0.02, "phosphate 1:3.5 pH {v}");
+    run_cases("ph_standard_phosphate_physiological_");
 }
 
-/// J. Res. NBS 73A, 37 (1969); Buck et al. 2002. Borax dissolves to 2 B(OH)3 + 2 B(OH)4⁻.
 #[test]
 fn borax_0_01() {
-    let v = ph(&[("borate", "borax_10h2o", 0.01)]);
-    assert!((v - 9.180).abs() < 0.02, "borax pH {v}");
+    run_cases("ph_standard_borax_");
 }
 
-/// J. Res. NBS 73A, 37 (1969); Buck et al. 2002.
 #[test]
 fn carbonate_0_025() {
-    let v = ph(&[
-        ("carbonate", "nahco3", 0.025),
-        ("carbonate", "na2co3", 0.025),
-    ]);
-    assert!((v - 10.012).abs() < 0.02, "carbonate pH {v}");
+    run_cases("ph_standard_carbonate_");
 }
 
-/// Hill, Petrucci et al., General Chemistry 4th ed., problem 15.109: 1.0×10⁻⁸ M HCl → pH 6.98.
-/// Here with the library's Kw at 25 °C (pKw 13.995) and activity; still 6.98 to two decimals.
 #[test]
 fn dilute_hcl_through_mixture_api() {
-    let spec = MixtureSpec {
-        temperature_c: 25.0,
-        activity: ActivityModel::Davies,
-        components: vec![],
-        additives: vec![solver::mixture::AdditiveSpec {
-            additive: solver::mixture::Additive::Hcl,
-            conc_m: 1e-8,
-        }],
-    };
-    let v = solve_mixture(&spec, &[]).unwrap().equilibrium.ph;
-    assert!((v - 6.98).abs() < 0.006, "1e-8 M HCl pH {v}");
+    run_cases("dilute_hcl_");
 }
 
-/// Computed: 0.100 M acetic acid, pKa 4.756, exact quadratic, ideal → pH 2.881.
 #[test]
 fn acetic_acid_ideal_quadratic() {
-    let mut spec = mix(&[("acetate", "acetic_acid", 0.1)]);
-    spec.activity = ActivityModel::Ideal;
-    // The library's Kw at 25 °C differs negligibly from 1e-14 here.
-    let v = solve_mixture(&spec, &[]).unwrap().equilibrium.ph;
-    let ka = 10f64.powf(-4.756);
-    let h = (-ka + (ka * ka + 4.0 * ka * 0.1).sqrt()) / 2.0;
-    assert!((v + h.log10()).abs() < 1e-3, "{v}");
-    assert!((v - 2.881).abs() < 0.001);
+    run_cases("acetic_acid_0_1_ideal");
 }
 
-/// Computed (Van Slyke form): 0.1 M total acetate at pH = pKa, ideal:
-/// β = ln(10)·C/4 = 0.0576 mol/(L·pH), plus the small water terms.
 #[test]
 fn van_slyke_capacity_at_pka() {
-    // Equal acid and conjugate base; ideal; pH lands at pKa (4.756).
-    let mut spec = mix(&[
-        ("acetate", "acetic_acid", 0.05),
-        ("acetate", "na_acetate", 0.05),
-    ]);
-    spec.activity = ActivityModel::Ideal;
-    let eq = solve_mixture(&spec, &[]).unwrap().equilibrium;
-    assert!((eq.ph - 4.756).abs() < 0.01, "{}", eq.ph);
-    assert!((eq.capacity - 0.0576).abs() < 0.0005, "{}", eq.capacity);
+    run_cases("van_slyke_acetate");
 }
 
 fn recipe(method: Method, system: &str, target: f64, t: f64) -> RecipeSpec {

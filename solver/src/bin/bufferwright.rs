@@ -4,11 +4,15 @@
 //! bufferwright [--table] [--demo] [FILE|-]
 //! bufferwright log --system ID [options] FILE.csv|-     (see solver::cli)
 //! bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]
+//! bufferwright self-check [--json|--csv]
+//! bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]
 //! ```
 //!
 //! Prints JSON by default (every part of the design: recipe, mixture,
 //! what-if, field reading, curves); `--table` prints a readable summary.
 //! `--demo` prints the demo design document instead of reading one.
+//! `self-check` runs the reference cases of `solver::selfcheck` (exit 1 if any fails);
+//! `uncertainty` prints the uncertainty budgets of a design (`solver::uncertainty`).
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
 
 use solver::design::{demo_design, parse_design, report, to_json_pretty, Report};
@@ -16,7 +20,7 @@ use solver::recipe::{format_mass, format_volume_ml, sig, sig_trim, METER_NOTE};
 use std::io::Read;
 use std::process::ExitCode;
 
-const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]";
+const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]\n       bufferwright log --system ID [options] FILE.csv|-\n       bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]\n       bufferwright self-check [--json|--csv]\n       bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]";
 
 fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
@@ -25,6 +29,22 @@ fn main() -> ExitCode {
         Some("log") => return emit(solver::cli::log_command(rest, &mut read_limited)),
         Some("grid") => return emit(solver::cli::grid_command(rest)),
         _ => {}
+    }
+    if args.first().map(String::as_str) == Some("self-check") {
+        let (text, code) = solver::selfcheck::self_check_command(args.get(1..).unwrap_or(&[]));
+        if code == 2 {
+            eprint!("{text}");
+        } else {
+            print!("{text}");
+        }
+        return ExitCode::from(code);
+    }
+    if args.first().map(String::as_str) == Some("uncertainty") {
+        let (out, err, code) =
+            solver::uncertainty::uncertainty_command(args.get(1..).unwrap_or(&[]), &read_source);
+        print!("{out}");
+        eprint!("{err}");
+        return ExitCode::from(code);
     }
     let mut table = false;
     let mut demo = false;
@@ -110,6 +130,18 @@ fn read_limited(path: &str) -> Result<Vec<u8>, String> {
         std::fs::File::open(path).and_then(|f| f.take(limit).read_to_end(&mut buf))
     };
     r.map(|_| buf).map_err(|e| e.to_string())
+}
+/// Read a file, or stdin for `-`.
+fn read_source(p: &str) -> Result<String, String> {
+    if p == "-" {
+        let mut s = String::new();
+        std::io::stdin()
+            .read_to_string(&mut s)
+            .map_err(|e| format!("cannot read stdin: {e}"))?;
+        Ok(s)
+    } else {
+        std::fs::read_to_string(p).map_err(|e| format!("cannot read {p}: {e}"))
+    }
 }
 
 fn render_table(r: &Report) -> String {

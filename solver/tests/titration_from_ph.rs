@@ -1,6 +1,8 @@
 //! The titration curve drawn from pH against its oracle, the curve solved
 //! point by point: every point is exact (a forward solve at its amount gives
 //! its pH) and the two curves describe the same function.
+#![allow(clippy::unwrap_used, clippy::indexing_slicing)]
+
 
 use proptest::prelude::*;
 use solver::activity::ActivityModel;

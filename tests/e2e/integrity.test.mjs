@@ -200,7 +200,9 @@ test('the offline layer answers only the app page: other pages in the folder go 
     const resp = await page.goto(srv.url('/embed-example.html'));
     assert.equal(resp.status(), 200);
     assert.equal(await page.$('#app-root'), null, 'the sample page is itself, not the app');
+    // A page outside the app asks the server for /favicon.ico, which this folder does not have.
     s.failedRequests.length = 0;
+    s.consoleErrors.length = 0;
     const missing = await page.goto(srv.url('/does-not-exist.html'));
     assert.equal(missing.status(), 404, 'a missing page is missing, not the app');
     // The 404 above is the point of this test: the browser logs it as a failed resource.

@@ -18,14 +18,15 @@
 //! - [`bench`]: in-browser timing of the solver workloads (for `app/PERF.md`).
 
 pub mod bench;
-// Saved designs, the designs panel, share links and embeds (moving into `designs/`).
-pub mod designs_ws;
-pub mod embed;
+// Saved designs, drafts and recovery, the designs panel and embeds live in `designs/`;
+// `store`, `designs_ws` and `embed` keep their old paths.
+pub mod designs;
+pub use designs as store;
+pub use designs::{embed, panel as designs_ws};
 pub mod plots;
 pub mod share;
 pub mod shell;
 pub mod state;
-pub mod store;
 pub mod widgets;
 pub mod workspaces;
 

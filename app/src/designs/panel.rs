@@ -113,11 +113,17 @@ fn notice_view(store: Store, n: crate::store::Notice) -> impl IntoView {
             }
             .into_any()
         }
-        Some(NoticeAction::RestorePrevious) => view! {
+        Some(NoticeAction::RestoreSetAside { key }) => view! {
             <button type="button" class="bw-btn bw-btn-small" data-testid="restore-previous"
                 disabled=move || state.view.get().readonly
-                on:click=move |_| { store.dismiss(id); store.restore_previous(); }>
+                on:click=move |_| { store.dismiss(id); store.recovery_open(&key); }>
                 "Bring back my previous work"</button>
+        }
+        .into_any(),
+        Some(NoticeAction::UndoRecoveryDelete { key, raw }) => view! {
+            <button type="button" class="bw-btn bw-btn-small" data-testid="undo-recovery-delete"
+                on:click=move |_| { store.dismiss(id); store.undo_recovery_delete(&key, &raw); }>
+                "Undo"</button>
         }
         .into_any(),
         None => ().into_any(),
@@ -258,19 +264,8 @@ pub fn DesignsPanel() -> impl IntoView {
                 .to_string();
         }
         let dirty = store.dirty();
-        match store.open.get() {
-            Some(o) if !dirty => format!(
-                "Showing saved design “{}” (saved {}).",
-                o.saved.name,
-                local_when(o.saved.saved_at_ms)
-            ),
-            Some(o) => format!(
-                "Unsaved changes to “{}”. They are kept automatically in this browser until you save.",
-                o.saved.name
-            ),
-            None => "Not saved yet. Your work is kept automatically in this browser until you save it."
-                .to_string(),
-        }
+        let open = store.open.get();
+        crate::store::status_line(open.as_ref(), dirty, &store.keeping.get())
     };
     let save_label = move || {
         if store.open.with(Option::is_some) {

@@ -237,6 +237,43 @@ fn row_view(
     }
 }
 
+/// One line of the Recovery section.
+fn recovery_row(store: Store, index: usize, item: crate::store::RecoveryItem) -> impl IntoView {
+    use crate::store::RecoveryKind;
+    let kind = match &item.kind {
+        RecoveryKind::SetAside => "Set aside",
+        RecoveryKind::ClosedTab => "From a closed tab",
+        RecoveryKind::Damaged(_) => "Damaged",
+    };
+    let when = if item.when_ms > 0.0 {
+        format!(" ({})", local_when(item.when_ms))
+    } else {
+        String::new()
+    };
+    let (k_open, k_exp, k_del) = (item.key.clone(), item.key.clone(), item.key.clone());
+    let label = |verb: &str| format!("{verb} “{}”", item.title);
+    let (l_open, l_exp, l_del) = (label("Open"), label("Export"), label("Delete"));
+    let readonly = move || store.state.view.get().readonly;
+    view! {
+        <li class="bw-recovery-item" data-testid=format!("recovery-item-{index}") data-key=item.key.clone()>
+            <span class="bw-recovery-kind">{kind}</span>
+            " "
+            <span class="bw-recovery-title" data-testid="recovery-title">{item.title.clone()}</span>
+            <span class="bw-recovery-detail" data-testid="recovery-detail">{format!("{}{when}", item.detail)}</span>
+            <span class="bw-recovery-actions">
+                <button type="button" class="bw-btn bw-btn-small" data-testid="recovery-open"
+                    aria-label=l_open hidden=move || !item.can_open || readonly()
+                    on:click=move |_| store.recovery_open(&k_open)>"Open"</button>
+                <button type="button" class="bw-btn bw-btn-small" data-testid="recovery-export"
+                    aria-label=l_exp on:click=move |_| store.recovery_export(&k_exp)>"Export"</button>
+                <button type="button" class="bw-btn bw-btn-small bw-btn-danger" data-testid="recovery-delete"
+                    aria-label=l_del hidden=readonly
+                    on:click=move |_| store.recovery_delete(&k_del)>"Delete"</button>
+            </span>
+        </li>
+    }
+}
+
 /// The designs panel (mounted by the shell; needs [`crate::store::init`] to have run).
 #[component]
 pub fn DesignsPanel() -> impl IntoView {
@@ -385,6 +422,17 @@ pub fn DesignsPanel() -> impl IntoView {
                     </table>
                 </Show>
             </div>
+
+            <Show when=move || store.recovery.with(|r| !r.is_empty())>
+                <div class="bw-recovery" data-testid="recovery">
+                    <h3 class="bw-sub" id="bw-recovery-title">"Recovery"</h3>
+                    <p class="bw-hint">"Work kept aside so nothing is lost: set aside when a share link replaced it (the last ten are kept), left by a tab that was closed, or an entry that could not be read. Open brings it back (what is on screen is set aside first)."</p>
+                    <ul class="bw-recovery-list" aria-labelledby="bw-recovery-title">
+                        {move || store.recovery.get().into_iter().enumerate()
+                            .map(|(i, item)| recovery_row(store, i, item)).collect_view()}
+                    </ul>
+                </div>
+            </Show>
 
             <div class="bw-files">
                 <h3 class="bw-sub">"Files"</h3>

@@ -12,6 +12,9 @@ use crate::store::{
 use leptos::prelude::*;
 use wasm_bindgen::{closure::Closure, JsCast, JsValue};
 
+/// How many saved designs the list draws before "Show all".
+const LIST_PAGE: usize = 200;
+
 /// Styles of the panel and the embed bar (scoped by class; inline styles are allowed by the CSP).
 const PANEL_CSS: &str = include_str!("designs.css");
 
@@ -289,6 +292,8 @@ pub fn DesignsPanel() -> impl IntoView {
     let readonly = move || state.view.get().readonly;
     let available = move || store.available.get();
     let renaming = RwSignal::new(None::<String>);
+    // A long list (thousands imported) draws its newest rows first; the rest on request.
+    let shown = RwSignal::new(LIST_PAGE);
     let rename_text = RwSignal::new(String::new());
 
     let status = move || {
@@ -410,16 +415,25 @@ pub fn DesignsPanel() -> impl IntoView {
                         </thead>
                         <tbody>
                             {move || {
+                                let limit = shown.get();
                                 store
                                     .list
                                     .get()
                                     .into_iter()
+                                    .take(limit)
                                     .enumerate()
                                     .map(|(i, s)| row_view(store, i, s, renaming, rename_text))
                                     .collect_view()
                             }}
                         </tbody>
                     </table>
+                    <Show when=move || { store.list.with(Vec::len) > shown.get() }>
+                        <p class="bw-hint" data-testid="designs-more">
+                            {move || format!("Showing the {} newest of {} saved designs. ", shown.get(), store.list.with(Vec::len))}
+                            <button type="button" class="bw-btn bw-btn-small" data-testid="show-all-designs"
+                                on:click=move |_| shown.set(usize::MAX)>"Show all"</button>
+                        </p>
+                    </Show>
                 </Show>
             </div>
 

@@ -183,7 +183,7 @@ pub(crate) fn quarantine(
     Some(target)
 }
 
-fn sort_newest_first(designs: &mut [(String, Design)]) {
+pub(crate) fn sort_newest_first(designs: &mut [(String, Design)]) {
     designs.sort_by(|(ia, a), (ib, b)| {
         b.saved_at_ms
             .total_cmp(&a.saved_at_ms)

@@ -608,7 +608,10 @@ impl Store {
                     ),
                 };
                 self.notify(NoticeKind::Info, text, None);
-                self.refresh(false);
+                // The import returns the whole list: no second read of every design.
+                self.list
+                    .set(report.listed.iter().map(|(id, d)| summary(id, d)).collect());
+                self.refresh_recovery(false);
             }
             Err(e) => self.notify(
                 NoticeKind::Error,

@@ -1,6 +1,6 @@
 //! Files: export one design or all of them, read an import file (validated whole), and import many designs in one pass.
 
-use super::index::{design_key, ids_for_write, scan, to_base36, write_index};
+use super::index::{design_key, ids_for_write, scan, sort_newest_first, to_base36, write_index};
 use super::kv::{KvStore, StoreError};
 use serde::Serialize;
 use solver::design::{parse_design, to_json, to_json_pretty, Design};
@@ -101,6 +101,8 @@ pub struct ImportReport {
     pub added: Vec<String>,
     /// Designs skipped because an identical one is already saved.
     pub already_saved: Vec<String>,
+    /// Every saved design after the import, newest first (the list, without reading storage again).
+    pub listed: Vec<(String, Design)>,
 }
 
 /// Save imported designs (skipping ones already saved identically).
@@ -119,6 +121,7 @@ pub fn import_designs(
 ) -> Result<ImportReport, StoreError> {
     let existing = scan(kv, false, now_ms)?;
     let mut seen: HashSet<String> = existing.designs.iter().map(|(_, d)| to_json(d)).collect();
+    let mut listed = existing.designs;
     let mut index = ids_for_write(kv)?;
     let mut taken: HashSet<String> = index.iter().cloned().collect();
     let base = format!("k{}", to_base36(now_ms.max(0.0) as u64));
@@ -163,7 +166,8 @@ pub fn import_designs(
             return Err(e);
         }
         index.push(id.clone());
-        report.added.push(id);
+        report.added.push(id.clone());
+        listed.push((id, stored));
     }
     if !report.added.is_empty() {
         if let Err(e) = write_index(kv, &index) {
@@ -171,6 +175,8 @@ pub fn import_designs(
             return Err(e);
         }
     }
+    sort_newest_first(&mut listed);
+    report.listed = listed;
     Ok(report)
 }
 
@@ -202,6 +208,11 @@ mod tests {
         let mut fresh = MemStore::default();
         let rep = import_designs(&mut fresh, &back, 5000.0).unwrap_or_default();
         assert_eq!(rep.added.len(), 2);
+        // The list it returns is what a scan reads.
+        assert_eq!(
+            rep.listed,
+            scan(&mut fresh, false, 5500.0).unwrap_or_default().designs
+        );
         let again: Vec<Design> = scan(&mut fresh, true, 6000.0)
             .map(|s| s.designs.into_iter().map(|(_, d)| d).collect())
             .unwrap_or_default();

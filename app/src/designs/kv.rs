@@ -188,14 +188,11 @@ impl KvStore for LocalStore {
         self.storage.remove_item(key).map_err(|e| unavailable(&e))
     }
     fn keys(&self) -> Result<Vec<String>, StoreError> {
-        let n = self.storage.length().map_err(|e| unavailable(&e))?;
-        let mut out = Vec::with_capacity(n as usize);
-        for i in 0..n {
-            if let Some(k) = self.storage.key(i).map_err(|e| unavailable(&e))? {
-                out.push(k);
-            }
-        }
-        Ok(out)
+        // One call for all keys (`Object.keys(localStorage)`), not one call per key.
+        Ok(js_sys::Object::keys(&self.storage)
+            .iter()
+            .filter_map(|v| v.as_string())
+            .collect())
     }
 }
 #[cfg(test)]

@@ -6,7 +6,7 @@
 //! (typed text that is not a value yet stays with its field and marks it
 //! pending); each workspace derives its results with a `Memo` over the solver;
 //! views and canvas plots show those results. Storage, share links and embeds
-//! sit at the edge ([`store`], [`share`], [`embed`]): they read and write the same `Design` as
+//! sit at the edge ([`designs`]): they read and write the same `Design` as
 //! plain serde data with a schema version, never signals.
 //!
 //! The tree reads like the page:
@@ -14,18 +14,14 @@
 //! - [`workspaces`]: one module per tab (Recipe, Flask, Species & capacity, Field reading).
 //! - [`widgets`]: validated inputs, parsing and number formatting, cautions.
 //! - [`plots`]: plot data, drawing generic over the plotters backend, the canvas.
-//! - [`store`], [`designs_ws`], [`share`], [`embed`]: saved designs, the designs panel, share links, embeds.
+//! - [`designs`]: saved designs, drafts and recovery, the designs panel, share links, embeds.
 //! - [`bench`]: in-browser timing of the solver workloads (for `app/PERF.md`).
 
 pub mod bench;
-// Saved designs, the designs panel, share links and embeds (moving into `designs/`).
-pub mod designs_ws;
-pub mod embed;
+pub mod designs;
 pub mod plots;
-pub mod share;
 pub mod shell;
 pub mod state;
-pub mod store;
 pub mod widgets;
 pub mod workspaces;
 

@@ -5,8 +5,8 @@
 //! In embed mode (`?embed=1`) the header, tabs and designs panel give way to
 //! the embed bar.
 
-use crate::designs_ws::{DesignsPanel, StorageAlert};
-use crate::embed::EmbedBar;
+use crate::designs::embed::EmbedBar;
+use crate::designs::panel::{DesignsPanel, StorageAlert};
 use crate::state::{use_app, AppState};
 use crate::widgets::cautions::ModelNote;
 use crate::workspaces::field::FieldWorkspace;
@@ -40,7 +40,7 @@ fn key_of(ws: Workspace) -> &'static str {
 pub fn App() -> impl IntoView {
     let state = AppState::new();
     provide_context(state);
-    crate::store::init(state);
+    crate::designs::init(state);
     view! { <Shell /> }
 }
 

@@ -10,12 +10,12 @@
     missing_docs
 )]
 
-use app::designs_ws::{DesignsPanel, StorageAlert};
-use app::state::AppState;
-use app::store::{
+use app::designs::panel::{DesignsPanel, StorageAlert};
+use app::designs::{
     design_key, init, save_design, scan, use_store, KvStore, LocalStore, NoticeKind, SaveOutcome,
     SaveTarget, StoreError, INDEX_KEY,
 };
+use app::state::AppState;
 use leptos::prelude::*;
 use solver::design::demo_design;
 use wasm_bindgen::JsCast;

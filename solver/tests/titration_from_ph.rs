@@ -3,7 +3,6 @@
 //! its pH) and the two curves describe the same function.
 #![allow(clippy::unwrap_used, clippy::indexing_slicing)]
 
-
 use proptest::prelude::*;
 use solver::activity::ActivityModel;
 use solver::mixture::{

@@ -112,7 +112,7 @@ test('embed mode: preset design from the fragment, chosen workspace, read-only, 
     // The receiver has their own work on this origin.
     const own = await openPage(s, srv.url('/'));
     await own.fill(PH, '6.1');
-    const draftBefore = await own.evaluate(() => localStorage.getItem('bufferwright.draft'));
+    const draftBefore = await own.evaluate(() => Object.keys(localStorage).filter((k) => k.startsWith('bufferwright.tabdraft.')).map((k) => localStorage.getItem(k)).join('\n') || null);
     assert.ok(draftBefore);
 
     const page = await openPage(s, `${srv.url('/')}?embed=1&ws=recipe&readonly=1${frag}`);
@@ -134,7 +134,7 @@ test('embed mode: preset design from the fragment, chosen workspace, read-only, 
     assert.equal(await field.locator(tid('embed-mode')).getAttribute('data-workspace'), 'field');
 
     // Neither embed wrote the receiver's draft.
-    assert.equal(await own.evaluate(() => localStorage.getItem('bufferwright.draft')), draftBefore);
+    assert.equal(await own.evaluate(() => Object.keys(localStorage).filter((k) => k.startsWith('bufferwright.tabdraft.')).map((k) => localStorage.getItem(k)).join('\n') || null), draftBefore);
     s.assertClean('embed preset');
   } finally {
     await s.close();

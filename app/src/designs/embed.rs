@@ -1,6 +1,6 @@
 //! URL options (`?embed=1&readonly=1&ws=field`) and the small bar shown in embed mode.
 //!
-//! The page reads its options once at start-up ([`crate::store::init`] calls
+//! The page reads its options once at start-up ([`crate::designs::init`] calls
 //! [`parse_query`] and writes [`crate::state::ViewOptions`]); the shell hides
 //! its chrome when `view.embed` is set and mounts [`EmbedBar`].
 
@@ -13,7 +13,22 @@ const EMBED_CSS: &str =
     ".embed-bar{display:flex;flex-wrap:wrap;gap:.5rem;justify-content:space-between;\
 align-items:center;padding:.2rem .6rem;font-size:.9rem;border-bottom:1px solid #c5cfd8;\
 background:#f1f5f8;color:#1b2530}.embed-bar-name{font-weight:600}\
-.embed-bar a{color:#12609a;min-height:2.75rem;display:inline-flex;align-items:center}";
+.embed-bar a{color:#12609a;min-height:2.75rem;display:inline-flex;align-items:center}\
+.embed-bar-note{flex-basis:100%;font-size:.85rem;color:#33404d}\
+.embed-bar-note.embed-bar-edited{color:#7a4a00;font-weight:600}";
+
+/// What the embed bar says about keeping changes; `None` for a read-only embed.
+pub fn keeping_note(readonly: bool, edited: bool) -> Option<&'static str> {
+    match (readonly, edited) {
+        (true, _) => None,
+        (false, false) => Some(
+            "Changes made here are not kept: reloading shows the original again. Open in Bufferwright to keep working on it.",
+        ),
+        (false, true) => Some(
+            "You changed this example. The changes are not kept: they vanish on reload. Open in Bufferwright to keep them.",
+        ),
+    }
+}
 
 /// Options read from the page's query string.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -92,8 +107,17 @@ pub fn EmbedBar() -> impl IntoView {
     let href = move || {
         let d = state.design.get();
         let here = window().location().href().unwrap_or_default();
-        let base = crate::share::page_base(&here).to_string();
-        format!("{base}#{}", crate::share::encode_fragment(&d))
+        let base = crate::designs::share::page_base(&here).to_string();
+        format!("{base}#{}", crate::designs::share::encode_fragment(&d))
+    };
+    let store = crate::designs::use_store();
+    let edited = move || {
+        store.is_some_and(|s| {
+            s.preset.with(|p| {
+                p.as_ref()
+                    .is_some_and(|p| state.design.with(|d| !crate::designs::same_content(p, d)))
+            })
+        })
     };
     move || {
         let v = state.view.get();
@@ -107,6 +131,14 @@ pub fn EmbedBar() -> impl IntoView {
                     <a class="embed-bar-open" href=href target="_blank" rel="noopener">
                         "Open in Bufferwright"
                     </a>
+                    {move || {
+                        let edited = edited();
+                        keeping_note(v.readonly, edited).map(|text| view! {
+                            <span class=if edited { "embed-bar-note embed-bar-edited" } else { "embed-bar-note" }
+                                data-testid="embed-not-kept" data-edited=if edited { "1" } else { "0" }
+                                role="status">{text}</span>
+                        })
+                    }}
                 </div>
             }
         })
@@ -140,6 +172,13 @@ mod tests {
         assert_eq!(o.workspace, Some(Workspace::Species));
         assert!(parse_query("embed").embed);
         assert_eq!(parse_query(""), UrlOptions::default());
+    }
+
+    #[test]
+    fn an_editable_embed_says_its_changes_are_not_kept() {
+        assert_eq!(keeping_note(true, false), None);
+        assert!(keeping_note(false, false).is_some_and(|t| t.contains("not kept")));
+        assert!(keeping_note(false, true).is_some_and(|t| t.contains("vanish on reload")));
     }
 
     #[test]

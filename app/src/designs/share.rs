@@ -47,7 +47,7 @@ const LENIENT_STD: GeneralPurpose = GeneralPurpose::new(
 /// # Example
 ///
 /// ```
-/// assert_eq!(app::share::base64url_encode(b"pH 7?"), "cEggNz8");
+/// assert_eq!(app::designs::share::base64url_encode(b"pH 7?"), "cEggNz8");
 /// ```
 pub fn base64url_encode(bytes: &[u8]) -> String {
     URL_SAFE_NO_PAD.encode(bytes)

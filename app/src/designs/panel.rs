@@ -1,16 +1,19 @@
 //! Designs panel: save, open, rename, duplicate, delete, export, import and share designs.
 //!
-//! A thin component: every decision lives in [`crate::store`] (plain
+//! A thin component: every decision lives in [`crate::designs`] (plain
 //! functions over a key-value store, tested natively) and
-//! [`crate::share`]; this file only wires buttons to those functions.
+//! [`crate::designs::share`]; this file only wires buttons to those functions.
 
-use crate::state::use_app;
-use crate::store::{
+use crate::designs::{
     export_many, export_one, file_name, local_when, use_store, NoticeAction, NoticeKind, Store,
     Summary, FILE_EXTENSION, MAX_NAME_CHARS,
 };
+use crate::state::use_app;
 use leptos::prelude::*;
 use wasm_bindgen::{closure::Closure, JsCast, JsValue};
+
+/// How many saved designs the list draws before "Show all".
+const LIST_PAGE: usize = 200;
 
 /// Styles of the panel and the embed bar (scoped by class; inline styles are allowed by the CSP).
 const PANEL_CSS: &str = include_str!("designs.css");
@@ -29,7 +32,7 @@ fn import_from_input(store: Store, input: web_sys::HtmlInputElement) {
         return;
     };
     let name = file.name();
-    if file.size() > crate::store::MAX_IMPORT_BYTES as f64 {
+    if file.size() > crate::designs::MAX_IMPORT_BYTES as f64 {
         store.notify(
             NoticeKind::Error,
             format!("“{name}” was not imported: it is too large to be a design file. Nothing was changed."),
@@ -85,7 +88,7 @@ fn copy_text(store: Store, text: String) {
 }
 
 /// One notice with its buttons.
-fn notice_view(store: Store, n: crate::store::Notice) -> impl IntoView {
+fn notice_view(store: Store, n: crate::designs::Notice) -> impl IntoView {
     let id = n.id;
     let state = store.state;
     let actions = match n.action {
@@ -113,11 +116,17 @@ fn notice_view(store: Store, n: crate::store::Notice) -> impl IntoView {
             }
             .into_any()
         }
-        Some(NoticeAction::RestorePrevious) => view! {
+        Some(NoticeAction::RestoreSetAside { key }) => view! {
             <button type="button" class="bw-btn bw-btn-small" data-testid="restore-previous"
                 disabled=move || state.view.get().readonly
-                on:click=move |_| { store.dismiss(id); store.restore_previous(); }>
+                on:click=move |_| { store.dismiss(id); store.recovery_open(&key); }>
                 "Bring back my previous work"</button>
+        }
+        .into_any(),
+        Some(NoticeAction::UndoRecoveryDelete { key, raw }) => view! {
+            <button type="button" class="bw-btn bw-btn-small" data-testid="undo-recovery-delete"
+                on:click=move |_| { store.dismiss(id); store.undo_recovery_delete(&key, &raw); }>
+                "Undo"</button>
         }
         .into_any(),
         None => ().into_any(),
@@ -231,7 +240,44 @@ fn row_view(
     }
 }
 
-/// The designs panel (mounted by the shell; needs [`crate::store::init`] to have run).
+/// One line of the Recovery section.
+fn recovery_row(store: Store, index: usize, item: crate::designs::RecoveryItem) -> impl IntoView {
+    use crate::designs::RecoveryKind;
+    let kind = match &item.kind {
+        RecoveryKind::SetAside => "Set aside",
+        RecoveryKind::ClosedTab => "From a closed tab",
+        RecoveryKind::Damaged(_) => "Damaged",
+    };
+    let when = if item.when_ms > 0.0 {
+        format!(" ({})", local_when(item.when_ms))
+    } else {
+        String::new()
+    };
+    let (k_open, k_exp, k_del) = (item.key.clone(), item.key.clone(), item.key.clone());
+    let label = |verb: &str| format!("{verb} “{}”", item.title);
+    let (l_open, l_exp, l_del) = (label("Open"), label("Export"), label("Delete"));
+    let readonly = move || store.state.view.get().readonly;
+    view! {
+        <li class="bw-recovery-item" data-testid=format!("recovery-item-{index}") data-key=item.key.clone()>
+            <span class="bw-recovery-kind">{kind}</span>
+            " "
+            <span class="bw-recovery-title" data-testid="recovery-title">{item.title.clone()}</span>
+            <span class="bw-recovery-detail" data-testid="recovery-detail">{format!("{}{when}", item.detail)}</span>
+            <span class="bw-recovery-actions">
+                <button type="button" class="bw-btn bw-btn-small" data-testid="recovery-open"
+                    aria-label=l_open hidden=move || !item.can_open || readonly()
+                    on:click=move |_| store.recovery_open(&k_open)>"Open"</button>
+                <button type="button" class="bw-btn bw-btn-small" data-testid="recovery-export"
+                    aria-label=l_exp on:click=move |_| store.recovery_export(&k_exp)>"Export"</button>
+                <button type="button" class="bw-btn bw-btn-small bw-btn-danger" data-testid="recovery-delete"
+                    aria-label=l_del hidden=readonly
+                    on:click=move |_| store.recovery_delete(&k_del)>"Delete"</button>
+            </span>
+        </li>
+    }
+}
+
+/// The designs panel (mounted by the shell; needs [`crate::designs::init`] to have run).
 #[component]
 pub fn DesignsPanel() -> impl IntoView {
     let Some(store) = use_store() else {
@@ -246,6 +292,8 @@ pub fn DesignsPanel() -> impl IntoView {
     let readonly = move || state.view.get().readonly;
     let available = move || store.available.get();
     let renaming = RwSignal::new(None::<String>);
+    // A long list (thousands imported) draws its newest rows first; the rest on request.
+    let shown = RwSignal::new(LIST_PAGE);
     let rename_text = RwSignal::new(String::new());
 
     let status = move || {
@@ -258,19 +306,8 @@ pub fn DesignsPanel() -> impl IntoView {
                 .to_string();
         }
         let dirty = store.dirty();
-        match store.open.get() {
-            Some(o) if !dirty => format!(
-                "Showing saved design “{}” (saved {}).",
-                o.saved.name,
-                local_when(o.saved.saved_at_ms)
-            ),
-            Some(o) => format!(
-                "Unsaved changes to “{}”. They are kept automatically in this browser until you save.",
-                o.saved.name
-            ),
-            None => "Not saved yet. Your work is kept automatically in this browser until you save it."
-                .to_string(),
-        }
+        let open = store.open.get();
+        crate::designs::status_line(open.as_ref(), dirty, &store.keeping.get())
     };
     let save_label = move || {
         if store.open.with(Option::is_some) {
@@ -282,14 +319,14 @@ pub fn DesignsPanel() -> impl IntoView {
     let share_link = Memo::new(move |_| {
         let d = state.design.get();
         let href = window().location().href().unwrap_or_default();
-        crate::share::share_url(crate::share::page_base(&href), &d)
+        crate::designs::share::share_url(crate::designs::share::page_base(&href), &d)
     });
     let share_input = NodeRef::<leptos::html::Input>::new();
     let file_input = NodeRef::<leptos::html::Input>::new();
 
     let export_current = move |_| {
         let d = state.design.get_untracked();
-        crate::store::download(&file_name(&d.name), &export_one(&d));
+        crate::designs::download(&file_name(&d.name), &export_one(&d));
     };
     let export_all = move |_| {
         let all = store.all_saved();
@@ -303,7 +340,7 @@ pub fn DesignsPanel() -> impl IntoView {
         }
         let day = local_when(js_sys::Date::now());
         let day = day.split(' ').next().unwrap_or("designs").to_string();
-        crate::store::download(
+        crate::designs::download(
             &format!("bufferwright-saved-designs-{day}{FILE_EXTENSION}"),
             &export_many(&all),
         );
@@ -378,18 +415,38 @@ pub fn DesignsPanel() -> impl IntoView {
                         </thead>
                         <tbody>
                             {move || {
+                                let limit = shown.get();
                                 store
                                     .list
                                     .get()
                                     .into_iter()
+                                    .take(limit)
                                     .enumerate()
                                     .map(|(i, s)| row_view(store, i, s, renaming, rename_text))
                                     .collect_view()
                             }}
                         </tbody>
                     </table>
+                    <Show when=move || { store.list.with(Vec::len) > shown.get() }>
+                        <p class="bw-hint" data-testid="designs-more">
+                            {move || format!("Showing the {} newest of {} saved designs. ", shown.get(), store.list.with(Vec::len))}
+                            <button type="button" class="bw-btn bw-btn-small" data-testid="show-all-designs"
+                                on:click=move |_| shown.set(usize::MAX)>"Show all"</button>
+                        </p>
+                    </Show>
                 </Show>
             </div>
+
+            <Show when=move || store.recovery.with(|r| !r.is_empty())>
+                <div class="bw-recovery" data-testid="recovery">
+                    <h3 class="bw-sub" id="bw-recovery-title">"Recovery"</h3>
+                    <p class="bw-hint">"Work kept aside so nothing is lost: set aside when a share link replaced it (the last ten are kept), left by a tab that was closed, or an entry that could not be read. Open brings it back (what is on screen is set aside first)."</p>
+                    <ul class="bw-recovery-list" aria-labelledby="bw-recovery-title">
+                        {move || store.recovery.get().into_iter().enumerate()
+                            .map(|(i, item)| recovery_row(store, i, item)).collect_view()}
+                    </ul>
+                </div>
+            </Show>
 
             <div class="bw-files">
                 <h3 class="bw-sub">"Files"</h3>

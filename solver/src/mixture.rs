@@ -574,8 +574,7 @@ pub struct TitrationCurve {
 /// Titrate from `-max_acid_m` to `+max_base_m` (mol/L) in `n` points, drawn
 /// from pH rather than toward it.
 ///
-/// The two end points are full solves (the pH after the most acid and the
-/// most base). Between them the curve runs on an even pH grid: at each pH the
+/// The two end points and the start (nothing added) are full solves. Between them the curve runs on an even pH grid: at each pH the
 /// strong acid or base that puts the solution there follows directly from
 /// the charge balance, with the ionic strength iterated to self-consistency
 /// ([`solve_addition`]):
@@ -636,6 +635,19 @@ pub fn titration_curve(
         };
         added.push(x * 1000.0);
         ph.push(at);
+    }
+    // The start (nothing added) is a point of the curve: the grid point
+    // nearest to it in pH becomes it, which keeps the curve monotone.
+    if n > 2 && a > 0.0 && b > 0.0 {
+        let start = ph_after(0.0)?;
+        let step = (hi - lo) / (n - 1) as f64;
+        if step > 0.0 {
+            let k = (((start - lo) / step).round() as usize).clamp(1, n - 2);
+            if let (Some(x), Some(y)) = (added.get_mut(k), ph.get_mut(k)) {
+                *x = 0.0;
+                *y = start;
+            }
+        }
     }
     Ok(TitrationCurve {
         added_mmol_per_l: added,

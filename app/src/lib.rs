@@ -15,9 +15,11 @@
 //! - [`widgets`]: validated inputs, parsing and number formatting, cautions.
 //! - [`plots`]: plot data, drawing generic over the plotters backend, the canvas.
 //! - [`store`], [`designs_ws`], [`share`], [`embed`]: saved designs, the designs panel, share links, embeds.
+//! - [`checks`]: "Check the engine", the solver's self-check run in the browser.
 //! - [`bench`]: in-browser timing of the solver workloads (for `app/PERF.md`).
 
 pub mod bench;
+pub mod checks;
 // Saved designs, the designs panel, share links and embeds (moving into `designs/`).
 pub mod designs_ws;
 pub mod embed;

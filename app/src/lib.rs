@@ -15,9 +15,11 @@
 //! - [`widgets`]: validated inputs, parsing and number formatting, cautions.
 //! - [`plots`]: plot data, drawing generic over the plotters backend, the canvas.
 //! - [`designs`]: saved designs, drafts and recovery, the designs panel, share links, embeds.
+//! - [`checks`]: "Check the engine", the solver's self-check run in the browser.
 //! - [`bench`]: in-browser timing of the solver workloads (for `app/PERF.md`).
 
 pub mod bench;
+pub mod checks;
 pub mod designs;
 pub mod plots;
 pub mod shell;

@@ -102,6 +102,7 @@ pub fn Shell() -> impl IntoView {
             </Show>
             <footer class="notes">
                 <ModelNote />
+                <crate::checks::EngineCheck />
                 <p class="offline-note">
                     "Runs entirely in this browser and works offline; nothing you enter leaves the device."
                 </p>

@@ -5,3 +5,4 @@ pub mod answer;
 pub mod cautions;
 pub mod format;
 pub mod inputs;
+pub mod uncertainty;

@@ -361,6 +361,7 @@ fn FieldResultView(
                                 <span class="hero-pct">{fmt_pct(sp.fraction)}</span>
                             </p>
                             {amount.map(|a| view! { <p class="hero-amount">{a}</p> })}
+                            <crate::widgets::uncertainty::FieldFractionU spec=s.clone() result=r.clone() species=i />
                         </div>
                     })
                 });

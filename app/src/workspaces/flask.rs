@@ -513,6 +513,7 @@ fn MixtureResultView(
                                 <dd>{fmt_ph(r.pkw)}</dd>
                             </div>
                         </dl>
+                        <crate::widgets::uncertainty::MixtureU ph=eq.ph />
                     </div>
                     {r
                         .systems

@@ -205,6 +205,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     error=err_for("tolerance_ph")
                 />
             </details>
+            <crate::widgets::uncertainty::UncertaintyFields volume_l=Signal::derive(move || spec.with(|s| s.volume_l)) />
         </div>
     };
 

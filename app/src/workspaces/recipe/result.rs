@@ -436,6 +436,7 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
                     </div>
                 })}
             </dl>
+            <crate::widgets::uncertainty::RecipeU spec=spec.clone() result=r.clone() />
         </div>
         {meter_shown.then(|| view! { <p class="hint meter-note">{solver::recipe::METER_NOTE}</p> })}
         <h3>"Reagents"</h3>

@@ -8,3 +8,4 @@
 pub mod canvas;
 pub mod data;
 pub mod draw;
+pub mod field;

@@ -2,7 +2,14 @@
 //!
 //! Built for one-handed tablet use at a tank or a sampling point: quick
 //! buttons for the common questions, big touch targets, big numbers. The
-//! result is one `Memo` over `solver::field::field_reading`.
+//! result is one `Memo` over `solver::field::field_reading`. The optional
+//! parts (alkalinity, the user's limit, warnings, the plot, a day's log)
+//! live in the submodules.
+
+mod extras;
+mod log;
+mod log_data;
+mod plot;
 
 use crate::state::use_app;
 use crate::widgets::cautions::{cautions_for, corrosive_only_if, CautionPanel};
@@ -11,9 +18,14 @@ use crate::widgets::format::{
     CONDUCTIVITY, FIELD_TOTAL, IONIC, PH, TDS, TEMPERATURE,
 };
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
+use extras::{
+    fit_to_system, AlkalinityInputs, CarbonateFacts, FieldWarnings, LimitInputs, LimitVerdict,
+    SALINITY,
+};
 use leptos::prelude::*;
+use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
 use solver::field::{
-    field_reading, reporting_basis, FieldResult, FieldSpec, IonicSource, TotalUnit,
+    field_reading, reporting_basis, target_species, FieldResult, FieldSpec, IonicSource, TotalUnit,
 };
 use solver::mixture::lookup;
 use solver::SolverError;
@@ -26,15 +38,10 @@ pub const QUICK: [(&str, &str); 4] = [
     ("carbonate", "Carbonate (CO₂)"),
 ];
 
-/// The species that usually matters for a system, with a short reason.
+/// The species that usually matters for a system, with a short reason
+/// (the solver's [`target_species`]).
 pub fn key_species(system: &str) -> Option<(usize, &'static str)> {
-    match system {
-        "ammonium" => Some((1, "Un-ionized ammonia, the form toxic to fish")),
-        "sulfide" => Some((0, "Hydrogen sulfide, the toxic form that escapes as gas")),
-        "hypochlorous" => Some((0, "Hypochlorous acid, the stronger disinfectant")),
-        "carbonate" => Some((0, "Dissolved CO₂")),
-        _ => None,
-    }
+    target_species(system)
 }
 
 fn ionic_key(i: &IonicSource) -> &'static str {
@@ -48,6 +55,9 @@ fn ionic_key(i: &IonicSource) -> &'static str {
 }
 
 fn total_key(spec: &FieldSpec) -> &'static str {
+    if spec.alkalinity.is_some() {
+        return "alk";
+    }
     match (spec.total, spec.total_unit) {
         (None, _) => "none",
         (Some(_), TotalUnit::MgPerLAs) => "mg",
@@ -85,7 +95,12 @@ pub fn FieldWorkspace() -> impl IntoView {
             })
         })
     };
-    let set_system = move |id: String| design.update(|d| d.field.system = id);
+    let set_system = move |id: String| {
+        design.update(|d| {
+            d.field.system = id;
+            fit_to_system(&mut d.field);
+        })
+    };
     let other_system =
         Memo::new(move |_| spec.with(|s| !QUICK.iter().any(|(id, _)| *id == s.system)));
     let basis = Memo::new(move |_| spec.with(|s| reporting_basis(&s.system).0.to_string()));
@@ -98,6 +113,9 @@ pub fn FieldWorkspace() -> impl IntoView {
         }
         v.push(ChoiceOption::new("mmol", "mmol/L"));
         v.push(ChoiceOption::new("umol", "µmol/L"));
+        if spec.with(|s| s.system == "carbonate") {
+            v.push(ChoiceOption::new("alk", "Alkalinity instead"));
+        }
         v
     };
     let on_total_unit = Callback::new(move |k: String| {
@@ -106,8 +124,18 @@ pub fn FieldWorkspace() -> impl IntoView {
             if let Some(t) = f.total {
                 last_total.set_value(t);
             }
+            if k != "alk" {
+                f.alkalinity = None;
+            }
             match k.as_str() {
                 "none" => f.total = None,
+                "alk" => {
+                    f.total = None;
+                    f.alkalinity.get_or_insert(Alkalinity {
+                        value: 100.0,
+                        unit: AlkalinityUnit::MgPerLCaco3,
+                    });
+                }
                 other => {
                     f.total = Some(f.total.unwrap_or_else(|| last_total.get_value()));
                     f.total_unit = match other {
@@ -127,6 +155,7 @@ pub fn FieldWorkspace() -> impl IntoView {
                 },
                 "conductivity" => IonicSource::Conductivity { us_cm: 500.0 },
                 "tds" => IonicSource::Tds { mg_l: 300.0 },
+                "salinity" => IonicSource::Salinity { psu: 35.0 },
                 _ => IonicSource::Zero,
             };
         })
@@ -137,11 +166,13 @@ pub fn FieldWorkspace() -> impl IntoView {
             "direct" => ("Ionic strength", IONIC, "mol/L"),
             "conductivity" => ("Conductivity", CONDUCTIVITY, "µS/cm"),
             "tds" => ("Total dissolved solids", TDS, "mg/L"),
+            "salinity" => ("Salinity", SALINITY, "PSU"),
             _ => return None,
         };
         let path = match kind {
             "direct" => "ionic.ionic_strength",
             "conductivity" => "ionic.us_cm",
+            "salinity" => "ionic.psu",
             _ => "ionic.mg_l",
         };
         Some(view! {
@@ -274,7 +305,7 @@ pub fn FieldWorkspace() -> impl IntoView {
                     }}
                     {move || {
                         let key = spec.with(total_key);
-                        (key != "none")
+                        (key != "none" && key != "alk")
                             .then(|| {
                                 let suffix = match key {
                                     "mmol" => "mmol/L".to_string(),
@@ -301,18 +332,23 @@ pub fn FieldWorkspace() -> impl IntoView {
                             ChoiceOption::new("zero", "Nothing (I = 0)"),
                             ChoiceOption::new("conductivity", "Conductivity"),
                             ChoiceOption::new("tds", "TDS"),
+                            ChoiceOption::new("salinity", "Salinity"),
                             ChoiceOption::new("direct", "Known I"),
                         ]
                         selected=Signal::derive(move || spec.with(|s| ionic_key(&s.ionic).to_string()))
                         on_change=on_ionic_kind
                     />
                     {ionic_field}
+                    <AlkalinityInputs spec=spec result=result />
+                    <LimitInputs spec=spec result=result />
                 </div>
                 <div class="results">
                     <FieldResultView spec=spec result=result pending=pending />
+                    {move || (!pending.get()).then(|| view! { <plot::FractionPlot spec=spec custom=custom result=result /> })}
                     <CautionPanel items=cautions testid="field-cautions" />
                 </div>
             </div>
+            <log::DayLog spec=spec custom=custom />
         }
 }
 
@@ -377,8 +413,17 @@ fn FieldResultView(
                     .map(|p| fmt_ph(*p))
                     .collect::<Vec<_>>()
                     .join(", ");
+                let warnings = r.warnings.clone();
+                let limit = r.limit.clone().map(|l| view! { <LimitVerdict limit=l /> });
+                let carbonate = r
+                    .carbonate
+                    .clone()
+                    .map(|c| view! { <CarbonateFacts carbonate=c /> });
                 view! {
                     {hero}
+                    {limit}
+                    <FieldWarnings warnings=warnings />
+                    {carbonate}
                     <div class="species-cards">
                         {r
                             .species

@@ -42,7 +42,7 @@ pub const TITRATION: RGBColor = RGBColor(0x3d, 0x3a, 0x9e);
 
 /// Font family for every plot label: generic, measured by the browser.
 const FAMILY: &str = "sans-serif";
-const FONT_PX: f64 = 13.0;
+pub(crate) const FONT_PX: f64 = 13.0;
 const SMALL_PX: f64 = 12.0;
 const LEGEND_ROW: i32 = 20;
 
@@ -81,21 +81,22 @@ impl Frame {
 
 /// What a legend entry's swatch looks like.
 #[derive(Debug, Clone, Copy, PartialEq)]
-enum Swatch {
+pub(crate) enum Swatch {
     Line(RGBColor),
     Dashed(RGBColor),
     Dot(RGBColor),
 }
 
-type DrawResult<T, DB> = Result<T, DrawingAreaErrorKind<<DB as DrawingBackend>::ErrorType>>;
+pub(crate) type DrawResult<T, DB> =
+    Result<T, DrawingAreaErrorKind<<DB as DrawingBackend>::ErrorType>>;
 
 /// Size factor from CSS pixels to backend pixels (the device pixel ratio on
 /// the page's canvas, 1 in SVG tests): every length, width and font size goes through it.
 #[derive(Debug, Clone, Copy, PartialEq)]
-struct Sc(f64);
+pub(crate) struct Sc(f64);
 
 impl Sc {
-    fn new(scale: f64) -> Self {
+    pub(crate) fn new(scale: f64) -> Self {
         Sc(if scale.is_finite() && scale > 0.0 {
             scale.clamp(0.25, 8.0)
         } else {
@@ -103,20 +104,20 @@ impl Sc {
         })
     }
     /// A length in backend pixels.
-    fn i(self, css_px: i32) -> i32 {
+    pub(crate) fn i(self, css_px: i32) -> i32 {
         (f64::from(css_px) * self.0).round() as i32
     }
     /// A width or radius in backend pixels (at least 1).
-    fn u(self, css_px: u32) -> u32 {
+    pub(crate) fn u(self, css_px: u32) -> u32 {
         (f64::from(css_px) * self.0).round().max(1.0) as u32
     }
 }
 
-fn font(s: Sc, px: f64) -> TextStyle<'static> {
+pub(crate) fn font(s: Sc, px: f64) -> TextStyle<'static> {
     TextStyle::from((FAMILY, px * s.0).into_font()).color(&INK)
 }
 
-fn line(s: Sc, color: RGBColor, width: u32) -> ShapeStyle {
+pub(crate) fn line(s: Sc, color: RGBColor, width: u32) -> ShapeStyle {
     ShapeStyle {
         color: color.to_rgba(),
         filled: false,
@@ -163,7 +164,7 @@ fn legend_layout<DB: DrawingBackend>(
 }
 
 /// Draw the legend at the top of `area`; returns the remaining area below it.
-fn legend<DB: DrawingBackend>(
+pub(crate) fn legend<DB: DrawingBackend>(
     s: Sc,
     area: &DrawingArea<DB, Shift>,
     entries: &[(Swatch, String)],
@@ -224,7 +225,7 @@ pub fn draw_message<DB: DrawingBackend>(
     Ok(())
 }
 
-fn frame_of<DB: DrawingBackend, CT: CoordTranslate>(
+pub(crate) fn frame_of<DB: DrawingBackend, CT: CoordTranslate>(
     area: &DrawingArea<DB, CT>,
     x: (f64, f64),
 ) -> Frame {
@@ -336,19 +337,19 @@ fn subscript(n: usize) -> String {
 
 /// What differs between the plots' axes; everything else (margins, grid,
 /// tick marks, fonts) is the same for all of them and set in [`axes`].
-struct Axes<'f> {
-    x: std::ops::Range<f64>,
-    y: std::ops::Range<f64>,
-    x_labels: usize,
-    y_labels: usize,
-    x_fmt: &'f dyn Fn(&f64) -> String,
-    x_desc: &'f str,
-    y_desc: &'f str,
-    margin_top: i32,
+pub(crate) struct Axes<'f> {
+    pub(crate) x: std::ops::Range<f64>,
+    pub(crate) y: std::ops::Range<f64>,
+    pub(crate) x_labels: usize,
+    pub(crate) y_labels: usize,
+    pub(crate) x_fmt: &'f dyn Fn(&f64) -> String,
+    pub(crate) x_desc: &'f str,
+    pub(crate) y_desc: &'f str,
+    pub(crate) margin_top: i32,
 }
 
 /// A chart on `area` with the house axes: one set-up for every plot.
-fn axes<'a, DB: DrawingBackend>(
+pub(crate) fn axes<'a, DB: DrawingBackend>(
     s: Sc,
     area: &'a DrawingArea<DB, Shift>,
     a: &Axes<'_>,

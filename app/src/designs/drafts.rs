@@ -683,8 +683,10 @@ mod tests {
 
     #[test]
     fn set_aside_on_full_storage_writes_nothing() {
-        let mut kv = MemStore::default();
-        kv.quota = Some(10);
+        let mut kv = MemStore {
+            quota: Some(10),
+            ..Default::default()
+        };
         assert_eq!(
             set_aside(&mut kv, &work("Big", 7.0), "x", 1.0),
             Err(StoreError::Full)

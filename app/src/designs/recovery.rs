@@ -6,7 +6,7 @@ use super::kv::{KvStore, StoreError};
 use solver::design::parse_design;
 use solver::error::SolverError;
 
-fn between<'a>(text: &'a str, open: char, close: char) -> Option<&'a str> {
+fn between(text: &str, open: char, close: char) -> Option<&str> {
     let start = text.find(open)? + open.len_utf8();
     let len = text.get(start..)?.find(close)?;
     text.get(start..start + len)

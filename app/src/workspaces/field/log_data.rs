@@ -209,6 +209,12 @@ pub fn append_csv(out: &mut String, chunk_csv: &str) {
 }
 
 #[cfg(test)]
+#[allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    clippy::panic
+)]
 mod tests {
     use super::*;
     use solver::field_limit::{Limit, LimitUnit};

@@ -146,6 +146,12 @@ pub fn FractionPlot(
 }
 
 #[cfg(test)]
+#[allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    clippy::panic
+)]
 mod tests {
     use super::*;
     use solver::field::{field_reading, IonicSource, TotalUnit};

@@ -238,8 +238,7 @@ pub fn LimitVerdict(limit: LimitResult) -> impl IntoView {
     view! {
         <div class="limit-verdict" class:over=over data-testid="field-limit" data-state=if over { "over" } else { "within" }>
             <p class="limit-verdict-text" data-testid="field-limit-verdict">
-                <strong>{if over { "Over" } else { "Within" }}</strong>
-                {format!(" — {}", verdict_text(&limit))}
+                <strong>{verdict_text(&limit)}</strong>
             </p>
             <p data-testid="field-limit-crossing" data-crossing-ph=limit.crossing_ph.map(|p| format!("{p}")).unwrap_or_default()>
                 {crossing_text(&limit)}

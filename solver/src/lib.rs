@@ -22,5 +22,6 @@ pub mod system;
 pub mod thermo;
 pub mod uncertainty;
 pub mod water;
+pub mod workloads;
 
 pub use error::{Result, SolverError};

@@ -276,7 +276,6 @@ where
     });
     let sys_id = format!("mixture-comp-{i}-system");
     let form_id = format!("mixture-comp-{i}-form");
-    let conc_id = format!("mixture-comp-{i}-conc");
     let remove_label = format!("Remove buffer component {}", i + 1);
     view! {
         <div class="row-card" data-testid=format!("mixture-comp-{i}")>
@@ -338,40 +337,71 @@ where
                     }}
                 </select>
             </div>
-            <div class="row-end">
-                <NumberField
-                    id=conc_id
-                    label="Concentration"
-                    value=Signal::derive(move || row().map_or(0.0, |c| c.conc_m))
-                    on_value=Callback::new(move |v| {
-                        design.update(|d| {
-                            if let Some(c) = d.mixture.components.get_mut(i) {
-                                c.conc_m = v;
-                            }
-                        })
+            <RowEnd
+                prefix="mixture-comp-"
+                i=i
+                remove_label=remove_label
+                value=Signal::derive(move || row().map_or(0.0, |c| c.conc_m))
+                on_value=Callback::new(move |v| {
+                    design.update(|d| {
+                        if let Some(c) = d.mixture.components.get_mut(i) {
+                            c.conc_m = v;
+                        }
                     })
-                    rule=AMOUNT
-                    units=CONC_UNITS
-                    error=err_for(format!("components[{i}].conc_m"))
-                />
-                <button
-                    type="button"
-                    class="btn icon"
-                    aria-label=remove_label
-                    data-testid=format!("mixture-comp-{i}-remove")
-                    disabled=readonly
-                    on:click=move |_| {
-                        app.rows_removed("mixture-comp-", i);
-                        design.update(|d| {
-                            if i < d.mixture.components.len() {
-                                d.mixture.components.remove(i);
-                            }
-                        })
-                    }
-                >
-                    "✕"
-                </button>
-            </div>
+                })
+                on_remove=Callback::new(move |()| {
+                    design.update(|d| {
+                        if i < d.mixture.components.len() {
+                            d.mixture.components.remove(i);
+                        }
+                    })
+                })
+                error=err_for(format!("components[{i}].conc_m"))
+            />
+        </div>
+    }
+}
+
+/// The end of a flask row: its concentration and its remove button, shared by
+/// buffer components and acid/base/salt rows. Ids are `{prefix}{i}-conc` and
+/// `{prefix}{i}-remove`; removing a row renumbers the typed text of the rows
+/// after it (see `AppState::rows_removed`).
+#[component]
+fn RowEnd(
+    prefix: &'static str,
+    i: usize,
+    remove_label: String,
+    value: Signal<f64>,
+    on_value: Callback<f64>,
+    on_remove: Callback<()>,
+    error: Signal<Option<String>>,
+) -> impl IntoView {
+    let app = use_app();
+    let readonly = move || app.view.with(|v| v.readonly);
+    view! {
+        <div class="row-end">
+            <NumberField
+                id=format!("{prefix}{i}-conc")
+                label="Concentration"
+                value=value
+                on_value=on_value
+                rule=AMOUNT
+                units=CONC_UNITS
+                error=error
+            />
+            <button
+                type="button"
+                class="btn icon"
+                aria-label=remove_label
+                data-testid=format!("{prefix}{i}-remove")
+                disabled=readonly
+                on:click=move |_| {
+                    app.rows_removed(prefix, i);
+                    on_remove.run(());
+                }
+            >
+                "✕"
+            </button>
         </div>
     }
 }
@@ -388,7 +418,6 @@ where
     let row = move || spec.with(|s| s.additives.get(i).copied());
     let key = move || row().map_or("nacl", |a| additive_key(a.additive));
     let sel_id = format!("mixture-add-{i}-kind");
-    let conc_id = format!("mixture-add-{i}-conc");
     let remove_label = format!("Remove acid, base or salt {}", i + 1);
     view! {
         <div class="row-card" data-testid=format!("mixture-add-{i}")>
@@ -416,40 +445,27 @@ where
                         .collect_view()}
                 </select>
             </div>
-            <div class="row-end">
-                <NumberField
-                    id=conc_id
-                    label="Concentration"
-                    value=Signal::derive(move || row().map_or(0.0, |a| a.conc_m))
-                    on_value=Callback::new(move |v| {
-                        design.update(|d| {
-                            if let Some(x) = d.mixture.additives.get_mut(i) {
-                                x.conc_m = v;
-                            }
-                        })
+            <RowEnd
+                prefix="mixture-add-"
+                i=i
+                remove_label=remove_label
+                value=Signal::derive(move || row().map_or(0.0, |a| a.conc_m))
+                on_value=Callback::new(move |v| {
+                    design.update(|d| {
+                        if let Some(x) = d.mixture.additives.get_mut(i) {
+                            x.conc_m = v;
+                        }
                     })
-                    rule=AMOUNT
-                    units=CONC_UNITS
-                    error=err_for(format!("additives[{i}].conc_m"))
-                />
-                <button
-                    type="button"
-                    class="btn icon"
-                    aria-label=remove_label
-                    data-testid=format!("mixture-add-{i}-remove")
-                    disabled=readonly
-                    on:click=move |_| {
-                        app.rows_removed("mixture-add-", i);
-                        design.update(|d| {
-                            if i < d.mixture.additives.len() {
-                                d.mixture.additives.remove(i);
-                            }
-                        })
-                    }
-                >
-                    "✕"
-                </button>
-            </div>
+                })
+                on_remove=Callback::new(move |()| {
+                    design.update(|d| {
+                        if i < d.mixture.additives.len() {
+                            d.mixture.additives.remove(i);
+                        }
+                    })
+                })
+                error=err_for(format!("additives[{i}].conc_m"))
+            />
         </div>
     }
 }

@@ -42,8 +42,9 @@ pub fn sig(v: f64, n: i32) -> String {
     format!("{v:.decimals$}")
 }
 
-pub(crate) fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
-    let v_ml = spec.volume_l * 1000.0;
+/// "Weigh …" steps for the weighed ingredients, in order, and the poured ones
+/// (with their volume, mL) left for the method's own wording.
+fn weigh_steps(ing: &[Ingredient]) -> (Vec<String>, Vec<(&Ingredient, f64)>) {
     let mut steps = Vec::new();
     let mut pours = Vec::new();
     for i in ing {
@@ -58,6 +59,12 @@ pub(crate) fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
             _ => {}
         }
     }
+    (steps, pours)
+}
+
+pub(crate) fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
+    let v_ml = spec.volume_l * 1000.0;
+    let (mut steps, pours) = weigh_steps(ing);
     match &spec.method {
         Method::TwoStocks { .. } => {
             for (i, ml) in &pours {
@@ -160,20 +167,7 @@ pub(crate) fn bench_steps(
     } else {
         ""
     };
-    let mut steps = Vec::new();
-    let mut pours = Vec::new();
-    for i in ing {
-        match (i.grams, i.ml) {
-            (Some(g), _) => steps.push(format!(
-                "Weigh {} of {} — {}.",
-                format_mass(g),
-                i.formula,
-                i.name
-            )),
-            (None, Some(ml)) => pours.push((i, ml)),
-            _ => {}
-        }
-    }
+    let (mut steps, pours) = weigh_steps(ing);
     match &spec.method {
         Method::TwoStocks { .. } => {
             for (i, ml) in &pours {

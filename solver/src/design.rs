@@ -153,6 +153,16 @@ fn migrate_1_to_2(value: &mut serde_json::Value) {
 pub fn parse_design(text: &str) -> Result<Design> {
     let value: serde_json::Value = serde_json::from_str(text)
         .map_err(|e| doc_err("document", format!("not valid JSON: {e}")))?;
+    parse_design_value(value)
+}
+
+/// [`parse_design`] for a document already read as JSON (one element of a
+/// collection file, for example): migrate, refuse unknown keys, validate.
+///
+/// # Errors
+///
+/// As [`parse_design`], except that the text is already JSON.
+pub fn parse_design_value(value: serde_json::Value) -> Result<Design> {
     let value = migrate(value)?;
     let design: Design = serde_path_to_error::deserialize(&value).map_err(|e| {
         let path = e.path().to_string();

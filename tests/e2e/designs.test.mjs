@@ -5,7 +5,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFile } from 'node:fs/promises';
-import { serveDist, openSession, waitForApp, screenshot } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, tid, storageSnapshot, openApp } from './harness.mjs';
 
 let srv;
 before(async () => {
@@ -15,13 +15,10 @@ after(async () => {
   await srv?.close();
 });
 
-const tid = (id) => `[data-testid="${id}"]`;
 const PH = '#recipe-ph';
 
 async function openPage(s, path = '/') {
-  const page = await s.newPage();
-  await page.goto(srv.url(path));
-  await waitForApp(page);
+  const page = await openApp(s, srv.url(path));
   await page.waitForSelector(tid('designs-panel'));
   return page;
 }
@@ -44,17 +41,6 @@ async function rowNames(page) {
 
 async function messages(page) {
   return page.textContent(tid('storage-message'));
-}
-
-async function storageSnapshot(page) {
-  return page.evaluate(() => {
-    const out = {};
-    for (let i = 0; i < localStorage.length; i++) {
-      const k = localStorage.key(i);
-      out[k] = localStorage.getItem(k);
-    }
-    return out;
-  });
 }
 
 async function rowByName(page, name) {
@@ -117,6 +103,9 @@ test('rename, duplicate, delete and undo', async () => {
     await page.fill(tid('rename-input'), 'Tris wash 20 mM');
     await page.press(tid('rename-input'), 'Enter');
     await page.waitForFunction(() => document.body.innerText.includes('Tris wash 20 mM'));
+    // Focus stays on the row (its Rename button), not at the top of the page.
+    await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'rename-design');
+    assert.match(await page.evaluate(() => document.activeElement.getAttribute('aria-label')), /Rename “Tris wash 20 mM”/);
     // Renaming the open design renames the working design too.
     assert.equal(await page.inputValue(tid('design-name-input')), 'Tris wash 20 mM');
 
@@ -128,6 +117,8 @@ test('rename, duplicate, delete and undo', async () => {
     await (await rowByName(page, 'Tris wash 20 mM (copy)')).locator(tid('delete-design')).click();
     await page.waitForFunction(() => document.querySelectorAll('tr[data-testid^="design-row-"]').length === 1);
     assert.match(await messages(page), /Deleted “Tris wash 20 mM \(copy\)”/);
+    // The deleted row took the focus with it: focus moves to Undo, so the next key reaches it.
+    await page.waitForFunction(() => document.activeElement?.getAttribute('data-testid') === 'undo-delete');
     await screenshot(page, 'designs-tablet-deleted');
     await page.click(tid('undo-delete'));
     await page.waitForFunction(() => document.querySelectorAll('tr[data-testid^="design-row-"]').length === 2);

@@ -6,9 +6,8 @@ import { execFileSync, spawnSync } from 'node:child_process';
 import { readFileSync, writeFileSync, mkdtempSync } from 'node:fs';
 import { join } from 'node:path';
 import { tmpdir } from 'node:os';
-import { serveDist, openSession, waitForApp, screenshot, ROOT } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, ROOT, tid } from './harness.mjs';
 
-const tid = (id) => `[data-testid="${id}"]`;
 const b64url = (s) => Buffer.from(s, 'utf8').toString('base64url');
 
 function bw(args, input) {

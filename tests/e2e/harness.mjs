@@ -19,6 +19,29 @@ export const VIEWPORTS = {
   desktop: { viewport: { width: 1366, height: 768 }, deviceScaleFactor: 1 },
 };
 
+/** The selector of a `data-testid` hook. */
+export const tid = (id) => `[data-testid="${id}"]`;
+
+/** A new page of session `s` at `url`, once the app has mounted. */
+export async function openApp(s, url) {
+  const page = await s.newPage();
+  await page.goto(url);
+  await waitForApp(page);
+  return page;
+}
+
+/** Every local-storage key of the page's origin with its text. */
+export async function storageSnapshot(page) {
+  return page.evaluate(() => {
+    const out = {};
+    for (let i = 0; i < localStorage.length; i++) {
+      const k = localStorage.key(i);
+      out[k] = localStorage.getItem(k);
+    }
+    return out;
+  });
+}
+
 /** Selectors the UI provides as stable test hooks. */
 export const HOOKS = { root: '#app-root', plot: 'canvas.plot', testid: '[data-testid]' };
 

@@ -3,7 +3,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { execFileSync } from 'node:child_process';
-import { serveDist, openSession, waitForApp, screenshot, ROOT } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, ROOT, tid, openApp } from './harness.mjs';
 
 /** The demo design document, from the command-line entry (the same solver crate as the page). */
 function demoDoc() {
@@ -24,14 +24,6 @@ after(async () => {
   await srv?.close();
 });
 
-const tid = (id) => `[data-testid="${id}"]`;
-
-async function openPage(s, url) {
-  const page = await s.newPage();
-  await page.goto(url);
-  await waitForApp(page);
-  return page;
-}
 
 /** Select all the text of a field and type into it key by key, as a person does. */
 async function retype(page, sel, keys) {
@@ -59,7 +51,7 @@ async function forms(page) {
 test('a thousands comma is never read as a decimal: "1,000" mL is refused with both readings', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'tablet' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     await retype(page, '#recipe-volume', ['1,000']);
     const msg = await page.textContent(tid('error-recipe-volume'));
     assert.match(msg, /1000/);
@@ -83,7 +75,7 @@ test('a thousands comma is never read as a decimal: "1,000" mL is refused with b
 test('a unit picker always converts the quantity, typed or not, and odd amounts ask to check the unit', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     const unit = 'select[aria-label="Final volume: unit"]';
     // Untouched: 500 mL -> 0.5 L.
     await page.selectOption(unit, { label: 'L' });
@@ -112,7 +104,7 @@ test('a unit picker always converts the quantity, typed or not, and odd amounts 
 test('hand-chosen reagent forms never change on a passing keystroke; a real move says so with undo', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'tablet' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     const formsBefore = await forms(page);
     const amountsBefore = await amounts(page);
     assert.equal(formsBefore.length, 2);
@@ -143,18 +135,18 @@ test('hand-chosen reagent forms never change on a passing keystroke; a real move
 test('an edited share link is refused with the reason; an older unchecked link opens with a notice', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     const link = await page.inputValue(tid('share-link'));
     assert.match(link, /#z=[A-Za-z0-9_-]+\.[0-9a-f]{8}$/);
     const i = link.indexOf('#z=') + 20;
     const edited = link.slice(0, i) + (link[i] === 'A' ? 'B' : 'A') + link.slice(i + 1);
-    const bad = await openPage(s, edited);
+    const bad = await openApp(s, edited);
     assert.match(await bad.textContent(tid('storage-message')), /does not match its check|could not be opened/);
     assert.equal(await bad.inputValue('#recipe-conc'), '50', 'the edited amounts are not shown');
     // A link of the first format (no check) still opens, and says it could not be checked.
     const doc = demoDoc();
     doc.name = 'Older link';
-    const old = await openPage(s, srv.url('/') + legacyLink(doc));
+    const old = await openApp(s, srv.url('/') + legacyLink(doc));
     assert.match(await old.textContent(tid('design-name')), /Older link/);
     assert.match(await old.textContent(tid('storage-message')), /older link cannot be checked/);
     s.assertClean('edited link');
@@ -163,10 +155,36 @@ test('an edited share link is refused with the reason; an older unchecked link o
   }
 });
 
+test('a misspelt key in a link or a design file is refused by name, never read as the default', async () => {
+  const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
+  try {
+    // A preparation temperature under a misspelt key would silently become the working
+    // temperature (a different meter reading): the link is refused, naming the key.
+    const doc = demoDoc();
+    doc.name = 'Typo link';
+    doc.recipe.prepare_temprature_c = 22;
+    const page = await openApp(s, srv.url('/') + legacyLink(doc));
+    assert.match(await page.textContent(tid('storage-message')), /could not be opened: .*recipe\.prepare_temprature_c.*unknown field/);
+    assert.doesNotMatch(await page.textContent(tid('design-name')), /Typo link/);
+    // The same document as a file: refused whole, nothing imported.
+    await page.setInputFiles(tid('import-file'), {
+      name: 'typo.bwdesign.json',
+      mimeType: 'application/json',
+      buffer: Buffer.from(JSON.stringify(doc)),
+    });
+    await page.waitForFunction(() => /typo\.bwdesign\.json” was not imported/.test(document.querySelector('[data-testid="storage-message"]').textContent));
+    assert.match(await page.textContent(tid('storage-message')), /recipe\.prepare_temprature_c/);
+    assert.equal(await page.$$eval('tr[data-testid^="design-row-"]', (r) => r.length), 0);
+    s.assertClean('unknown keys');
+  } finally {
+    await s.close();
+  }
+});
+
 test('typed text survives a tab switch and a marked field blocks saving', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'tablet' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     await retype(page, '#recipe-volume', ['1 000']);
     assert.ok(await page.textContent(tid('error-recipe-volume')));
     await page.click(tid('tab-field'));
@@ -189,7 +207,7 @@ test('typed text survives a tab switch and a marked field blocks saving', async 
 test('the offline layer answers only the app page: other pages in the folder go to the network', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     await page.evaluate(async () => {
       const reg = await navigator.serviceWorker.ready;
       return !!reg.active;
@@ -225,10 +243,10 @@ test('the offline layer answers only the app page: other pages in the folder go 
 test('a link carrying an absurdly small volume does not stretch the page', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'tablet' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     const doc = demoDoc();
     doc.recipe.volume_l = 1e-300;
-    const page2 = await openPage(s, srv.url('/') + legacyLink(doc));
+    const page2 = await openApp(s, srv.url('/') + legacyLink(doc));
     await page2.waitForTimeout(200);
     const [scroll, width] = await page2.evaluate(() => [document.documentElement.scrollWidth, innerWidth]);
     assert.ok(scroll <= width, `page is ${scroll} px wide in a ${width} px window`);
@@ -243,7 +261,7 @@ test('a link carrying an absurdly small volume does not stretch the page', async
 test('the conductivity box has its own accessible name', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
-    const page = await openPage(s, srv.url('/?ws=field'));
+    const page = await openApp(s, srv.url('/?ws=field'));
     await page.click('label[for="field-ionic-conductivity"]');
     const box = page.getByLabel(/Conductivity|Specific conductance/i, { exact: false }).and(page.locator('input[type="text"]'));
     assert.equal(await box.count(), 1, 'one text box named after conductivity');

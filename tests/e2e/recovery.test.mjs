@@ -6,7 +6,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFile } from 'node:fs/promises';
-import { serveDist, openSession, waitForApp, screenshot } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, tid, storageSnapshot, openApp } from './harness.mjs';
 
 let srv;
 before(async () => {
@@ -16,26 +16,9 @@ after(async () => {
   await srv?.close();
 });
 
-const tid = (id) => `[data-testid="${id}"]`;
 const PH = '#recipe-ph';
 
-async function openPage(s, url = srv.url('/')) {
-  const page = await s.newPage();
-  await page.goto(url);
-  await waitForApp(page);
-  return page;
-}
-
-async function snapshot(page) {
-  return page.evaluate(() => {
-    const out = {};
-    for (let i = 0; i < localStorage.length; i++) {
-      const k = localStorage.key(i);
-      out[k] = localStorage.getItem(k);
-    }
-    return out;
-  });
-}
+const openPage = (s, url = srv.url('/')) => openApp(s, url);
 
 async function setWork(page, name, ph) {
   await page.fill(PH, String(ph));
@@ -82,7 +65,7 @@ test('a second share link does not destroy work set aside by the first; it stays
     await waitForApp(page);
     assert.equal(await page.inputValue(PH), '6.3');
     // The original is still stored, in a set-aside key.
-    const store = await snapshot(page);
+    const store = await storageSnapshot(page);
     const aside = Object.entries(store).filter(([k]) => k.startsWith('bufferwright.setaside.'));
     assert.ok(aside.some(([, v]) => v.includes('My original buffer')), 'original kept');
     assert.ok(aside.some(([, v]) => v.includes('Link one, adjusted')), 'adjusted link design kept');
@@ -109,6 +92,39 @@ test('a second share link does not destroy work set aside by the first; it stays
   }
 });
 
+test('opening a saved design keeps the unsaved work on screen aside, one click brings it back', async () => {
+  const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
+  try {
+    const page = await openPage(s);
+    await page.fill(PH, '6.8');
+    await page.fill(tid('design-name-input'), 'Saved wash');
+    await page.click(tid('save-design'));
+    await page.waitForFunction(() => [...document.querySelectorAll('[data-testid="design-row-name"]')].some((e) => e.textContent === 'Saved wash'));
+    // New work on top of it, never saved.
+    await setWork(page, 'Unsaved column buffer', 5.2);
+    const row = page.locator('tr[data-testid^="design-row-"]', { has: page.locator('[data-testid="design-row-name"]:text-is("Saved wash")') });
+    await row.locator(tid('open-design')).click();
+    await page.waitForFunction((sel) => document.querySelector(sel).value === '6.8', PH);
+    assert.match(await page.textContent(tid('storage-message')), /Opened “Saved wash”\. Your unsaved work was kept aside/);
+    const aside = Object.entries(await storageSnapshot(page)).filter(([k]) => k.startsWith('bufferwright.setaside.'));
+    assert.ok(aside.some(([, v]) => v.includes('Unsaved column buffer')), 'the unsaved work is stored aside');
+    await page.click(tid('restore-previous'));
+    await page.waitForFunction((sel) => document.querySelector(sel).value === '5.2', PH);
+    assert.equal(await page.inputValue(tid('design-name-input')), 'Unsaved column buffer');
+    // Opening it again while it is on screen unchanged sets nothing more aside.
+    const asideCount = async () => Object.keys(await storageSnapshot(page)).filter((k) => k.startsWith('bufferwright.setaside.')).length;
+    await row.locator(tid('open-design')).click();
+    await page.waitForFunction((sel) => document.querySelector(sel).value === '6.8', PH);
+    const before = await asideCount();
+    await row.locator(tid('open-design')).click();
+    await page.waitForTimeout(300);
+    assert.equal(await asideCount(), before, 'an unchanged saved design is not set aside');
+    s.assertClean('open saved design');
+  } finally {
+    await s.close();
+  }
+});
+
 test('two tabs keep separate drafts: closing one and opening the page again brings its work back', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
@@ -116,7 +132,7 @@ test('two tabs keep separate drafts: closing one and opening the page again brin
     const b = await openPage(s);
     await setWork(a, 'Tab A work', 5.1);
     await setWork(b, 'Tab B work', 9.1);
-    const drafts = Object.entries(await snapshot(b)).filter(([k]) => k.startsWith('bufferwright.tabdraft.'));
+    const drafts = Object.entries(await storageSnapshot(b)).filter(([k]) => k.startsWith('bufferwright.tabdraft.'));
     assert.equal(drafts.length, 2, 'one draft per tab');
     assert.match(await a.textContent(tid('design-status')), /kept automatically/);
     await a.close({ runBeforeUnload: true });
@@ -194,7 +210,7 @@ test('old single-draft keys are recovered: the draft opens in a new tab, the set
     const page = await openPage(s);
     await page.waitForFunction((sel) => document.querySelector(sel).value === '6.15', PH);
     assert.equal(await page.inputValue(tid('design-name-input')), 'From the old page');
-    const store = await snapshot(page);
+    const store = await storageSnapshot(page);
     assert.equal(store['bufferwright.draft'], undefined);
     assert.equal(store['bufferwright.draft.previous'], undefined);
     assert.ok((await recoveryTitles(page)).includes('Set aside by the old page'));
@@ -232,13 +248,13 @@ test('damaged entries are listed under Recovery in plain words, with export and 
     const row = page.locator('[data-testid^="recovery-item-"]', { hasText: 'damaged saved design' });
     const [dl] = await Promise.all([page.waitForEvent('download'), row.locator(tid('recovery-export')).click()]);
     assert.equal(await readFile(await dl.path(), 'utf8'), '{"schema":1,"name":"Sec', 'exported exactly as stored');
-    const before = await snapshot(page);
+    const before = await storageSnapshot(page);
     await row.locator(tid('recovery-delete')).click();
     await page.waitForFunction(() => ![...document.querySelectorAll('[data-testid^="recovery-item-"]')].some((e) => /damaged saved design/.test(e.innerText)));
-    assert.equal((await snapshot(page))[`bufferwright.quarantine.${id}`], undefined);
+    assert.equal((await storageSnapshot(page))[`bufferwright.quarantine.${id}`], undefined);
     await page.click(tid('undo-recovery-delete'));
     await page.waitForFunction(() => [...document.querySelectorAll('[data-testid^="recovery-item-"]')].some((e) => /damaged saved design/.test(e.innerText)));
-    assert.equal((await snapshot(page))[`bufferwright.quarantine.${id}`], before[`bufferwright.quarantine.${id}`]);
+    assert.equal((await storageSnapshot(page))[`bufferwright.quarantine.${id}`], before[`bufferwright.quarantine.${id}`]);
     s.assertClean('damaged entries');
   } finally {
     await s.close();
@@ -286,7 +302,7 @@ test('importing 4,000 designs writes every one and the index once; a refused imp
     const file = JSON.stringify({ format: 'bufferwright-designs', schema: 1, designs });
     await page.setInputFiles(tid('import-file'), { name: 'many.bwdesign.json', mimeType: 'application/json', buffer: Buffer.from(file) });
     await page.waitForFunction(() => /Imported 4000 designs/.test(document.querySelector('[data-testid="storage-message"]').textContent), null, { timeout: 120_000 });
-    const store = await snapshot(page);
+    const store = await storageSnapshot(page);
     const ids = JSON.parse(store['bufferwright.index']).ids;
     assert.equal(ids.length, 4000);
     assert.equal(new Set(ids).size, 4000);
@@ -299,10 +315,10 @@ test('importing 4,000 designs writes every one and the index once; a refused imp
       schema: 1,
       designs: designs.map((d) => ({ ...d, name: `${d.name} bis ${'x'.repeat(100)}` })),
     });
-    const before = await snapshot(page);
+    const before = await storageSnapshot(page);
     await page.setInputFiles(tid('import-file'), { name: 'too-many.bwdesign.json', mimeType: 'application/json', buffer: Buffer.from(big) });
     await page.waitForFunction(() => /was not imported/.test(document.querySelector('[data-testid="storage-message"]').textContent), null, { timeout: 120_000 });
-    const after = await snapshot(page);
+    const after = await storageSnapshot(page);
     assert.deepEqual(Object.keys(after).filter((k) => k.startsWith('bufferwright.design.')).sort(), Object.keys(before).filter((k) => k.startsWith('bufferwright.design.')).sort());
     assert.equal(after['bufferwright.index'], before['bufferwright.index']);
     s.assertClean('large import');

@@ -3,7 +3,7 @@
 // and presets an embed (?embed=1&ws=...&readonly=1) without touching the receiver's draft.
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
-import { serveDist, openSession, waitForApp, screenshot } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, tid, openApp } from './harness.mjs';
 
 let srv;
 before(async () => {
@@ -13,21 +13,13 @@ after(async () => {
   await srv?.close();
 });
 
-const tid = (id) => `[data-testid="${id}"]`;
 const PH = '#recipe-ph';
-
-async function openPage(s, url) {
-  const page = await s.newPage();
-  await page.goto(url);
-  await waitForApp(page);
-  return page;
-}
 
 /** Make a share link for a design named `name` with target pH `ph` in a throwaway browser. */
 async function makeLink(name, ph) {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     await page.fill(PH, String(ph));
     await page.fill(tid('design-name-input'), name);
     // The link is compressed and checked: wait until the page shows the name it carries.
@@ -50,7 +42,7 @@ test('a share link restores the design in a fresh browser', async () => {
 
   const s = await openSession({ allowedOrigin: srv.origin, view: 'tablet' });
   try {
-    const page = await openPage(s, link);
+    const page = await openApp(s, link);
     assert.equal(await page.inputValue(PH), '6.9');
     assert.equal(await page.inputValue(tid('design-name-input')), 'Field kit — carbonate check');
     // The fragment is dropped from the address bar so a reload shows later edits, not the link.
@@ -72,7 +64,7 @@ test("opening a link keeps the receiver's unsaved work aside, one click brings i
   const link = await makeLink('From a colleague', 8.2);
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
-    const page = await openPage(s, srv.url('/'));
+    const page = await openApp(s, srv.url('/'));
     await page.fill(PH, '5.5');
     await page.fill(tid('design-name-input'), 'My half-finished buffer');
     await page.goto(link);
@@ -93,10 +85,10 @@ test('a broken link is refused with a reason and the page still works', async ()
   const cut = link.slice(0, link.length - 37);
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
-    const page = await openPage(s, cut);
+    const page = await openApp(s, cut);
     assert.match(await page.textContent(tid('storage-message')), /The design in this link could not be opened/);
     assert.equal(await page.inputValue(PH), '7.4', 'the demo design is shown');
-    const bad = await openPage(s, `${srv.url('/')}#d=not*base64`);
+    const bad = await openApp(s, `${srv.url('/')}#d=not*base64`);
     assert.match(await bad.textContent(tid('storage-message')), /not allowed in a share link/);
     s.assertClean('broken link');
   } finally {
@@ -110,12 +102,12 @@ test('embed mode: preset design from the fragment, chosen workspace, read-only, 
   const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
   try {
     // The receiver has their own work on this origin.
-    const own = await openPage(s, srv.url('/'));
+    const own = await openApp(s, srv.url('/'));
     await own.fill(PH, '6.1');
     const draftBefore = await own.evaluate(() => Object.keys(localStorage).filter((k) => k.startsWith('bufferwright.tabdraft.')).map((k) => localStorage.getItem(k)).join('\n') || null);
     assert.ok(draftBefore);
 
-    const page = await openPage(s, `${srv.url('/')}?embed=1&ws=recipe&readonly=1${frag}`);
+    const page = await openApp(s, `${srv.url('/')}?embed=1&ws=recipe&readonly=1${frag}`);
     const bar = page.locator(tid('embed-mode'));
     await bar.waitFor();
     assert.equal(await bar.getAttribute('data-workspace'), 'recipe');
@@ -130,7 +122,7 @@ test('embed mode: preset design from the fragment, chosen workspace, read-only, 
     assert.ok(href.startsWith(`${srv.origin}/#z=`), href);
     await screenshot(page, 'embed-preset-desktop');
 
-    const field = await openPage(s, `${srv.url('/')}?embed=1&ws=field${frag}`);
+    const field = await openApp(s, `${srv.url('/')}?embed=1&ws=field${frag}`);
     assert.equal(await field.locator(tid('embed-mode')).getAttribute('data-workspace'), 'field');
 
     // Neither embed wrote the receiver's draft.

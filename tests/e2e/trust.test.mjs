@@ -4,7 +4,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFile } from 'node:fs/promises';
-import { serveDist, openSession, waitForApp, screenshot } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, tid, openApp } from './harness.mjs';
 
 let srv;
 before(async () => {
@@ -14,14 +14,8 @@ after(async () => {
   await srv?.close();
 });
 
-const tid = (id) => `[data-testid="${id}"]`;
 
-async function openPage(s) {
-  const page = await s.newPage();
-  await page.goto(srv.url('/'));
-  await waitForApp(page);
-  return page;
-}
+const openPage = (s) => openApp(s, srv.url('/'));
 
 test('the engine check runs in the page: all cases pass, the CSV downloads, the report prints alone', async () => {
   const s = await openSession({ allowedOrigin: srv.origin, view: 'tablet' });

@@ -431,18 +431,43 @@ impl Store {
         }
     }
 
-    /// Open a saved design (replaces the working design).
+    /// Open a saved design. The work on screen is set aside first (listed
+    /// under Recovery, with a button to bring it back) when it holds anything
+    /// found nowhere else; when storage refuses even that, nothing is replaced.
     pub fn open_design(&self, id: &str) {
-        let Some(kv) = self.kv() else {
+        let Some(mut kv) = self.kv() else {
             return;
         };
         match read_design(&kv, id) {
             Ok(d) => {
+                let current = self.state.design.with_untracked(|w| self.draft_record(w));
+                let kept = self.keep_current(
+                    &mut kv,
+                    Some(current),
+                    &d,
+                    "replaced when you opened a saved design",
+                );
+                let name = d.name.clone();
+                self.link_design.set_value(None);
                 self.open.set(Some(OpenRef {
                     id: id.to_string(),
                     saved: d.clone(),
                 }));
                 self.state.load(d);
+                match kept {
+                    Ok(Some(key)) => self.notify(
+                        NoticeKind::Info,
+                        format!("Opened “{name}”. Your unsaved work was kept aside (see Recovery)."),
+                        Some(NoticeAction::RestoreSetAside { key }),
+                    ),
+                    Ok(None) => {}
+                    Err(()) => self.notify(
+                        NoticeKind::Warn,
+                        format!("Opened “{name}”. Storage is full, so your unsaved work was left where it was kept; it is listed under Recovery."),
+                        None,
+                    ),
+                }
+                self.refresh_recovery(false);
             }
             Err(e) => {
                 self.fail(&e);

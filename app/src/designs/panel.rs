@@ -167,8 +167,17 @@ fn row_view(
         move || {
             store.rename(&id, &rename_text.get_untracked());
             renaming.set(None);
+            focus_after_render(&[&format!("#bw-rename-btn-{id}")]);
         }
     };
+    let cancel = {
+        let id = id.clone();
+        move || {
+            renaming.set(None);
+            focus_after_render(&[&format!("#bw-rename-btn-{id}")]);
+        }
+    };
+    let cancel2 = cancel.clone();
     let commit2 = commit.clone();
     let name = s.name.clone();
     let name_for_rename = s.name.clone();
@@ -195,16 +204,17 @@ fn row_view(
                         on:input=move |ev| rename_text.set(event_target_value(&ev))
                         on:keydown={
                             let commit = commit.clone();
+                            let cancel = cancel.clone();
                             move |ev: web_sys::KeyboardEvent| match ev.key().as_str() {
                                 "Enter" => commit(),
-                                "Escape" => renaming.set(None),
+                                "Escape" => cancel(),
                                 _ => {}
                             }
                         } />
                     <button type="button" class="bw-btn bw-btn-small" data-testid="rename-ok"
                         on:click={ let commit = commit2.clone(); move |_| commit() }>"OK"</button>
                     <button type="button" class="bw-btn bw-btn-small"
-                        on:click=move |_| renaming.set(None)>"Cancel"</button>
+                        on:click={ let cancel = cancel2.clone(); move |_| cancel() }>"Cancel"</button>
                 </Show>
             </td>
             <td class="bw-col-system">{s.system.clone()}</td>
@@ -214,6 +224,7 @@ fn row_view(
                 <button type="button" class="bw-btn bw-btn-small" data-testid="open-design"
                     aria-label=l_open on:click=move |_| store.open_design(&id_open)>"Open"</button>
                 <button type="button" class="bw-btn bw-btn-small" data-testid="rename-design"
+                    id=format!("bw-rename-btn-{id}")
                     aria-label=l_ren hidden=readonly
                     on:click=move |_| {
                         rename_text.set(name_for_rename.clone());
@@ -234,10 +245,34 @@ fn row_view(
                     on:click=move |_| store.duplicate(&id_dup)>"Duplicate"</button>
                 <button type="button" class="bw-btn bw-btn-small bw-btn-danger" data-testid="delete-design"
                     aria-label=l_del hidden=readonly
-                    on:click=move |_| store.delete(&id_del)>"Delete"</button>
+                    on:click=move |_| {
+                        store.delete(&id_del);
+                        // The row is gone: focus moves to the Undo of its notice (notices
+                        // are newest first), or to the panel's heading when there is none.
+                        focus_after_render(&["[data-testid=\"undo-delete\"]", "#designs-title"]);
+                    }>"Delete"</button>
             </td>
         </tr>
     }
+}
+
+/// After the next render, move keyboard focus to the first element found by
+/// the first of `selectors` that matches, so focus never falls back to the top of the page when the
+/// element that had it is removed (a rename field, a deleted row).
+fn focus_after_render(selectors: &[&str]) {
+    let selectors: Vec<String> = selectors.iter().map(|s| (*s).to_string()).collect();
+    request_animation_frame(move || {
+        let found = selectors.iter().find_map(|sel| {
+            document()
+                .query_selector(sel)
+                .ok()
+                .flatten()
+                .and_then(|e| e.dyn_into::<web_sys::HtmlElement>().ok())
+        });
+        if let Some(el) = found {
+            let _ = el.focus();
+        }
+    });
 }
 
 /// One line of the Recovery section.
@@ -364,7 +399,7 @@ pub fn DesignsPanel() -> impl IntoView {
     view! {
         <section class="designs-panel" data-testid="designs-panel" aria-labelledby="designs-title">
             <style>{PANEL_CSS}</style>
-            <h2 id="designs-title" class="bw-panel-title">"Saved designs"</h2>
+            <h2 id="designs-title" class="bw-panel-title" tabindex="-1">"Saved designs"</h2>
             <div class="bw-notices" data-testid="storage-message" role="status" aria-live="polite">
                 {move || store.notices.get().into_iter().map(|n| notice_view(store, n)).collect_view()}
             </div>

@@ -139,7 +139,7 @@ impl Store {
     }
 
     /// This tab's draft record for `design`.
-    fn draft_record(&self, design: &Design) -> StoredDraft {
+    pub(super) fn draft_record(&self, design: &Design) -> StoredDraft {
         let open = self.open.get_untracked();
         let draft = Draft {
             design: design.clone(),
@@ -219,7 +219,7 @@ impl Store {
     /// `Ok(Some(key))`: set aside under `key`; `Ok(None)`: nothing to keep;
     /// `Err(())`: storage refused, the old draft was left behind under its
     /// own key instead (still listed under Recovery).
-    fn keep_current(
+    pub(super) fn keep_current(
         &self,
         kv: &mut LocalStore,
         current: Option<StoredDraft>,

@@ -3,7 +3,7 @@
 use super::index::{design_key, ids_for_write, scan, sort_newest_first, to_base36, write_index};
 use super::kv::{KvStore, StoreError};
 use serde::Serialize;
-use solver::design::{parse_design, to_json, to_json_pretty, Design};
+use solver::design::{parse_design_value, to_json, to_json_pretty, Design};
 use std::collections::HashSet;
 
 /// `format` value of a file holding several designs.
@@ -74,23 +74,25 @@ pub fn parse_import(text: &str) -> Result<Vec<Design>, String> {
         == Some(COLLECTION_FORMAT)
         || (value.get("designs").is_some() && value.get("recipe").is_none());
     if !is_collection {
-        return parse_design(&value.to_string())
+        return parse_design_value(value)
             .map(|d| vec![d])
             .map_err(|e| format!("not a usable design: {e}"));
     }
-    let list = value
-        .get("designs")
-        .and_then(serde_json::Value::as_array)
-        .ok_or_else(|| "the file has no \"designs\" list".to_string())?;
+    // Each element is read once, as the JSON value it already is.
+    let list = match value {
+        serde_json::Value::Object(mut o) => match o.remove("designs") {
+            Some(serde_json::Value::Array(list)) => list,
+            _ => return Err("the file has no \"designs\" list".into()),
+        },
+        _ => return Err("the file has no \"designs\" list".into()),
+    };
     if list.is_empty() {
         return Err("the file holds no designs".into());
     }
-    list.iter()
+    let n = list.len();
+    list.into_iter()
         .enumerate()
-        .map(|(i, v)| {
-            parse_design(&v.to_string())
-                .map_err(|e| format!("design {} of {}: {e}", i + 1, list.len()))
-        })
+        .map(|(i, v)| parse_design_value(v).map_err(|e| format!("design {} of {n}: {e}", i + 1)))
         .collect()
 }
 
@@ -133,14 +135,20 @@ pub fn import_designs(
         }
     };
     for d in designs {
-        if !seen.insert(to_json(d)) {
+        // Serialised once: the same text is the duplicate check and the stored entry.
+        let text = to_json(d);
+        if seen.contains(&text) {
             report.already_saved.push(d.name.clone());
             continue;
         }
         let mut stored = d.clone();
-        if stored.saved_at_ms <= 0.0 {
+        let stored_text = if stored.saved_at_ms <= 0.0 {
             stored.saved_at_ms = now_ms;
-        }
+            to_json(&stored)
+        } else {
+            text.clone()
+        };
+        seen.insert(text);
         let id = loop {
             n += 1;
             let candidate = if n == 1 {
@@ -161,7 +169,7 @@ pub fn import_designs(
             }
         };
         taken.insert(id.clone());
-        if let Err(e) = kv.set(&design_key(&id), &to_json(&stored)) {
+        if let Err(e) = kv.set(&design_key(&id), &stored_text) {
             undo(kv, &report.added);
             return Err(e);
         }

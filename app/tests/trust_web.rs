@@ -1,6 +1,6 @@
 //! Browser component tests of the trust views: the engine self-check read from the page's own report, and the U95 beside the recipe and flask results.
 //!
-//! Same harness as `web.rs`: each test mounts a component with a fresh
+//! The shared harness (`common/`): each test mounts a component with a fresh
 //! `AppState` (demo design), acts the way a browser does and reads the page.
 //! Expected numbers come from the solver called directly.
 #![cfg(target_arch = "wasm32")]
@@ -18,74 +18,12 @@ use app::workspaces::flask::FlaskWorkspace;
 use app::workspaces::recipe::RecipeWorkspace;
 use leptos::prelude::*;
 use solver::design::demo_design;
-use wasm_bindgen::JsCast;
 use wasm_bindgen_test::*;
-use web_sys::{Element, Event, EventInit, HtmlElement, HtmlInputElement};
 
 wasm_bindgen_test_configure!(run_in_browser);
 
-fn mount<F, V>(state: AppState, f: F) -> Element
-where
-    F: FnOnce() -> V + 'static,
-    V: IntoView + 'static,
-{
-    let doc = document();
-    let host: HtmlElement = doc.create_element("div").unwrap().unchecked_into();
-    doc.body().unwrap().append_child(&host).unwrap();
-    let handle = leptos::mount::mount_to(host.clone(), move || {
-        provide_context(state);
-        f()
-    });
-    std::mem::forget(handle);
-    host.unchecked_into()
-}
-
-async fn settle() {
-    for _ in 0..4 {
-        leptos::task::tick().await;
-    }
-    let p = js_sys::Promise::new(&mut |resolve, _| {
-        window()
-            .set_timeout_with_callback_and_timeout_and_arguments_0(&resolve, 0)
-            .unwrap();
-    });
-    wasm_bindgen_futures::JsFuture::from(p).await.unwrap();
-    leptos::task::tick().await;
-}
-
-fn find(root: &Element, sel: &str) -> Option<Element> {
-    root.query_selector(sel).unwrap()
-}
-
-fn text(root: &Element, testid: &str) -> Option<String> {
-    find(root, &format!("[data-testid=\"{testid}\"]")).map(|e| e.text_content().unwrap_or_default())
-}
-
-fn bubbling(kind: &str) -> Event {
-    let init = EventInit::new();
-    init.set_bubbles(true);
-    Event::new_with_event_init_dict(kind, &init).unwrap()
-}
-
-async fn type_into(root: &Element, id: &str, value: &str) {
-    let input: HtmlInputElement = find(root, &format!("#{id}"))
-        .unwrap_or_else(|| panic!("no input #{id}"))
-        .unchecked_into();
-    input.set_value(value);
-    input.dispatch_event(&bubbling("input")).unwrap();
-    settle().await;
-}
-
-/// Open the `<details data-testid=...>` and wait for its `toggle` event to run.
-async fn open_details(root: &Element, testid: &str) {
-    let d = find(root, &format!("[data-testid=\"{testid}\"]"))
-        .unwrap_or_else(|| panic!("no [data-testid={testid}]"));
-    d.set_attribute("open", "").unwrap();
-    // `toggle` is queued as a task after the attribute changes.
-    for _ in 0..3 {
-        settle().await;
-    }
-}
+mod common;
+use common::*;
 
 #[wasm_bindgen_test]
 async fn the_engine_check_runs_when_opened_and_reports_no_failure() {

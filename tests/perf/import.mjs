@@ -18,14 +18,22 @@ async function busy() {
 }
 
 async function timeImport(page, name, text, done) {
+  // The user's clock starts when the file is chosen (the input's change event, in the page) and
+  // stops when the message is shown and the list drawn. Handing the file to the browser from this
+  // script (a few MB through the debugging protocol) is not part of it; the wall time including
+  // it is printed beside.
+  await page.evaluate(() => {
+    window.__chosenAt = undefined;
+    document.querySelector('[data-testid="import-file"]').addEventListener('change', () => { window.__chosenAt = performance.now(); }, { capture: true, once: true });
+  });
   const b0 = await busy();
   const t0 = Date.now();
   await page.setInputFiles(tid('import-file'), { name, mimeType: 'application/json', buffer: Buffer.from(text) });
   await page.waitForFunction((re) => new RegExp(re).test(document.querySelector('[data-testid="storage-message"]').textContent), done, { timeout: 300_000 });
   // Let the list render before stopping the clock.
-  await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0))));
+  const user = await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => setTimeout(() => r(performance.now() - window.__chosenAt), 0))));
   const wall = Date.now() - t0;
-  return `${wall} ms wall, ${Math.round((await busy()) - b0)} ms main-thread busy`;
+  return `${Math.round(user)} ms from choosing the file (${wall} ms wall including the transfer from this script, ${Math.round((await busy()) - b0)} ms main-thread busy)`;
 }
 
 // A fixed JavaScript reference (parse the file, write 4,000 keys) shows how loaded the machine is.

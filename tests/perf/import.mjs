@@ -61,9 +61,13 @@ try {
   const rows = await page.$$eval('tr[data-testid^="design-row-"]', (r) => r.length);
   console.log(`import ${count} designs (${(file.length / 1e6).toFixed(2)} MB): ${ms} (click to message + list drawn; ${rows} rows)`);
 
-  const big = JSON.stringify({ format: 'bufferwright-designs', schema: 1, designs: designs.map((d) => ({ ...d, name: `${d.name} bis ${'x'.repeat(100)}` })) });
+  // Half as many again as the first file, all new (names stay within the 120-character limit, so the file is valid):
+  // with the first import already stored, this passes the browser's storage quota part-way.
+  const more = [...designs, ...designs.slice(0, designs.length / 2)].map((d, i) => ({ ...d, name: `Second batch ${i + 1}`, saved_at_ms: 1_710_000_000_000 + i }));
+  const big = JSON.stringify({ format: 'bufferwright-designs', schema: 1, designs: more });
   const refused = await timeImport(page, 'too-many.bwdesign.json', big, 'was not imported');
-  console.log(`refused import that fills storage (${(big.length / 1e6).toFixed(2)} MB): ${refused} to its message`);
+  const why = (await page.textContent(tid('storage-message'))).split('×')[0];
+  console.log(`refused import that fills storage (${more.length} designs, ${(big.length / 1e6).toFixed(2)} MB): ${refused} to its message: ${why}`);
 } finally {
   await browser.close();
   await srv.close();

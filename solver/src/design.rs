@@ -394,7 +394,8 @@ pub fn to_json_pretty(d: &Design) -> String {
 /// The demo design loaded on first visit: a fish-hatchery lab's morning.
 ///
 /// Invented scenario, for the demo only: the hatchery's lab makes 500 mL of
-/// 50 mM phosphate, pH 7.40 at 37 °C, for an enzyme assay; the mixture
+/// 50 mM phosphate, pH 7.40 at 37 °C, for an enzyme assay, made and checked
+/// at the 22 °C bench; the mixture
 /// workspace holds a Tris/NaCl wash it keeps at room temperature; the field
 /// workspace holds this morning's reading from rearing tank 3.
 pub fn demo_design() -> Design {
@@ -416,7 +417,8 @@ pub fn demo_design() -> Design {
                 base_form: "na2hpo4_7h2o".into(),
             },
             tolerance_ph: 0.05,
-            prepare_temperature_c: None,
+            // Made and checked at the bench, used in the 37 °C assay.
+            prepare_temperature_c: Some(22.0),
             concentrate_factor: 1.0,
         },
         mixture: MixtureSpec {

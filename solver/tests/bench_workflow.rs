@@ -346,6 +346,7 @@ fn out_of_range_bench_inputs_in_a_document_name_the_path() {
     assert!(e.starts_with("recipe.concentrate_factor"), "{e}");
     // Both fields round-trip, and stay out of documents that do not use them.
     let mut d = demo_design();
+    d.recipe.prepare_temperature_c = None;
     assert!(!to_json(&d).contains("prepare_temperature_c"));
     assert!(!to_json(&d).contains("concentrate_factor"));
     d.recipe.prepare_temperature_c = Some(22.0);

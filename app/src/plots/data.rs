@@ -301,6 +301,22 @@ impl PlotData {
         nice_ceiling(top * 1.2)
     }
 
+    /// Like [`PlotData::capacity_ceiling`] over pH `lo`–`hi` only (the
+    /// recipe's compact plot), still leaving water's own capacity below pH 3
+    /// and above 11 out of the scale.
+    pub fn capacity_ceiling_between(&self, lo: f64, hi: f64) -> f64 {
+        let top = self
+            .grid
+            .iter()
+            .zip(self.capacity_mm.iter())
+            .filter(|(x, _)| (lo.max(3.0)..=hi.min(11.0)).contains(*x))
+            .map(|(_, b)| *b)
+            .chain(std::iter::once(self.capacity_at_ph * 1000.0))
+            .filter(|b| b.is_finite())
+            .fold(0.0_f64, f64::max);
+        nice_ceiling(top * 1.2)
+    }
+
     /// Largest concentration any species reaches, mmol/L.
     pub fn max_total_mm(&self) -> f64 {
         self.systems

@@ -12,6 +12,7 @@
 //! (the salt rows and their list edits), and the
 //! inputs here.
 
+pub mod chemistry;
 pub mod forms;
 pub mod result;
 pub mod salts;

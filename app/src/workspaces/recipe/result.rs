@@ -324,9 +324,7 @@ pub(crate) fn RecipeResultView(
                     )
                 }}
             </p>
-            // TODO(plots): a small species/capacity plot of the finished recipe would sit here
-            // (needs a public mini-plot component from crate::plots; the e2e smoke test expects a
-            // visible canvas.plot on the landing view, which is this workspace).
+            <super::chemistry::RecipeChemistry spec=spec custom=custom result=result pending=pending />
             <div class="actions no-print">
                 <button type="button" class="btn" data-testid="recipe-copy" on:click=on_copy
                     disabled=move || pending.get() || result.with(Result::is_err)>

@@ -16,6 +16,7 @@ pub mod chemistry;
 pub mod forms;
 pub mod result;
 pub mod salts;
+pub mod sheet;
 #[cfg(test)]
 mod tests;
 

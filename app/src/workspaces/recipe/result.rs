@@ -312,6 +312,7 @@ pub(crate) fn RecipeResultView(
                 }}
             </h2>
             <div aria-live="polite">{body}</div>
+            <super::sheet::BenchSheet spec=spec result=result pending=pending />
             <p class="print-only print-model">
                 {move || {
                     let act = if spec.with(|s| s.activity == ActivityModel::Ideal) {

@@ -188,7 +188,8 @@ test('the printed sheet carries the meter reading and a QR code of the share lin
     const link = await page.inputValue(tid('share-link'));
     assert.match(link, /#z=[A-Za-z0-9_-]+\.[0-9a-f]{8}$/);
     assert.equal((await page.textContent(tid('sheet-link'))).trim(), link, 'the sheet carries the current share link');
-    assert.ok(await page.$(tid('sheet-qr-svg')), 'QR code drawn');
+    // The code is made a moment after the last change (and at once before printing).
+    await page.waitForSelector(tid('sheet-qr-svg'), { state: 'attached' });
 
     const dir = join(ARTIFACTS, 'bench-sheet');
     mkdirSync(dir, { recursive: true });
@@ -215,6 +216,21 @@ test('the printed sheet carries the meter reading and a QR code of the share lin
       }
       assert.equal(decoded, link, `${format}: the printed QR code decodes to the share link`);
     }
+    assert.match(
+      execFileSync('pdftotext', [join(dir, 'sheet-A4.pdf'), '-'], { encoding: 'utf8' }),
+      /Cautions: none specific to these reagents/,
+      'phosphate salts: no specific caution, the general reminder is printed',
+    );
+    // Titrated with a hydroxide stock: its caution goes on the sheet.
+    await page.click('label[for="recipe-method-titrate"]');
+    await page.waitForSelector(tid('recipe-cautions'));
+    await page.waitForSelector(tid('sheet-qr-svg'), { state: 'attached' });
+    const titrated = join(dir, 'sheet-titrated-A4.pdf');
+    await page.pdf({ path: titrated, format: 'A4' });
+    const ttext = execFileSync('pdftotext', [titrated, '-'], { encoding: 'utf8' });
+    assert.match(ttext, /Hydroxide \(NaOH, KOH\)/, 'the hydroxide caution is printed');
+    assert.match(ttext, /safety data/, 'with the deferral to safety data sheets');
+    execFileSync('pdftoppm', ['-png', '-r', '80', titrated, join(dir, 'sheet-titrated-A4')]);
     s.assertClean('sheet');
   } finally {
     await s.close();

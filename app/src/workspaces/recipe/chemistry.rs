@@ -42,7 +42,7 @@ pub fn chemistry_data(
         mixture: r.mixture.clone(),
         custom: custom.to_vec(),
     };
-    Ok((data::compute(&src)?, recipe_marks(spec, r)))
+    Ok((data::compute_curves(&src)?, recipe_marks(spec, r)))
 }
 
 /// The compact plot with its data table; nothing while the recipe has no result.

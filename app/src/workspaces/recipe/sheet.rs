@@ -9,10 +9,17 @@
 use crate::designs::share::{page_base, share_url};
 use crate::state::use_app;
 use crate::widgets::format::{fmt_input, fmt_ph, pretty_formula};
+use leptos::leptos_dom::helpers::{
+    set_timeout_with_handle, window_event_listener_untyped, TimeoutHandle,
+};
 use leptos::prelude::*;
 use qrcode::{Color, EcLevel, QrCode};
 use solver::recipe::{RecipeResult, RecipeSpec};
 use solver::SolverError;
+use std::time::Duration;
+
+/// Wait after the last design change before the QR code is made again, ms.
+const QR_DELAY_MS: u64 = 250;
 
 /// Light modules around the code (the QR standard's quiet zone).
 pub const QUIET: usize = 4;
@@ -77,85 +84,163 @@ pub fn sheet_meter_text(spec: &RecipeSpec, r: &RecipeResult) -> (String, String)
     (big, detail)
 }
 
-/// The print-only bench block below the steps.
-#[component]
-pub(crate) fn BenchSheet(
-    spec: Memo<RecipeSpec>,
-    result: Memo<Result<RecipeResult, SolverError>>,
-    pending: Memo<bool>,
-) -> impl IntoView {
+/// The design's current share link (the designs panel's `#z=` link, on the
+/// full page's address), for the sheet's QR code and its small print.
+pub(crate) fn share_link() -> Memo<String> {
     let app = use_app();
-    let link = Memo::new(move |_| {
+    Memo::new(move |_| {
         let d = app.design.get();
         let href = window().location().href().unwrap_or_default();
         share_url(page_base(&href), &d)
-    });
-    let qr = Memo::new(move |_| link.with(|l| qr_svg(l)));
-    let body = move || {
-        if pending.get() {
-            return None;
+    })
+}
+
+/// The solved recipe, or `None` while fields are marked or it has no solution.
+fn solved(
+    spec: Memo<RecipeSpec>,
+    result: Memo<Result<RecipeResult, SolverError>>,
+    pending: Memo<bool>,
+) -> Option<(RecipeSpec, RecipeResult)> {
+    if pending.get() {
+        return None;
+    }
+    Some((spec.get(), result.get().ok()?))
+}
+
+/// Top of the printed sheet: the meter reading in large type and the QR code.
+#[component]
+pub(crate) fn SheetTop(
+    spec: Memo<RecipeSpec>,
+    result: Memo<Result<RecipeResult, SolverError>>,
+    pending: Memo<bool>,
+    link: Memo<String>,
+) -> impl IntoView {
+    // The code is made a moment after the design stops changing (about 15–40 ms
+    // for a share link: not on every keystroke), and at once before printing.
+    let qr: RwSignal<Option<(String, Result<QrSvg, String>)>> = RwSignal::new(None);
+    let make = move || {
+        let l = link.get_untracked();
+        if qr.with_untracked(|q| q.as_ref().map(|x| &x.0) != Some(&l)) {
+            let q = qr_svg(&l);
+            qr.set(Some((l, q)));
         }
-        let r = result.get().ok()?;
-        let s = spec.get();
-        let (big, detail) = sheet_meter_text(&s, &r);
-        let lots = r
-            .ingredients
-            .iter()
-            .map(|i| {
+    };
+    let timer = StoredValue::new(None::<TimeoutHandle>);
+    Effect::new(move |_| {
+        link.track();
+        if let Some(h) = timer.get_value() {
+            h.clear();
+        }
+        timer.set_value(set_timeout_with_handle(make, Duration::from_millis(QR_DELAY_MS)).ok());
+    });
+    let before_print = StoredValue::new_local(Some(window_event_listener_untyped(
+        "beforeprint",
+        move |_| make(),
+    )));
+    on_cleanup(move || {
+        if let Some(h) = timer.get_value() {
+            h.clear();
+        }
+        before_print.update_value(|h| {
+            if let Some(h) = h.take() {
+                h.remove();
+            }
+        });
+    });
+    let qr_view = move || {
+        let current = link.get();
+        match qr.get() {
+            Some((l, Ok(q))) if l == current => {
+                let vb = format!("0 0 {0} {0}", q.size);
                 view! {
-                    <div class="fill">
-                        <span class="fill-label">
-                            {pretty_formula(&i.formula)}
-                            " lot"
-                        </span>
-                        <span class="fill-line"></span>
-                    </div>
+                    <svg viewBox=vb role="img" aria-label="QR code of this design's link"
+                        shape-rendering="crispEdges" data-testid="sheet-qr-svg">
+                        <rect width="100%" height="100%" fill="#fff"></rect>
+                        <path d=q.path fill="#000"></path>
+                    </svg>
                 }
-            })
-            .collect_view();
-        Some(view! {
-            <section class="print-only bench-sheet" data-testid="recipe-sheet" aria-label="Bench sheet">
-                <div class="sheet-top">
+                .into_any()
+            }
+            Some((l, Err(e))) if l == current => {
+                view! { <p class="sheet-qr-none">{e}</p> }.into_any()
+            }
+            _ => view! { <p class="sheet-qr-none">"QR code being made…"</p> }.into_any(),
+        }
+    };
+    move || {
+        solved(spec, result, pending).map(|(s, r)| {
+            let (big, detail) = sheet_meter_text(&s, &r);
+            view! {
+                <div class="print-only sheet-top" data-testid="recipe-sheet">
                     <div class="sheet-meter">
                         <p class="sheet-meter-label">"Meter must read"</p>
                         <p class="sheet-meter-value" data-testid="sheet-meter-ph">{big}</p>
                         <p class="sheet-meter-detail">{detail}</p>
                     </div>
                     <figure class="sheet-qr" data-testid="sheet-qr">
-                        {move || match qr.get() {
-                            Ok(q) => {
-                                let vb = format!("0 0 {0} {0}", q.size);
-                                view! {
-                                    <svg viewBox=vb role="img" aria-label="QR code of this design's link"
-                                        shape-rendering="crispEdges" data-testid="sheet-qr-svg">
-                                        <rect width="100%" height="100%" fill="#fff"></rect>
-                                        <path d=q.path fill="#000"></path>
-                                    </svg>
-                                }
-                                    .into_any()
-                            }
-                            Err(e) => view! { <p class="sheet-qr-none">{e}</p> }.into_any(),
-                        }}
+                        {qr_view}
                         <figcaption>"Scan to reopen this design."</figcaption>
                     </figure>
                 </div>
-                <div class="sheet-fill">
-                    <h3>"Made by the bench"</h3>
-                    <div class="fill"><span class="fill-label">"Prepared by"</span><span class="fill-line"></span></div>
-                    <div class="fill"><span class="fill-label">"Date"</span><span class="fill-line"></span></div>
-                    {lots}
-                    <div class="fill">
-                        <span class="fill-label">"Meter reading observed"</span>
-                        <span class="fill-line"></span>
-                        <span class="fill-label">{format!("at ____ °C (target {} at {} °C)", fmt_ph(r.meter.ph), fmt_input(r.meter.temperature_c))}</span>
-                    </div>
-                    <div class="fill"><span class="fill-label">"Expiry"</span><span class="fill-line"></span></div>
-                </div>
-                <p class="sheet-link" data-testid="sheet-link">{move || link.get()}</p>
-            </section>
+            }
         })
-    };
-    view! { {body} }
+    }
+}
+
+/// End of the printed sheet: fill-in lines (one lot line per reagent), the
+/// cautions line when no specific caution applies, and the link in small print.
+#[component]
+pub(crate) fn SheetFill(
+    spec: Memo<RecipeSpec>,
+    result: Memo<Result<RecipeResult, SolverError>>,
+    pending: Memo<bool>,
+    link: Memo<String>,
+    no_cautions: Signal<bool>,
+) -> impl IntoView {
+    move || {
+        solved(spec, result, pending).map(|(_, r)| {
+            let lots = r
+                .ingredients
+                .iter()
+                .map(|i| {
+                    view! {
+                        <div class="fill">
+                            <span class="fill-label">{pretty_formula(&i.formula)} " lot"</span>
+                            <span class="fill-line"></span>
+                        </div>
+                    }
+                })
+                .collect_view();
+            let target = format!(
+                "at ____ °C (meter must read {} at {} °C)",
+                fmt_ph(r.meter.ph),
+                fmt_input(r.meter.temperature_c)
+            );
+            view! {
+                <section class="print-only bench-sheet" data-testid="recipe-sheet-fill" aria-label="Bench record">
+                    {no_cautions.get().then(|| view! {
+                        <p class="sheet-cautions">
+                            "Cautions: none specific to these reagents. "
+                            {crate::widgets::cautions::DEFER}
+                        </p>
+                    })}
+                    <div class="sheet-fill">
+                        <h3>"Bench record"</h3>
+                        <div class="fill"><span class="fill-label">"Prepared by"</span><span class="fill-line"></span></div>
+                        <div class="fill"><span class="fill-label">"Date"</span><span class="fill-line"></span></div>
+                        {lots}
+                        <div class="fill">
+                            <span class="fill-label">"Meter reading observed"</span>
+                            <span class="fill-line"></span>
+                            <span class="fill-label">{target}</span>
+                        </div>
+                        <div class="fill"><span class="fill-label">"Expiry"</span><span class="fill-line"></span></div>
+                    </div>
+                    <p class="sheet-link" data-testid="sheet-link">{move || link.get()}</p>
+                </section>
+            }
+        })
+    }
 }
 
 #[cfg(test)]

@@ -146,7 +146,7 @@ pub(crate) fn RecipeChemistry(
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used)]
+#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use solver::design::demo_design;

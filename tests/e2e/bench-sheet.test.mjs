@@ -79,8 +79,16 @@ test('meter reading, concentrate and two salts on the page equal the CLI for the
     await page.click(tid('recipe-add-salt'));
     await page.waitForSelector('#recipe-salt-1-conc');
     assert.equal(await page.isDisabled(tid('recipe-add-salt')), true, 'both salts the engine knows are listed');
-    // The KCl row: typed as a user types it, in mM.
+    // The KCl row, typed as users type: an ambiguous "1,000" is refused beside the field and
+    // shows no amounts; then 3 mM, and a unit change after typing converts (0.003 M), never rescales.
+    await type(page, '#recipe-salt-1-conc', '1,000');
+    assert.ok((await page.textContent(tid('error-recipe-salt-1-conc'))).length > 0, '"1,000" is refused beside the field');
+    assert.ok(await page.$(tid('recipe-stale')), 'no amounts while the field is marked');
     await type(page, '#recipe-salt-1-conc', '3');
+    assert.equal(await page.$(tid('error-recipe-salt-1-conc')), null);
+    const unit = page.locator('[data-testid="recipe-salt-1"] select.unit');
+    await unit.selectOption({ label: 'M' });
+    assert.equal(await page.inputValue('#recipe-salt-1-conc'), '0.003', 'the unit picker converts the amount on screen');
     // A duplicate is refused beside its own row (not merged), and nothing else changes.
     await page.selectOption('#recipe-salt-1-kind', 'nacl');
     const dup = await page.textContent(tid('error-recipe-salt-1-kind'));

@@ -126,6 +126,15 @@ _bw_setup() {
     [[ -x /usr/bin/chromium && -x /usr/bin/chromedriver ]] || _bw_die "chromium/chromedriver still missing after apt-get"
   fi
 
+  # --- poppler-utils (pdftotext, pdftoppm: the printed sheet's PDF in tests/e2e/bench-sheet) ---------
+  if _bw_dpkg_has poppler-utils && command -v pdftoppm >/dev/null && command -v pdftotext >/dev/null; then
+    _bw_ok "poppler-utils $(dpkg-query -W -f='${Version}' poppler-utils)"
+  else
+    _bw_do "poppler-utils (Debian apt)"
+    _bw_apt poppler-utils
+    command -v pdftoppm >/dev/null || _bw_die "pdftoppm still missing after apt-get"
+  fi
+
   echo "setup: done. PATH includes tests/node_modules/.bin (wasm-opt) and ~/.cargo/bin."
 }
 

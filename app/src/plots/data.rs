@@ -122,6 +122,20 @@ pub fn titration_span_m(total_m: f64) -> f64 {
 ///
 /// A message for an empty composition or any solver error.
 pub fn compute(src: &Source) -> Result<PlotData, String> {
+    compute_with(src, true)
+}
+
+/// Like [`compute`] without the titration curve (left empty): the species
+/// and capacity curves only, for the recipe's compact plot.
+///
+/// # Errors
+///
+/// As [`compute`].
+pub fn compute_curves(src: &Source) -> Result<PlotData, String> {
+    compute_with(src, false)
+}
+
+fn compute_with(src: &Source, titration: bool) -> Result<PlotData, String> {
     let text = |e: solver::SolverError| e.to_string();
     if src.mixture.components.is_empty() {
         return Err("The composition has no acid systems to plot.".into());
@@ -159,8 +173,13 @@ pub fn compute(src: &Source) -> Result<PlotData, String> {
         }));
     }
     let total: f64 = systems.iter().map(|s| s.total_m).sum();
-    let span = titration_span_m(total);
-    let t = titration_curve(&p, span, span, TITRATION_POINTS).map_err(text)?;
+    let (added_mm, titration_ph) = if titration {
+        let span = titration_span_m(total);
+        let t = titration_curve(&p, span, span, TITRATION_POINTS).map_err(text)?;
+        (t.added_mmol_per_l, t.ph)
+    } else {
+        (Vec::new(), Vec::new())
+    };
     Ok(PlotData {
         kind: src.kind,
         temperature_c: src.mixture.temperature_c,
@@ -171,8 +190,8 @@ pub fn compute(src: &Source) -> Result<PlotData, String> {
         grid: curves.ph,
         series,
         capacity_mm: curves.capacity.iter().map(|b| b * 1000.0).collect(),
-        added_mm: t.added_mmol_per_l,
-        titration_ph: t.ph,
+        added_mm,
+        titration_ph,
     })
 }
 
@@ -294,6 +313,22 @@ impl PlotData {
             .iter()
             .zip(self.capacity_mm.iter())
             .filter(|(x, _)| (3.0..=11.0).contains(*x))
+            .map(|(_, b)| *b)
+            .chain(std::iter::once(self.capacity_at_ph * 1000.0))
+            .filter(|b| b.is_finite())
+            .fold(0.0_f64, f64::max);
+        nice_ceiling(top * 1.2)
+    }
+
+    /// Like [`PlotData::capacity_ceiling`] over pH `lo`–`hi` only (the
+    /// recipe's compact plot), still leaving water's own capacity below pH 3
+    /// and above 11 out of the scale.
+    pub fn capacity_ceiling_between(&self, lo: f64, hi: f64) -> f64 {
+        let top = self
+            .grid
+            .iter()
+            .zip(self.capacity_mm.iter())
+            .filter(|(x, _)| (lo.max(3.0)..=hi.min(11.0)).contains(*x))
             .map(|(_, b)| *b)
             .chain(std::iter::once(self.capacity_at_ph * 1000.0))
             .filter(|b| b.is_finite())

@@ -367,7 +367,7 @@ where
 /// `{prefix}{i}-remove`; removing a row renumbers the typed text of the rows
 /// after it (see `AppState::rows_removed`).
 #[component]
-fn RowEnd(
+pub(crate) fn RowEnd(
     prefix: &'static str,
     i: usize,
     remove_label: String,

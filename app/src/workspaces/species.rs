@@ -346,7 +346,7 @@ pub fn SpeciesWorkspace() -> impl IntoView {
 
 /// A collapsible data table, rendered only while open (cheap redraws).
 #[component]
-fn DataTable(
+pub(crate) fn DataTable(
     testid: &'static str,
     summary: &'static str,
     caption: Signal<String>,

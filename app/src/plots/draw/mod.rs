@@ -5,11 +5,20 @@
 //! pointer position back to a pH or an added amount. Sizes are in CSS pixels:
 //! the page's canvas backend scales to device pixels underneath.
 
-use super::data::{added_label, short, sig, PlotData, Quantity, PH_MAX, PH_MIN};
+use super::data::{short, sig, PlotData, Quantity, PH_MAX, PH_MIN};
 use plotters::coord::types::RangedCoordf64;
 use plotters::coord::{CoordTranslate, Shift};
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
+
+mod marks;
+mod summary;
+pub use marks::{
+    draw_recipe_chemistry, recipe_summary, recipe_table, recipe_window, Marks, TableRow, BAND,
+    METER,
+};
+pub(crate) use marks::{Panel, BAND_ALPHA};
+pub use summary::{capacity_summary, species_summary, titration_summary};
 
 /// Species colours: our own palette, each at least 3:1 against white.
 /// Species of the second and later systems are also drawn dashed.
@@ -85,6 +94,8 @@ pub(crate) enum Swatch {
     Line(RGBColor),
     Dashed(RGBColor),
     Dot(RGBColor),
+    /// A light filled box (the tolerance window).
+    Band(RGBColor),
 }
 
 pub(crate) type DrawResult<T, DB> =
@@ -195,6 +206,12 @@ pub(crate) fn legend<DB: DrawingBackend>(
             Swatch::Dot(c) => {
                 top.draw(&Circle::new((x + s.i(11), y), s.u(4), c.filled()))?;
             }
+            Swatch::Band(c) => {
+                top.draw(&Rectangle::new(
+                    [(x, y - s.i(6)), (x + s.i(22), y + s.i(6))],
+                    c.mix(BAND_ALPHA).filled(),
+                ))?;
+            }
         }
         top.draw(&Text::new(label.clone(), (x + s.i(28), y), style.clone()))?;
     }
@@ -281,13 +298,14 @@ fn pk_lines_vertical<DB: DrawingBackend>(
     chart: &mut ChartContext<'_, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>,
     data: &PlotData,
     y_top: f64,
+    x: (f64, f64),
 ) -> DrawResult<(), DB> {
     let mut last_right = i32::MIN;
     let label_style = font(s, SMALL_PX)
         .color(&MUTED)
         .pos(Pos::new(HPos::Center, VPos::Bottom));
     for (_, step, pk) in data.pk_marks() {
-        if !(PH_MIN..=PH_MAX).contains(&pk) {
+        if !(x.0..=x.1).contains(&pk) {
             continue;
         }
         chart.draw_series(DashedLineSeries::new(
@@ -395,6 +413,19 @@ pub fn draw_species<DB: DrawingBackend>(
 ) -> DrawResult<Frame, DB> {
     let s = Sc::new(scale);
     area.fill(&WHITE)?;
+    species_panel(s, area, data, quantity, cursor, &Panel::FULL)
+}
+
+/// The species plot on `area` over the panel's pH range, with its marks
+/// (target, tolerance window, meter reading) when it has them.
+pub(crate) fn species_panel<DB: DrawingBackend>(
+    s: Sc,
+    area: &DrawingArea<DB, Shift>,
+    data: &PlotData,
+    quantity: Quantity,
+    cursor: Option<f64>,
+    p: &Panel<'_>,
+) -> DrawResult<Frame, DB> {
     let mut entries: Vec<(Swatch, String)> = data
         .series
         .iter()
@@ -409,8 +440,13 @@ pub fn draw_species<DB: DrawingBackend>(
             (swatch, data.label(ser))
         })
         .collect();
-    entries.push((Swatch::Line(INK), format!("working pH {:.2}", data.ph)));
-    entries.extend(pk_legend(data));
+    match p.marks {
+        None => {
+            entries.push((Swatch::Line(INK), format!("working pH {:.2}", data.ph)));
+            entries.extend(pk_legend(data));
+        }
+        Some(m) => entries.extend(m.legend()),
+    }
     let plot_area = legend(s, area, &entries)?;
 
     let (y_top, y_desc) = match quantity {
@@ -425,9 +461,9 @@ pub fn draw_species<DB: DrawingBackend>(
         s,
         &plot_area,
         &Axes {
-            x: PH_MIN..PH_MAX,
+            x: p.x.0..p.x.1,
             y: 0.0..y_top,
-            x_labels: 15,
+            x_labels: p.x_labels(),
             y_labels: 6,
             x_fmt: &x_fmt,
             x_desc: "pH",
@@ -435,13 +471,17 @@ pub fn draw_species<DB: DrawingBackend>(
             margin_top: 18,
         },
     )?;
-    pk_lines_vertical(s, &mut chart, data, y_top)?;
+    pk_lines_vertical(s, &mut chart, data, y_top, p.x)?;
+    if let Some(m) = p.marks {
+        m.draw_band(s, &mut chart, y_top, p.x)?;
+    }
 
     for (i, ser) in data.series.iter().enumerate() {
         let pts = data
             .grid
             .iter()
             .enumerate()
+            .filter(|(_, x)| p.contains(**x))
             .map(|(j, x)| (*x, data.value(ser, j, quantity)));
         let style = line(s, species_color(i), 2);
         if ser.system == 0 {
@@ -450,10 +490,10 @@ pub fn draw_species<DB: DrawingBackend>(
             chart.draw_series(DashedLineSeries::new(pts, s.i(9), s.i(4), style))?;
         }
     }
-    chart.draw_series(std::iter::once(PathElement::new(
-        vec![(data.ph, 0.0), (data.ph, y_top)],
-        line(s, INK, 2),
-    )))?;
+    match p.marks {
+        None => working_line(s, &mut chart, data.ph, y_top)?,
+        Some(m) => m.draw_lines(s, &mut chart, y_top, p.x)?,
+    }
     if let Some(c) = cursor.and_then(|c| super::data::nearest(&data.grid, c)) {
         if let Some(x) = data.grid.get(c).copied() {
             chart.draw_series(std::iter::once(PathElement::new(
@@ -470,7 +510,7 @@ pub fn draw_species<DB: DrawingBackend>(
             }
         }
     }
-    Ok(frame_of(chart.plotting_area(), (PH_MIN, PH_MAX)))
+    Ok(frame_of(chart.plotting_area(), p.x))
 }
 
 /// Split a curve into the runs that stay within `y ≤ top`, cutting each run
@@ -519,6 +559,19 @@ pub fn draw_capacity<DB: DrawingBackend>(
 ) -> DrawResult<Frame, DB> {
     let s = Sc::new(scale);
     area.fill(&WHITE)?;
+    capacity_panel(s, area, data, cursor, &Panel::FULL)
+}
+
+/// The capacity plot on `area` over the panel's pH range; a marked panel
+/// (beside the recipe) keeps only the curve's legend entry and shares the
+/// species panel's marks.
+pub(crate) fn capacity_panel<DB: DrawingBackend>(
+    s: Sc,
+    area: &DrawingArea<DB, Shift>,
+    data: &PlotData,
+    cursor: Option<f64>,
+    p: &Panel<'_>,
+) -> DrawResult<Frame, DB> {
     let entries = vec![
         (Swatch::Line(CAPACITY), "buffer capacity β".to_string()),
         (
@@ -530,17 +583,24 @@ pub fn draw_capacity<DB: DrawingBackend>(
             ),
         ),
     ];
-    let entries: Vec<(Swatch, String)> = entries.into_iter().chain(pk_legend(data)).collect();
+    let entries: Vec<(Swatch, String)> = match p.marks {
+        None => entries.into_iter().chain(pk_legend(data)).collect(),
+        Some(_) => entries.into_iter().take(1).collect(),
+    };
     let plot_area = legend(s, area, &entries)?;
-    let top = data.capacity_ceiling();
+    let top = if p.marks.is_some() {
+        data.capacity_ceiling_between(p.x.0, p.x.1)
+    } else {
+        data.capacity_ceiling()
+    };
     let x_fmt = |v: &f64| tick(*v);
     let mut chart = axes(
         s,
         &plot_area,
         &Axes {
-            x: PH_MIN..PH_MAX,
+            x: p.x.0..p.x.1,
             y: 0.0..top,
-            x_labels: 15,
+            x_labels: p.x_labels(),
             y_labels: 6,
             x_fmt: &x_fmt,
             x_desc: "pH",
@@ -548,21 +608,30 @@ pub fn draw_capacity<DB: DrawingBackend>(
             margin_top: 18,
         },
     )?;
-    pk_lines_vertical(s, &mut chart, data, top)?;
-    let filled: Vec<(f64, f64)> = data
+    pk_lines_vertical(s, &mut chart, data, top, p.x)?;
+    if let Some(m) = p.marks {
+        m.draw_band(s, &mut chart, top, p.x)?;
+    }
+    let (xs, ys): (Vec<f64>, Vec<f64>) = data
         .grid
         .iter()
         .zip(data.capacity_mm.iter())
+        .filter(|(x, _)| p.contains(**x))
+        .map(|(x, b)| (*x, *b))
+        .unzip();
+    let filled: Vec<(f64, f64)> = xs
+        .iter()
+        .zip(ys.iter())
         .map(|(x, b)| (*x, b.min(top)))
         .collect();
     chart.draw_series(AreaSeries::new(filled, 0.0, CAPACITY.mix(0.12)))?;
-    for run in clip_top(&data.grid, &data.capacity_mm, top) {
+    for run in clip_top(&xs, &ys, top) {
         chart.draw_series(LineSeries::new(run, line(s, CAPACITY, 2)))?;
     }
-    chart.draw_series(std::iter::once(PathElement::new(
-        vec![(data.ph, 0.0), (data.ph, top)],
-        line(s, INK, 2),
-    )))?;
+    match p.marks {
+        None => working_line(s, &mut chart, data.ph, top)?,
+        Some(m) => m.draw_lines(s, &mut chart, top, p.x)?,
+    }
     if let Some(c) = cursor.and_then(|c| super::data::nearest(&data.grid, c)) {
         if let (Some(x), Some(b)) = (data.grid.get(c), data.capacity_mm.get(c)) {
             chart.draw_series(std::iter::once(PathElement::new(
@@ -578,7 +647,7 @@ pub fn draw_capacity<DB: DrawingBackend>(
             }
         }
     }
-    Ok(frame_of(chart.plotting_area(), (PH_MIN, PH_MAX)))
+    Ok(frame_of(chart.plotting_area(), p.x))
 }
 
 /// Titration plot: pH against strong acid (left, HCl) or base (right, NaOH)
@@ -676,57 +745,18 @@ pub fn draw_titration<DB: DrawingBackend>(
     Ok(frame_of(chart.plotting_area(), (x0, x1)))
 }
 
-/// Text for the canvas `aria-label` of the species plot.
-pub fn species_summary(data: &PlotData) -> String {
-    let at = data
-        .species_at(data.ph)
-        .map(|(_, v, _)| {
-            v.iter()
-                .filter(|s| s.fraction >= 0.005)
-                .map(|s| format!("{} {:.0} %", s.label, s.fraction * 100.0))
-                .collect::<Vec<_>>()
-                .join(", ")
-        })
-        .unwrap_or_default();
-    format!(
-        "Species fractions from pH 0 to 14. At the working pH {:.2}: {at}. {}.",
-        data.ph,
-        pk_text(data)
-    )
-}
-
-/// Text for the canvas `aria-label` of the capacity plot.
-pub fn capacity_summary(data: &PlotData) -> String {
-    // The buffering step nearest the working pH.
-    let peak = data
-        .pk_marks()
-        .iter()
-        .min_by(|a, b| (a.2 - data.ph).abs().total_cmp(&(b.2 - data.ph).abs()))
-        .and_then(|m| super::data::nearest(&data.grid, m.2))
-        .and_then(|i| Some((*data.grid.get(i)?, *data.capacity_mm.get(i)?)));
-    let peak = peak.map_or(String::new(), |(x, b)| {
-        format!(" Near pH {x:.1}, the nearest pK, β is {} mM/pH.", sig(b, 3))
-    });
-    format!(
-        "Buffer capacity from pH 0 to 14. At the working pH {:.2}, β = {} mmol/(L·pH).{peak}",
-        data.ph,
-        sig(data.capacity_at_ph * 1000.0, 3)
-    )
-}
-
-/// Text for the canvas `aria-label` of the titration plot.
-pub fn titration_summary(data: &PlotData) -> String {
-    let first = data.added_mm.first().zip(data.titration_ph.first());
-    let last = data.added_mm.last().zip(data.titration_ph.last());
-    match (first, last) {
-        (Some((a0, p0)), Some((a1, p1))) => format!(
-            "Titration curve starting at pH {:.2}: adding {} brings it to pH {p0:.2}; adding {} to pH {p1:.2}.",
-            data.ph,
-            added_label(*a0),
-            added_label(*a1)
-        ),
-        _ => "Titration curve: no data.".into(),
-    }
+/// The working pH as a solid vertical line.
+fn working_line<DB: DrawingBackend>(
+    s: Sc,
+    chart: &mut ChartContext<'_, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>,
+    ph: f64,
+    y_top: f64,
+) -> DrawResult<(), DB> {
+    chart.draw_series(std::iter::once(PathElement::new(
+        vec![(ph, 0.0), (ph, y_top)],
+        line(s, INK, 2),
+    )))?;
+    Ok(())
 }
 
 #[cfg(test)]

@@ -208,7 +208,7 @@ fn luminance(c: RGBColor) -> f64 {
 fn palette_contrast_on_white_is_at_least_3_to_1() {
     for c in PALETTE
         .iter()
-        .chain([INK, MUTED, CAPACITY, TITRATION].iter())
+        .chain([INK, MUTED, CAPACITY, TITRATION, METER, BAND].iter())
     {
         let ratio = 1.05 / (luminance(*c) + 0.05);
         assert!(ratio >= 3.0, "{c:?}: {ratio:.2}");
@@ -224,4 +224,85 @@ fn summaries_name_the_numbers() {
     assert_eq!(tick(0.5), "0.5");
     assert_eq!(tick(10.0), "10");
     assert_eq!(subscript(12), "₁₂");
+}
+
+fn recipe_marks(meter: Option<(f64, f64)>) -> Marks {
+    Marks {
+        target: 7.4,
+        tolerance: 0.05,
+        meter,
+    }
+}
+
+#[test]
+fn recipe_plot_marks_target_tolerance_and_meter_over_a_narrow_range() {
+    let d = recipe_data();
+    let m = recipe_marks(Some((7.52, 22.0)));
+    let mut frame = None;
+    let svg = svg_of(|a| frame = draw_recipe_chemistry(a, &d, &m, 1.0).ok());
+    let frame = frame.unwrap_or_else(|| unreachable!("drawing failed"));
+    assert_eq!(frame.x, (5.4, 9.4), "4 pH wide, centred on the target");
+    // Legend of the marks.
+    assert!(has_text(&svg, "target pH 7.40"));
+    assert!(has_text(&svg, "tolerance ±0.05 (7.35–7.45)"));
+    assert!(has_text(&svg, "meter reads 7.52 at 22 °C"));
+    assert!(has_text(&svg, "meter"), "label beside the meter line");
+    assert!(
+        !svg.contains("working pH"),
+        "the marks replace the working-pH line"
+    );
+    // The tolerance window: a light filled box in the band colour, once per panel
+    // (plus the legend swatch).
+    let band = format!("fill=\"{}\"", hex(BAND));
+    let boxes = svg
+        .split("<rect")
+        .skip(1)
+        .filter(|r| r.contains(&band) && r.contains("opacity=\"0.16\""))
+        .count();
+    assert_eq!(boxes, 3, "legend swatch + species panel + capacity panel");
+    // The meter line is dashed: many short strokes in its colour, in both panels.
+    let meter_strokes = svg.matches(&format!("stroke=\"{}\"", hex(METER))).count();
+    assert!(meter_strokes > 8, "dashed meter line: {meter_strokes}");
+    // Same curves as the Species tab, cut to the range: one path per species, and β.
+    for (i, _) in d.series.iter().enumerate().filter(|(_, s)| {
+        s.fraction
+            .iter()
+            .zip(d.grid.iter())
+            .any(|(f, x)| (5.4..=9.4).contains(x) && *f > 0.01)
+    }) {
+        assert_eq!(polylines(&svg, species_color(i)), 1, "species {i}");
+    }
+    assert!(polylines(&svg, CAPACITY) >= 1);
+    assert!(svg.contains("β, mmol/(L·pH)") && svg.contains("fraction of system total"));
+    // Ticks every half pH inside the range; nothing from outside it.
+    assert!(has_text(&svg, "6") && has_text(&svg, "9"));
+    assert!(!has_text(&svg, "12") && !has_text(&svg, "3"));
+    assert!(has_text_starting(&svg, "pK₂ 7."), "pK inside the range");
+    assert!(
+        !has_text_starting(&svg, "pK₁ 2."),
+        "pK outside the range left out"
+    );
+}
+
+#[test]
+fn recipe_plot_without_meter_and_at_the_edges() {
+    let d = recipe_data();
+    let svg = svg_of(|a| {
+        let _ = draw_recipe_chemistry(a, &d, &recipe_marks(None), 2.0);
+    });
+    assert_eq!(
+        svg.matches(&format!("stroke=\"{}\"", hex(METER))).count(),
+        0,
+        "no meter mark when it reads the working pH"
+    );
+    assert!(!svg.contains("meter reads"));
+    assert_eq!(recipe_window(1.0), (0.0, 4.0));
+    assert_eq!(recipe_window(13.5), (10.0, 14.0));
+    assert_eq!(recipe_window(f64::NAN), (5.0, 9.0));
+    let text = recipe_summary(&d, &recipe_marks(Some((7.52, 22.0))));
+    assert!(
+        text.contains("target pH 7.40") && text.contains("meter reads 7.52 at 22 °C"),
+        "{text}"
+    );
+    assert!(METER != BAND && luminance(METER) < 0.3);
 }

@@ -8,16 +8,21 @@
 //! switches and reloads).
 //!
 //! The tab's code: [`forms`] (which reagent forms, and when they follow the
-//! target), [`result`] (the recipe card, its text and checks), and the
+//! target), [`result`] (the recipe card, its text and checks), [`salts`]
+//! (the salt rows and their list edits), and the
 //! inputs here.
 
+pub mod chemistry;
 pub mod forms;
 pub mod result;
+pub mod salts;
+pub mod sheet;
 #[cfg(test)]
 mod tests;
 
 pub use forms::*;
 pub use result::*;
+pub use salts::*;
 
 use crate::state::use_app;
 use crate::widgets::answer::AnswerBar;
@@ -29,7 +34,7 @@ use crate::widgets::format::{
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
 use leptos::prelude::*;
 use solver::activity::ActivityModel;
-use solver::mixture::{lookup, Additive, AdditiveSpec};
+use solver::mixture::{lookup, Additive};
 use solver::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
 use solver::system::AcidSystem;
 use solver::SolverError;
@@ -178,8 +183,8 @@ pub fn RecipeWorkspace() -> impl IntoView {
             </div>
             <MethodInputs spec=spec custom=custom result=result notice=notice />
             <details class="more">
-                <summary>"Salt, activity model and tolerance"</summary>
-                <SaltInputs spec=spec err=err_for("salts[0].conc_m") />
+                <summary>"Salts (NaCl, KCl), activity model and tolerance"</summary>
+                <SaltRows spec=spec result=result />
                 <Choice
                     name="recipe-activity"
                     legend="Activity model"
@@ -577,68 +582,5 @@ fn MethodInputs(
                     }
                 })
         }}
-    }
-}
-
-/// Optional neutral salt.
-#[component]
-fn SaltInputs(spec: Memo<RecipeSpec>, err: Signal<Option<String>>) -> impl IntoView {
-    let app = use_app();
-    let design = app.design;
-    let readonly = move || app.view.with(|v| v.readonly);
-    let salt = move || spec.with(|s| s.salts.first().map(|a| a.additive));
-    let current = move || match salt() {
-        Some(Additive::Kcl) => "kcl",
-        Some(_) => "nacl",
-        None => "none",
-    };
-    view! {
-        <div class="row-2">
-            <div class="field">
-                <label for="recipe-salt">"Added salt"</label>
-                <select
-                    id="recipe-salt"
-                    disabled=readonly
-                    prop:value=current
-                    on:change=move |ev| {
-                        let v = event_target_value(&ev);
-                        design.update(|d| {
-                            let conc = d.recipe.salts.first().map_or(0.15, |s| s.conc_m);
-                            let first = match v.as_str() {
-                                "nacl" => Some(AdditiveSpec { additive: Additive::Nacl, conc_m: conc }),
-                                "kcl" => Some(AdditiveSpec { additive: Additive::Kcl, conc_m: conc }),
-                                _ => None,
-                            };
-                            match (first, d.recipe.salts.first_mut()) {
-                                (Some(a), Some(s0)) => *s0 = a,
-                                (Some(a), None) => d.recipe.salts.push(a),
-                                (None, _) => d.recipe.salts.clear(),
-                            }
-                        });
-                    }
-                >
-                    <option value="none" selected=move || current() == "none">"None"</option>
-                    <option value="nacl" selected=move || current() == "nacl">"NaCl"</option>
-                    <option value="kcl" selected=move || current() == "kcl">"KCl"</option>
-                </select>
-            </div>
-            <Show when=move || salt().is_some()>
-                <NumberField
-                    id="recipe-salt-conc"
-                    label="Salt concentration"
-                    value=Signal::derive(move || spec.with(|s| s.salts.first().map_or(0.0, |a| a.conc_m)))
-                    on_value=Callback::new(move |v: f64| {
-                        design.update(|d| {
-                            if let Some(s) = d.recipe.salts.first_mut() {
-                                s.conc_m = v;
-                            }
-                        })
-                    })
-                    rule=crate::widgets::format::AMOUNT
-                    units=CONC_UNITS
-                    error=err
-                />
-            </Show>
-        </div>
     }
 }

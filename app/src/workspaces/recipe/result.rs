@@ -241,6 +241,9 @@ pub(crate) fn RecipeResultView(
 ) -> impl IntoView {
     let app = use_app();
     let copy_state: RwSignal<Option<bool>> = RwSignal::new(None);
+    let link = super::sheet::share_link();
+    let no_cautions =
+        Signal::derive(move || spec.with(|s| custom.with(|c| recipe_cautions(s, c).is_empty())));
     let system_name = Memo::new(move |_| {
         spec.with(|s| {
             custom.with(|c| {
@@ -311,7 +314,9 @@ pub(crate) fn RecipeResultView(
                     })
                 }}
             </h2>
+            <super::sheet::SheetTop spec=spec result=result pending=pending link=link />
             <div aria-live="polite">{body}</div>
+            <super::sheet::SheetFill spec=spec result=result pending=pending link=link no_cautions=no_cautions />
             <p class="print-only print-model">
                 {move || {
                     let act = if spec.with(|s| s.activity == ActivityModel::Ideal) {
@@ -324,9 +329,7 @@ pub(crate) fn RecipeResultView(
                     )
                 }}
             </p>
-            // TODO(plots): a small species/capacity plot of the finished recipe would sit here
-            // (needs a public mini-plot component from crate::plots; the e2e smoke test expects a
-            // visible canvas.plot on the landing view, which is this workspace).
+            <super::chemistry::RecipeChemistry spec=spec custom=custom result=result pending=pending />
             <div class="actions no-print">
                 <button type="button" class="btn" data-testid="recipe-copy" on:click=on_copy
                     disabled=move || pending.get() || result.with(Result::is_err)>

@@ -22,13 +22,12 @@
 //! I = 19.924 S / (1000 − 1.005 S)
 //! ```
 //!
-//! No seawater-specific dissociation model is used. The relation of Khoo,
-//! Culberson & Bates (1977) J. Solution Chem. 6, 281 for ammonium in
-//! seawater was reported to be in error by Bell, Johnson, Jickells & Liss
-//! (2007) Environ. Chem. 4, 183, and the corrected expressions were not
-//! available to check against, so a salinity only sets the ionic strength
-//! for the Davies equation. Past the Davies range ([`DAVIES_LIMIT`]) the
-//! result carries a warning that the value is indicative.
+//! For ammonia with a salinity, the seawater model of Clegg & Whitfield
+//! (1995) gives the constant ([`crate::seawater`], total pH scale, salinity
+//! 0–40, −2 to 40 °C); the result names the model used ([`PkModel`]). Every
+//! other system, and ammonia outside that range, uses the Davies equation at
+//! the salinity's ionic strength; past the Davies range ([`DAVIES_LIMIT`])
+//! the result carries a warning that the value is indicative.
 //!
 //! Optional parts of a reading: an alkalinity for the carbonate system
 //! ([`crate::carbonate_field`]), and a user's limit for the form that
@@ -41,6 +40,9 @@ use crate::error::{in_range, non_negative, Result, SolverError};
 use crate::field_limit::{evaluate_limit, validate_limit, Limit, LimitResult};
 use crate::formula::molar_mass;
 use crate::mixture::lookup;
+use crate::seawater::{
+    outside_note, pk_ammonium_seawater, seawater_note, seawater_use, PkModel, SeawaterUse,
+};
 use crate::system::{AcidSystem, Hazard, MAX_STEPS};
 use crate::thermo::system_pks;
 use crate::water::{debye_huckel_a, pkw};
@@ -170,6 +172,10 @@ pub struct FieldResult {
     /// Plain-language warnings (model range, indicative values).
     #[serde(default)]
     pub warnings: Vec<String>,
+    /// The model that gave the apparent constants (Davies, or the seawater
+    /// ammonia model for ammonia with a salinity in its range).
+    #[serde(default)]
+    pub model: PkModel,
 }
 
 /// Reporting basis for mg/L totals: (label, formula for the molar mass).
@@ -353,6 +359,10 @@ pub struct FieldSample {
     pub gamma1: f64,
     /// Ionic strength, mol/L.
     pub ionic_strength: f64,
+    /// The model of the constants in `acid`: with [`PkModel::Davies`] they
+    /// are thermodynamic and `gamma1` applies; with the seawater model they
+    /// are already the apparent (stoichiometric) constants and `gamma1` is 1.
+    pub model: PkModel,
 }
 
 impl FieldSample {
@@ -385,7 +395,46 @@ impl FieldSample {
             a_dh,
             gamma1: crate::activity::gamma1(ActivityModel::Davies, a_dh, ionic_strength),
             ionic_strength,
+            model: PkModel::Davies,
         })
+    }
+
+    /// Resolve a system at a temperature for an ionic-strength source: the
+    /// seawater ammonia model when the source is a salinity in its range
+    /// ([`seawater_use`]), Davies at the source's ionic strength otherwise.
+    ///
+    /// # Errors
+    ///
+    /// A bad source reading; temperature outside 0–60 °C or the system's data.
+    pub fn for_source(sys: &AcidSystem, temperature_c: f64, source: &IonicSource) -> Result<Self> {
+        let ionic = ionic_from(source)?;
+        let mut sample = Self::for_system(sys, temperature_c, ionic)?;
+        if let SeawaterUse::Within(s) = seawater_use(&sys.id, source, temperature_c) {
+            sample.acid = Acid::from_pks(sys.z0, &[pk_ammonium_seawater(temperature_c, s)], 1.0);
+            sample.gamma1 = 1.0;
+            sample.model = PkModel::CleggWhitfield1995;
+        }
+        Ok(sample)
+    }
+
+    /// Apparent (concentration-scale) pK values at the sample's ionic
+    /// strength: pK − (2z+1)·log γ₁ with Davies (z the charge of the base
+    /// form), or the seawater model's own constants.
+    pub fn apparent_pks(&self, thermodynamic: &[f64]) -> Vec<f64> {
+        match self.model {
+            PkModel::CleggWhitfield1995 => self.pks(),
+            PkModel::Davies => {
+                let lg = self.gamma1.log10();
+                thermodynamic
+                    .iter()
+                    .enumerate()
+                    .map(|(i, pk)| {
+                        let zj = self.acid.z0 - (i as i32 + 1);
+                        pk - f64::from(2 * zj + 1) * lg
+                    })
+                    .collect()
+            }
+        }
     }
 
     /// Fractions of every species at `ph` (most protonated first) and their number.
@@ -454,12 +503,18 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
     let ionic = ionic_from(&spec.ionic)?;
     let sys = lookup(&spec.system, custom)?;
     let (label, _) = reporting_basis(&sys.id);
-    let sample = FieldSample::for_system(sys, spec.temperature_c, ionic)?;
+    let sample = FieldSample::for_source(sys, spec.temperature_c, &spec.ionic)?;
     let mut warnings = Vec::new();
-    if ionic > DAVIES_LIMIT {
+    let sea = seawater_use(&sys.id, &spec.ionic, spec.temperature_c);
+    if let SeawaterUse::Within(s) = sea {
+        warnings.push(seawater_note(s));
+    } else if let SeawaterUse::Outside(s) = sea {
+        warnings.push(outside_note(s, spec.temperature_c));
+    }
+    if ionic > DAVIES_LIMIT && sample.model == PkModel::Davies {
         warnings.push(beyond_davies_warning(ionic));
     }
-    if matches!(spec.ionic, IonicSource::Salinity { .. }) {
+    if matches!(spec.ionic, IonicSource::Salinity { .. }) && sample.model == PkModel::Davies {
         warnings.push(
             "pH is taken as −log a(H⁺) (a glass electrode calibrated with dilute IUPAC/NBS \
              buffers); seawater pH scales (total, free, seawater) differ from it, by about a \
@@ -483,7 +538,7 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
         .filter_map(|(l, f)| basis_mass(f).map(|m| (*l, m)))
         .collect();
     let basis_mm = bases.first().map(|b| b.1);
-    let pks = sample.pks();
+    let pks = system_pks(sys, spec.temperature_c)?;
     let (fractions, n) = sample.fractions(ph);
     let species = fractions
         .iter()
@@ -517,16 +572,9 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
             }
         })
         .collect();
-    // Apparent pK: pK − log10(γ_{z−1}/γ_z) with γ_z = γ₁^(z²), exponent 2z+1.
-    let g1 = sample.gamma1;
-    let apparent_pks = pks
-        .iter()
-        .enumerate()
-        .map(|(i, pk)| {
-            let zj = sys.z0 - (i as i32 + 1);
-            pk - f64::from(2 * zj + 1) * g1.log10()
-        })
-        .collect();
+    // Apparent pK: pK − log10(γ_{z−1}/γ_z) with γ_z = γ₁^(z²), exponent 2z+1,
+    // or the seawater model's stoichiometric constant.
+    let apparent_pks = sample.apparent_pks(&pks);
     let limit = match (&spec.limit, total_m) {
         (Some(l), Some(t)) => Some(evaluate_limit(l, &sample, sys, ph, t)?),
         _ => None,
@@ -543,5 +591,6 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
         carbonate,
         limit,
         warnings,
+        model: sample.model,
     })
 }

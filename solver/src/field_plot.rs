@@ -123,7 +123,7 @@ pub fn fraction_curves(
             skipped.push(temp);
             continue;
         }
-        let sample = FieldSample::new(&sys.id, temp, ionic, custom)?;
+        let sample = FieldSample::for_source(sys, temp, &spec.ionic)?;
         curves.push(FractionCurve {
             temperature_c: temp,
             fraction: ph.iter().map(|p| sample.fraction(index, *p)).collect(),

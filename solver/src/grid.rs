@@ -7,6 +7,7 @@ use crate::field::{
 };
 use crate::field_log::ascii_name;
 use crate::mixture::lookup;
+use crate::seawater::{outside_note, seawater_note, PkModel};
 use crate::system::{AcidSystem, Hazard};
 use serde::{Deserialize, Serialize};
 
@@ -224,7 +225,7 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
     };
     let mut columns = Vec::with_capacity(spec.temperatures_c.len());
     for t in &spec.temperatures_c {
-        columns.push(FieldSample::new(&sys.id, *t, ionic, custom)?);
+        columns.push(FieldSample::for_source(sys, *t, &spec.ionic)?);
     }
     let values = spec
         .ph
@@ -237,7 +238,22 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
         })
         .collect();
     let mut warnings = Vec::new();
-    if ionic > crate::activity::DAVIES_LIMIT {
+    let sea = |s: &FieldSample| s.model == PkModel::CleggWhitfield1995;
+    if let IonicSource::Salinity { psu } = spec.ionic {
+        if columns.iter().any(sea) {
+            warnings.push(seawater_note(psu));
+        }
+        if let Some(t) = spec
+            .temperatures_c
+            .iter()
+            .zip(&columns)
+            .find(|(_, s)| !sea(s) && sys.id == "ammonium")
+            .map(|(t, _)| *t)
+        {
+            warnings.push(outside_note(psu, t));
+        }
+    }
+    if ionic > crate::activity::DAVIES_LIMIT && !columns.iter().all(sea) {
         warnings.push(crate::field::beyond_davies_warning(ionic));
     }
     Ok(Grid {

@@ -17,6 +17,7 @@ pub mod grid;
 pub mod library;
 pub mod mixture;
 pub mod recipe;
+pub mod seawater;
 pub mod selfcheck;
 pub mod system;
 pub mod thermo;

@@ -94,10 +94,11 @@ fn absurd_salinity_is_refused_with_its_path() {
 
 #[test]
 fn seawater_without_a_seawater_model_is_marked_indicative() {
-    // S = 35 → I ≈ 0.72, past the Davies range (0.5): warning.
+    // Sulfide at S = 35 → I ≈ 0.72, past the Davies range (0.5), and no
+    // seawater model for sulfide: warning. (Ammonia has one: seawater_ammonia.rs.)
     let r = field_reading(
         &spec(
-            "ammonium",
+            "sulfide",
             8.1,
             20.0,
             Some(1.0),
@@ -128,7 +129,7 @@ fn seawater_without_a_seawater_model_is_marked_indicative() {
     assert!(r.warnings.iter().any(|w| w.contains("indicative")));
     let r = field_reading(
         &spec(
-            "ammonium",
+            "sulfide",
             8.1,
             20.0,
             None,
@@ -143,20 +144,21 @@ fn seawater_without_a_seawater_model_is_marked_indicative() {
 }
 
 #[test]
-fn salinity_raises_the_apparent_pk_of_ammonium_by_davies() {
-    // NH4+ -> NH3 + H+: apparent pK on the activity pH scale is pK − log γ₁.
+fn ionic_strength_raises_the_apparent_pk_of_ammonium_by_davies() {
+    // NH4+ -> NH3 + H+: apparent pK on the activity pH scale is pK − log γ₁
+    // (an ionic strength given directly: no seawater model).
+    let i: f64 = 19.924 * 20.0 / (1000.0 - 1.005 * 20.0);
     let r = field_reading(
         &spec(
             "ammonium",
             8.0,
             25.0,
             None,
-            IonicSource::Salinity { psu: 20.0 },
+            IonicSource::Direct { ionic_strength: i },
         ),
         &[],
     )
     .unwrap();
-    let i: f64 = 19.924 * 20.0 / (1000.0 - 1.005 * 20.0);
     // Davies (1962), A = 0.5085 at 25 °C (confirmed table).
     let log_g1 = -0.5085 * (i.sqrt() / (1.0 + i.sqrt()) - 0.3 * i);
     let want = emerson_pka(25.0) - log_g1;

@@ -19,8 +19,8 @@ use crate::widgets::format::{
 };
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
 use extras::{
-    fit_to_system, AlkalinityInputs, CarbonateFacts, FieldWarnings, LimitInputs, LimitVerdict,
-    SALINITY,
+    fit_to_system, other_bases_text, AlkalinityInputs, CarbonateFacts, FieldWarnings, LimitInputs,
+    LimitVerdict, SALINITY,
 };
 use leptos::prelude::*;
 use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
@@ -443,6 +443,10 @@ fn FieldResultView(
                                                 _ => "Enter a total for amounts".to_string(),
                                             }}
                                         </p>
+                                        {let alt = other_bases_text(sp);
+                                        (!alt.is_empty()).then(|| view! {
+                                            <p class="species-conc" data-testid=format!("field-bases-{i}")>{alt}</p>
+                                        })}
                                     </div>
                                 }
                             })
@@ -460,6 +464,10 @@ fn FieldResultView(
                         <div>
                             <dt>"Ionic strength used"</dt>
                             <dd data-testid="field-ionic-used">{fmt_conc(r.ionic_strength)}</dd>
+                        </div>
+                        <div>
+                            <dt>"Model"</dt>
+                            <dd data-testid="field-model">{r.model.describe()}</dd>
                         </div>
                     </dl>
                 }

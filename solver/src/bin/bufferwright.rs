@@ -235,6 +235,7 @@ fn render_table(r: &Report) -> String {
     out.push_str("\n== Field reading\n");
     match &r.field {
         Ok(f) => {
+            out.push_str(&format!("  model: {}\n", f.model.describe()));
             for sp in &f.species {
                 let conc = sp
                     .mg_l_as
@@ -246,6 +247,9 @@ fn render_table(r: &Report) -> String {
                     sp.fraction * 100.0,
                     conc
                 ));
+            }
+            for w in &f.warnings {
+                out.push_str(&format!("  note: {w}\n"));
             }
         }
         Err(e) => out.push_str(&format!("  error: {e}\n")),

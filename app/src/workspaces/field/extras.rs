@@ -9,7 +9,7 @@ use crate::widgets::format::{error_field, error_message, fmt_ph, fmt_sig, Rule};
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField};
 use leptos::prelude::*;
 use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
-use solver::field::{target_species, FieldResult, FieldSpec};
+use solver::field::{target_species, FieldResult, FieldSpec, FieldSpecies};
 use solver::field_limit::{Limit, LimitResult, LimitUnit};
 use solver::SolverError;
 
@@ -279,9 +279,55 @@ pub fn CarbonateFacts(carbonate: solver::carbonate_field::CarbonateResult) -> im
     }
 }
 
+/// A species' amount in the system's other reporting bases (ammonia as NH₃
+/// beside N, sulfide as H₂S beside S, carbonate as CaCO₃ and CO₂ beside C),
+/// `·`-separated; empty when there is no total or no second basis.
+pub fn other_bases_text(sp: &FieldSpecies) -> String {
+    sp.amounts
+        .iter()
+        .skip(1)
+        .map(|a| format!("{} mg/L as {}", fmt_sig(a.mg_l, 3), a.basis))
+        .collect::<Vec<_>>()
+        .join(" · ")
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn every_trade_basis_is_shown_beside_the_first() {
+        let reading = |system: &str, ph: f64| {
+            solver::field::field_reading(
+                &FieldSpec {
+                    system: system.into(),
+                    ph,
+                    temperature_c: 20.0,
+                    total: Some(1.0),
+                    total_unit: solver::field::TotalUnit::MgPerLAs,
+                    ionic: solver::field::IonicSource::Zero,
+                    alkalinity: None,
+                    limit: None,
+                },
+                &[],
+            )
+            .unwrap_or_else(|e| panic!("{system}: {e}"))
+        };
+        // Ammonia as N (the total's basis) and as NH₃; sulfide as S and H₂S;
+        // carbonate as C, CaCO₃ and CO₂; chlorine as Cl₂ only.
+        let r = reading("ammonium", 8.0);
+        assert_eq!(r.basis, "N");
+        assert!(other_bases_text(&r.species[1]).ends_with("mg/L as NH₃"));
+        let r = reading("sulfide", 7.0);
+        assert_eq!(r.basis, "S");
+        assert!(other_bases_text(&r.species[0]).ends_with("mg/L as H₂S"));
+        let r = reading("carbonate", 7.0);
+        let t = other_bases_text(&r.species[0]);
+        assert!(t.contains("as CaCO₃ · ") && t.ends_with("as CO₂"), "{t}");
+        let r = reading("hypochlorous", 7.0);
+        assert_eq!(r.basis, "Cl₂");
+        assert_eq!(other_bases_text(&r.species[0]), "");
+    }
 
     fn lr(exceeded: bool) -> LimitResult {
         LimitResult {

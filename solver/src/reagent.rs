@@ -388,8 +388,19 @@ pub fn system_field_problems(sys: &AcidSystem) -> Vec<SolverError> {
     }
     // Steps, each after the ones before it.
     for i in 0..n.min(crate::system::MAX_STEPS) {
+        // Earlier steps keep their pK (for the order) without their temperature data,
+        // so a half-typed ΔrH° above does not hide this step's own problem.
         let mut p = skeleton(0, i + 1);
-        p.steps = sys.steps.iter().take(i + 1).cloned().collect();
+        p.steps = sys
+            .steps
+            .iter()
+            .take(i)
+            .map(|s| Step {
+                pk25: s.pk25,
+                temp: TempModel::Constant,
+            })
+            .chain(sys.steps.get(i).cloned())
+            .collect();
         p.t_min_c = sys.t_min_c;
         p.t_max_c = sys.t_max_c;
         if let Err(e) = validate_user_system(&p) {

@@ -90,7 +90,7 @@ pub fn FlaskWorkspace() -> impl IntoView {
     let app = use_app();
     let design = app.design;
     let spec = Memo::new(move |_| design.with(|d| d.mixture.clone()));
-    let custom = Memo::new(move |_| design.with(|d| d.custom_systems.clone()));
+    let custom = Memo::new(move |_| design.with(|d| d.systems()));
     let wi = Memo::new(move |_| design.with(|d| d.what_if));
     let result = Memo::new(move |_| spec.with(|s| custom.with(|c| solve_mixture(s, c))));
     let whatif = Memo::new(move |_| spec.with(|s| custom.with(|c| wi.with(|w| what_if(s, c, w)))));
@@ -221,6 +221,7 @@ pub fn FlaskWorkspace() -> impl IntoView {
             </div>
             <div class="results">
                 <MixtureResultView result=result pending=pending />
+                <crate::reagents::UserReagentNote systems=Signal::derive(move || design.with(|d| d.mixture.components.iter().map(|c| c.system.clone()).collect::<Vec<_>>())) />
                 <WhatIfPanel wi=wi whatif=whatif pending=Signal::derive(move || pending.get() || pending_wi.get()) />
                 <CautionPanel items=cautions testid="mixture-cautions" />
             </div>
@@ -303,7 +304,11 @@ where
                             .into_iter()
                             .map(|s| {
                                 let sel = s.id == cur;
-                                view! { <option value=s.id.clone() selected=sel>{system_label(&s, tc)}</option> }
+                                let label = match crate::widgets::inputs::user_mark(&s) {
+                                    Some(m) => format!("★ {} ({m})", system_label(&s, tc)),
+                                    None => system_label(&s, tc),
+                                };
+                                view! { <option value=s.id.clone() selected=sel>{label}</option> }
                             })
                             .collect_view()
                     }}

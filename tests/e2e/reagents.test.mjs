@@ -7,7 +7,15 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFile } from 'node:fs/promises';
-import { serveDist, openSession, waitForApp, screenshot } from './harness.mjs';
+import { join } from 'node:path';
+import { serveDist, openSession, waitForApp, screenshot, ARTIFACTS } from './harness.mjs';
+
+/** What is in view (the editor is an overlay, which a full-page shot does not show whole). */
+async function viewShot(page, name) {
+  const path = join(ARTIFACTS, `${name}.png`);
+  await page.screenshot({ path });
+  return path;
+}
 
 let srv;
 before(async () => {
@@ -80,6 +88,7 @@ for (const [view, options] of [
       assert.match(await page.textContent(tid('error-rg-name')), /empty/i);
       assert.match(await page.textContent(tid('error-rg-step-0-pk')), /enter a value/i);
       assert.ok(await page.isDisabled(tid('rg-save')), 'cannot add while fields are marked');
+      t.diagnostic(`screenshot: ${await viewShot(page, `reagents-editor-empty-${view}`)}`);
       await typeAcetate(page);
       // A charge that does not fit the forms is named at the form.
       await page.fill('#rg-z0', '-1');
@@ -87,7 +96,10 @@ for (const [view, options] of [
       await page.fill('#rg-z0', '0');
       assert.match(await page.textContent('#rg-form-1-formula ~ .rg-hint'), /82\.03\d g\/mol/);
       assert.equal((await page.textContent(tid('rg-summary'))).trim(), 'Every field is right.');
-      t.diagnostic(`screenshot: ${await screenshot(page, `reagents-editor-${view}`)}`);
+      await page.evaluate(() => document.querySelector('.rg-overlay')?.scrollTo(0, 0));
+      t.diagnostic(`screenshot: ${await viewShot(page, `reagents-editor-top-${view}`)}`);
+      await page.locator('#rg-form-1-formula').scrollIntoViewIfNeeded();
+      t.diagnostic(`screenshot: ${await viewShot(page, `reagents-editor-forms-${view}`)}`);
       await page.click(tid('rg-save'));
       await page.waitForSelector(tid('reagent-editor'), { state: 'detached' });
       // The picker selected the new system and marks it as the user's.

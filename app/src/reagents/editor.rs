@@ -202,8 +202,9 @@ pub fn ReagentEditor(
                         <RgField id=format!("rg-form-{j}-units") label="Units of the system per formula unit"
                             value=get(|f| f.units.clone()) on_input=set(|f, t| f.units = t)
                             message=msg(format!("rg-form-{j}-units")) />
+                        <p class="rg-sub">"Counter-ions per formula unit"</p>
                         <div class="rg-ions">
-                            <RgField id=format!("rg-form-{j}-na") label="Na⁺ per formula unit"
+                            <RgField id=format!("rg-form-{j}-na") label="Na⁺"
                                 value=get(|f| f.na.clone()) on_input=set(|f, t| f.na = t)
                                 message=msg(format!("rg-form-{j}-na")) />
                             <RgField id=format!("rg-form-{j}-k") label="K⁺"
@@ -269,9 +270,10 @@ pub fn ReagentEditor(
         }
     };
     let problems = move || checked.with(|c| c.messages.len());
+    let steps_full = move || n_steps.get() >= solver::system::MAX_STEPS;
     view! {
-        <section class="rg-editor" data-testid="reagent-editor" aria-label="Reagent editor">
-            <style>{CSS}</style>
+        <div class="rg-overlay" role="dialog" aria-modal="true" aria-label="Reagent editor">
+        <section class="rg-editor" data-testid="reagent-editor">
             <h3>{title}</h3>
             <p class="hint">"Constants you type are yours: the page checks that they make sense, not that they are right. Thermodynamic values (I = 0) only; vendor “apparent” pK at 0.1 M are not."</p>
             <Show when=is_new>
@@ -289,7 +291,7 @@ pub fn ReagentEditor(
                 {step_rows}
                 <div class="rg-buttons">
                     <button type="button" class="btn secondary" data-testid="rg-add-step"
-                        disabled=move || n_steps.get() >= solver::system::MAX_STEPS
+                        disabled=steps_full
                         on:click=move |_| model.update(EditorModel::add_step)>"Add a step"</button>
                     <button type="button" class="btn secondary" data-testid="rg-remove-step"
                         disabled=move || n_steps.get() <= 1
@@ -337,6 +339,7 @@ pub fn ReagentEditor(
                     on:click=move |_| on_done.run(None)>"Close"</button>
             </div>
         </section>
+        </div>
     }
 }
 
@@ -469,6 +472,7 @@ pub fn ReagentPanel(
     };
     view! {
         <details class="rg-panel" data-testid="reagent-panel">
+            <style>{CSS}</style>
             <summary>"Your own reagents"</summary>
             <div class="rg-buttons">
                 <button type="button" class="btn secondary" data-testid="rg-new"
@@ -483,7 +487,8 @@ pub fn ReagentPanel(
                 </label>
             </div>
             {move || notice.get().map(|n| view! { <p class="notice" role="status" data-testid="rg-notice">{n}</p> })}
-            {move || editing.get().map(|m| view! { <ReagentEditor model=m on_done=done /> })}
+            // In a portal: the editor is an overlay, above the sticky inputs column and tabs.
+            {move || editing.get().map(|m| view! { <leptos::portal::Portal><ReagentEditor model=m on_done=done /></leptos::portal::Portal> })}
             <h4>"Your shelf in this browser"</h4>
             {shelf_list}
         </details>

@@ -227,3 +227,47 @@ test('a design carrying a reagent missing from this browser opens and computes (
     await s.close();
   }
 });
+
+test('a published check typed into the editor: 0.40 M benzoic acid in the flask gives pH 2.30', async (t) => {
+  // General-chemistry worked problem: 0.40 M benzoic acid, Ka = 6.3e-5 → [H+] = 5.0e-3 M,
+  // pH 2.30 (seen on clutchprep.com; benzoic acid is not in the library; pK = 4.20,
+  // thermodynamic pKa 4.20 per NIST SRD 46, from memory). ±0.02: see solver/tests/reagents.rs.
+  const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
+  try {
+    const design = {
+      schema: 2,
+      name: 'Flask check',
+      recipe: {
+        system: 'phosphate', target_ph: 7.4, temperature_c: 25, total_conc_m: 0.05, volume_l: 0.5,
+        salts: [], activity: 'davies',
+        method: { kind: 'two_forms', acid_form: 'nah2po4_h2o', base_form: 'na2hpo4_7h2o' },
+        tolerance_ph: 0.05,
+      },
+      mixture: { temperature_c: 25, activity: 'davies', components: [{ system: 'acetate', conc_m: 0.4 }], additives: [] },
+      field: { system: 'ammonium', ph: 8.1, temperature_c: 18.5, total: 0.8, total_unit: 'mg_per_l_as', ionic: { kind: 'conductivity', us_cm: 450 } },
+    };
+    const page = await s.newPage();
+    await page.goto(srv.url(`/?ws=recipe#d=${b64url(JSON.stringify(design))}`));
+    await waitForApp(page);
+    await openRecipePanel(page);
+    await page.click(tid('rg-new'));
+    await page.fill('#rg-name', 'Benzoic acid');
+    await page.fill('#rg-step-0-pk', '4,20');
+    await page.fill('#rg-form-0-name', 'benzoic acid');
+    await page.fill('#rg-form-0-formula', 'C7H6O2');
+    assert.match(await page.textContent('#rg-form-0-formula ~ .rg-hint'), /122\.12\d g\/mol/);
+    await page.fill('#rg-source', 'Ka 6.3e-5 from a worked problem');
+    await page.click(tid('rg-save'));
+    await page.waitForSelector(tid('reagent-editor'), { state: 'detached' });
+    await page.click(tid('tab-mixture'));
+    await page.selectOption('#mixture-comp-0-system', 'user_benzoic_acid');
+    await page.waitForSelector(tid('mixture-ph'));
+    const ph = Number((await page.textContent(tid('mixture-ph'))).trim());
+    assert.ok(Math.abs(ph - 2.3) < 0.02, `benzoic acid pH ${ph}`);
+    assert.match(await page.textContent(`${ws('mixture')} ${tid('user-reagent-note')}`), /Ka 6\.3e-5 from a worked problem/);
+    t.diagnostic(`screenshot: ${await screenshot(page, 'reagents-flask-benzoic-desktop')}`);
+    s.assertClean('benzoic typed');
+  } finally {
+    await s.close();
+  }
+});

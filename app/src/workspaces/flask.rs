@@ -178,6 +178,13 @@ pub fn FlaskWorkspace() -> impl IntoView {
                     disabled=readonly on:click=add_component>
                     "+ Add a buffer component"
                 </button>
+                {move || (!app.view.with(|v| v.readonly)).then(|| view! {
+                    <crate::reagents::ReagentPanel
+                        id="mixture"
+                        selected=Signal::derive(move || spec.with(|s| s.components.last().map_or_else(|| "phosphate".to_string(), |c| c.system.clone())))
+                        on_pick=Callback::new(|_id: String| {})
+                    />
+                })}
                 <h3 id="mixture-additives-title">"Strong acids, bases and salts"</h3>
                 <div class="rows" role="group" aria-labelledby="mixture-additives-title">
                     {move || {

@@ -271,3 +271,42 @@ test('a published check typed into the editor: 0.40 M benzoic acid in the flask 
     await s.close();
   }
 });
+
+test('a shelf form of your own for a library system: potassium HEPES weighed in the recipe', async (t) => {
+  const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
+  try {
+    const page = await s.newPage();
+    await page.goto(srv.url('/?ws=recipe'));
+    await waitForApp(page);
+    await page.selectOption('#recipe-system', 'hepes');
+    await page.fill('#recipe-temp', '25');
+    await page.fill('#recipe-ph', '7.5');
+    const before = await recipeNumbers(page);
+    await openRecipePanel(page);
+    await page.click(tid('rg-new-form'));
+    await page.waitForSelector(tid('reagent-editor'));
+    assert.match(await page.textContent(`${tid('reagent-editor')} h3`), /HEPES/);
+    await page.fill('#rg-form-0-name', 'HEPES potassium salt');
+    await page.fill('#rg-form-0-formula', 'C8H17KN2O4S');
+    // Two K⁺ per HEPES cannot be: its species carry 0 and −1.
+    await page.fill('#rg-form-0-k', '2');
+    assert.match(await page.textContent(tid('error-rg-form-0-ions')), /charge/);
+    await page.fill('#rg-form-0-k', '1');
+    t.diagnostic(`screenshot: ${await viewShot(page, 'reagents-add-form-desktop')}`);
+    await page.click(tid('rg-save'));
+    await page.waitForSelector(tid('reagent-editor'), { state: 'detached' });
+    assert.match(await page.locator('#recipe-system option:checked').textContent(), /with your shelf forms/);
+    await page.selectOption('#recipe-base-form', 'user_hepes_potassium_salt');
+    const after = await recipeNumbers(page);
+    // Na⁺ and K⁺ are both +1 spectators: same pH; the acid's mass is unchanged, the salt's is
+    // weighed from its own formula (276.39 g/mol vs 260.29 for the sodium salt).
+    assert.equal(after.ph, before.ph);
+    assert.equal(after.amounts[0], before.amounts[0]);
+    assert.notEqual(after.amounts[1], before.amounts[1]);
+    assert.match(await page.textContent(`${ws('recipe')} ${tid('user-reagent-note')}`), /HEPES potassium salt/);
+    t.diagnostic(`screenshot: ${await screenshot(page, 'reagents-recipe-k-hepes-desktop')}`);
+    s.assertClean('potassium HEPES');
+  } finally {
+    await s.close();
+  }
+});

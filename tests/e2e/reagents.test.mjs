@@ -304,6 +304,9 @@ test('a shelf form of your own for a library system: potassium HEPES weighed in 
     assert.equal(after.amounts[0], before.amounts[0]);
     assert.notEqual(after.amounts[1], before.amounts[1]);
     assert.match(await page.textContent(`${ws('recipe')} ${tid('user-reagent-note')}`), /HEPES potassium salt/);
+    // The ± figure (uncertainty budget) knows the added form too.
+    assert.doesNotMatch(await page.textContent(ws('recipe')), /Unknown form/);
+    assert.match(await page.textContent(ws('recipe')), /pH 7\.50 ± 0\.\d\d/);
     t.diagnostic(`screenshot: ${await screenshot(page, 'reagents-recipe-k-hepes-desktop')}`);
     s.assertClean('potassium HEPES');
   } finally {

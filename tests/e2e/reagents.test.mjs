@@ -112,6 +112,12 @@ for (const [view, options] of [
       assert.match(note, /constants are yours/);
       assert.match(note, /Copied from the library table for a check/);
       t.diagnostic(`screenshot: ${await screenshot(page, `reagents-recipe-${view}`)}`);
+      // Species & capacity plot the recipe's solution: same note, no error.
+      await page.click(tid('tab-species'));
+      await page.waitForSelector(tid('plot-context'));
+      assert.match(await page.textContent(`${ws('species')} ${tid('user-reagent-note')}`), /My acetate is your own reagent/);
+      t.diagnostic(`screenshot: ${await viewShot(page, `reagents-species-${view}`)}`);
+      await page.click(tid('tab-recipe'));
       await page.selectOption('#recipe-system', 'acetate');
       await page.fill('#recipe-ph', '4.9');
       const lib = await recipeNumbers(page);

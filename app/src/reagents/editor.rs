@@ -284,6 +284,8 @@ pub fn ReagentEditor(
                         on_input=Callback::new(move |t: String| model.update(|m| { m.z0 = t; m.sync_species(); }))
                         message=msg("rg-z0".into())
                         hint=Signal::derive(|| "0 for an acid (HA), +1 for an amine (BH⁺)".to_string()) />
+                </div>
+                <div class="rg-row rg-range">
                     {field("rg-tmin", "Constants hold from (°C)", |m| m.t_min.clone(), |m, t| m.t_min = t)}
                     {field("rg-tmax", "to (°C)", |m| m.t_max.clone(), |m, t| m.t_max = t)}
                 </div>

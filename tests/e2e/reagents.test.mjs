@@ -8,7 +8,7 @@ import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { serveDist, openSession, waitForApp, screenshot, ARTIFACTS } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, axeAudit, ARTIFACTS } from './harness.mjs';
 
 /** What is in view (the editor is an overlay, which a full-page shot does not show whole). */
 async function viewShot(page, name) {
@@ -279,7 +279,8 @@ test('a published check typed into the editor: 0.40 M benzoic acid in the flask 
 });
 
 test('a shelf form of your own for a library system: potassium HEPES weighed in the recipe', async (t) => {
-  const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
+  // bypassCSP: axe is injected as an inline script.
+  const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop', contextOptions: { bypassCSP: true } });
   try {
     const page = await s.newPage();
     await page.goto(srv.url('/?ws=recipe'));
@@ -299,6 +300,8 @@ test('a shelf form of your own for a library system: potassium HEPES weighed in 
     assert.match(await page.textContent(tid('error-rg-form-0-ions')), /charge/);
     await page.fill('#rg-form-0-k', '1');
     t.diagnostic(`screenshot: ${await viewShot(page, 'reagents-add-form-desktop')}`);
+    const violations = await axeAudit(page, { include: '.rg-overlay' });
+    assert.deepEqual(violations, [], 'no serious or critical axe violations in the editor');
     await page.click(tid('rg-save'));
     await page.waitForSelector(tid('reagent-editor'), { state: 'detached' });
     assert.match(await page.locator('#recipe-system option:checked').textContent(), /with your shelf forms/);

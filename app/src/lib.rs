@@ -14,6 +14,7 @@
 //! - [`workspaces`]: one module per tab (Recipe, Flask, Species & capacity, Field reading).
 //! - [`widgets`]: validated inputs, parsing and number formatting, cautions.
 //! - [`plots`]: plot data, drawing generic over the plotters backend, the canvas.
+//! - [`reagents`]: the user's own reagents: editor, per-browser shelf, notes in results.
 //! - [`designs`]: saved designs, drafts and recovery, the designs panel, share links, embeds.
 //! - [`checks`]: "Check the engine", the solver's self-check run in the browser.
 //! - [`bench`]: in-browser timing of the solver workloads (for `app/PERF.md`).
@@ -22,6 +23,7 @@ pub mod bench;
 pub mod checks;
 pub mod designs;
 pub mod plots;
+pub mod reagents;
 pub mod shell;
 pub mod state;
 pub mod widgets;

@@ -13,9 +13,9 @@ use crate::mixture::{
     AdditiveSpec, ComponentSpec, MixtureResult, MixtureSpec, SpeciesCurves, TitrationCurve, WhatIf,
     WhatIfResult,
 };
+use crate::reagent::{reroot, systems_with_forms, validate_custom_forms, validate_user_system};
 use crate::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
-use crate::system::AcidSystem;
-use crate::thermo::validate_system;
+use crate::system::{AcidSystem, CustomForm};
 use crate::uncertainty::UncertaintyInputs;
 use serde::{Deserialize, Serialize};
 
@@ -80,9 +80,22 @@ pub struct Design {
     /// User-defined acid systems.
     #[serde(default)]
     pub custom_systems: Vec<AcidSystem>,
+    /// Shelf forms the user added to systems (library or custom); optional,
+    /// left out of the document when empty, so older documents read unchanged.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub custom_forms: Vec<CustomForm>,
     /// The user's ± figures for the uncertainty budgets (optional; omitted when default).
     #[serde(default, skip_serializing_if = "UncertaintyInputs::is_default")]
     pub uncertainty: UncertaintyInputs,
+}
+
+impl Design {
+    /// The systems this design sees besides the library: `custom_systems`, and
+    /// the systems `custom_forms` extend, with those forms added. Pass this
+    /// wherever the solver takes the custom systems.
+    pub fn systems(&self) -> Vec<AcidSystem> {
+        systems_with_forms(&self.custom_systems, &self.custom_forms)
+    }
 }
 
 fn doc_err(field: &str, reason: impl Into<String>) -> SolverError {
@@ -182,7 +195,7 @@ pub fn parse_design_value(value: serde_json::Value) -> Result<Design> {
 /// A serde error as a field-named [`SolverError::Document`]: an unknown key
 /// joins the path (`recipe.prepare_temprature_c: unknown field ...`), and a
 /// quoted bad value is cut short.
-fn serde_err(path: &str, msg: &str) -> SolverError {
+pub(crate) fn serde_err(path: &str, msg: &str) -> SolverError {
     if let Some((key, expected)) = msg
         .strip_prefix("unknown field `")
         .and_then(|rest| rest.split_once('`'))
@@ -214,7 +227,7 @@ fn serde_err(path: &str, msg: &str) -> SolverError {
 /// design does not carry. Serde's `deny_unknown_fields` does not reach the
 /// unit variants of such enums (`{"kind": "zero", "us_cm": 3}` would pass),
 /// so the document is compared with the design read from it.
-fn extra_tagged_key(
+pub(crate) fn extra_tagged_key(
     input: &serde_json::Value,
     parsed: &serde_json::Value,
     path: &str,
@@ -287,9 +300,12 @@ pub fn validate_design(d: &Design) -> Result<()> {
         return Err(doc_err("name", "longer than 120 characters"));
     }
     for (i, s) in d.custom_systems.iter().enumerate() {
-        validate_system(s).map_err(|e| prefixed(&format!("custom_systems[{i}]"), e))?;
+        validate_user_system(s)
+            .map_err(|e| reroot(e, "system", &format!("custom_systems[{i}]")))?;
     }
-    let custom = &d.custom_systems;
+    validate_custom_forms(&d.custom_forms, &d.custom_systems)?;
+    let systems = d.systems();
+    let custom = &systems;
     // Recipe.
     let r = &d.recipe;
     let rp = |e| prefixed("recipe", e);
@@ -454,6 +470,7 @@ pub fn demo_design() -> Design {
         },
         plot_source: PlotSource::Recipe,
         custom_systems: vec![],
+        custom_forms: vec![],
         uncertainty: UncertaintyInputs::default(),
     }
 }
@@ -480,7 +497,8 @@ pub struct Report {
 
 /// Compute every part of a design.
 pub fn report(d: &Design) -> Report {
-    let custom = &d.custom_systems;
+    let systems = d.systems();
+    let custom = &systems;
     let recipe = solve_recipe(&d.recipe, custom);
     let plotted = match (d.plot_source, &recipe) {
         (PlotSource::Recipe, Ok(r)) => r.mixture.clone(),

@@ -16,6 +16,7 @@ pub mod formula;
 pub mod grid;
 pub mod library;
 pub mod mixture;
+pub mod reagent;
 pub mod recipe;
 pub mod seawater;
 pub mod selfcheck;

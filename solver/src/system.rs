@@ -158,3 +158,15 @@ pub struct AcidSystem {
     /// Safety flags.
     pub hazards: Vec<Hazard>,
 }
+
+/// A shelf form the user added to a system (library or user-defined) in a design:
+/// `{"system": "hepes", "form": {...}}`. Usable by its id wherever the system's own
+/// forms are.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct CustomForm {
+    /// Id of the system the form delivers (library or `custom_systems`).
+    pub system: String,
+    /// The form itself; its id must not clash with the system's forms.
+    pub form: ReagentForm,
+}

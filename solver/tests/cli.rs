@@ -104,3 +104,21 @@ fn a_user_defined_system_works_like_a_library_one() {
     let ph = r["recipe"]["Ok"]["equilibrium"]["ph"].as_f64().unwrap();
     assert!((ph - 8.3).abs() < 1e-6, "{ph}");
 }
+
+#[test]
+fn an_added_shelf_form_is_used_by_id_from_the_command_line() {
+    let (_, demo, _) = run(&["--demo"], None);
+    let mut v: serde_json::Value = serde_json::from_str(&demo).unwrap();
+    v["custom_forms"] = serde_json::json!([{"system": "phosphate", "form": {
+        "id": "k2hpo4_3h2o", "name": "dipotassium hydrogen phosphate trihydrate",
+        "formula": "K2HPO4·3H2O", "units": 1.0, "counter_ions": [["k", 2.0]]}}]);
+    v["recipe"]["method"]["base_form"] = "k2hpo4_3h2o".into();
+    let (code, out, err) = run(&[], Some(&v.to_string()));
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("K2HPO4·3H2O"), "{out}");
+    // A broken added form is refused with its field.
+    v["custom_forms"][0]["form"]["units"] = 0.0.into();
+    let (code, _, err) = run(&[], Some(&v.to_string()));
+    assert_eq!(code, 1);
+    assert!(err.contains("custom_forms[0].form.units"), "{err}");
+}

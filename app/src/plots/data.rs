@@ -38,7 +38,7 @@ pub struct Source {
 pub fn source(design: &Design) -> Result<Source, String> {
     let mixture = match design.plot_source {
         PlotSource::Recipe => {
-            solve_recipe(&design.recipe, &design.custom_systems)
+            solve_recipe(&design.recipe, &design.systems())
                 .map_err(|e| format!("The recipe has no solution to plot: {e}"))?
                 .mixture
         }
@@ -47,7 +47,7 @@ pub fn source(design: &Design) -> Result<Source, String> {
     Ok(Source {
         kind: design.plot_source,
         mixture,
-        custom: design.custom_systems.clone(),
+        custom: design.systems(),
     })
 }
 

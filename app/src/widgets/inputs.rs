@@ -319,9 +319,28 @@ pub fn system_matches(sys: &AcidSystem, query: &str, t_c: f64) -> bool {
             .any(|f| f.name.to_lowercase().contains(&q) || f.formula.to_lowercase().contains(&q))
 }
 
-/// All systems the design can use: its custom ones, then the library.
+/// All systems the design can use: its custom ones (with any shelf forms the
+/// user added, see `Design::systems`), then the library systems they do not replace.
 pub fn all_systems(custom: &[AcidSystem]) -> Vec<AcidSystem> {
-    custom.iter().chain(library().iter()).cloned().collect()
+    custom
+        .iter()
+        .chain(
+            library()
+                .iter()
+                .filter(|l| !custom.iter().any(|c| c.id == l.id)),
+        )
+        .cloned()
+        .collect()
+}
+
+/// How a picker marks the user's own reagents: a system of the user's, or a
+/// library system with shelf forms the user added; `None` for a plain library system.
+pub fn user_mark(sys: &AcidSystem) -> Option<&'static str> {
+    match solver::library::find_system(&sys.id) {
+        None => Some("your reagent"),
+        Some(lib) if lib != sys => Some("with your shelf forms"),
+        Some(_) => None,
+    }
 }
 
 /// A searchable system picker: a search box (name, species, formula, or a pH
@@ -348,7 +367,7 @@ pub fn SystemPicker(
     let app = use_app();
     let readonly = move || app.view.with(|v| v.readonly);
     let query = RwSignal::new(String::new());
-    let custom = Memo::new(move |_| app.design.with(|d| d.custom_systems.clone()));
+    let custom = Memo::new(move |_| app.design.with(solver::design::Design::systems));
     let shown = Memo::new(move |_| {
         let t = temperature.get();
         let q = query.get();
@@ -373,7 +392,14 @@ pub fn SystemPicker(
             }
             let mut v: Vec<(String, String)> = found
                 .iter()
-                .map(|s| (s.id.clone(), system_label(s, t)))
+                .map(|s| {
+                    let label = system_label(s, t);
+                    let label = match user_mark(s) {
+                        Some(m) => format!("★ {label} ({m})"),
+                        None => label,
+                    };
+                    (s.id.clone(), label)
+                })
                 .collect();
             if !v.iter().any(|(i, _)| *i == sel) {
                 v.insert(0, (sel.clone(), format!("{sel} (not in the library)")));
@@ -383,6 +409,7 @@ pub fn SystemPicker(
     });
     let count = move || shown.with(Vec::len);
     let search_id = format!("{id}-search");
+    let panel_id = id.clone();
     let search_label = format!("{label}: search");
     view! {
         <div class="field system-picker">
@@ -429,6 +456,9 @@ pub fn SystemPicker(
                     }
                 }}
             </p>
+            {move || (!readonly()).then(|| view! {
+                <crate::reagents::ReagentPanel selected=selected on_pick=on_change id=panel_id.clone() />
+            })}
         </div>
     }
 }

@@ -162,7 +162,7 @@ fn inputs_and_custom() -> (
     let design = app.design;
     (
         Memo::new(move |_| design.with(|d| d.uncertainty.clone())),
-        Memo::new(move |_| design.with(|d| d.custom_systems.clone())),
+        Memo::new(move |_| design.with(solver::design::Design::systems)),
     )
 }
 

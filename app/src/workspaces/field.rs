@@ -81,7 +81,7 @@ pub fn FieldWorkspace() -> impl IntoView {
     let app = use_app();
     let design = app.design;
     let spec = Memo::new(move |_| design.with(|d| d.field.clone()));
-    let custom = Memo::new(move |_| design.with(|d| d.custom_systems.clone()));
+    let custom = Memo::new(move |_| design.with(|d| d.systems()));
     let result = Memo::new(move |_| spec.with(|s| custom.with(|c| field_reading(s, c))));
     let pending = Memo::new(move |_| !app.pending_in("field-").is_empty());
     let readonly = move || app.view.with(|v| v.readonly);
@@ -344,6 +344,7 @@ pub fn FieldWorkspace() -> impl IntoView {
                 </div>
                 <div class="results">
                     <FieldResultView spec=spec result=result pending=pending />
+                    <crate::reagents::UserReagentNote systems=Signal::derive(move || spec.with(|s| vec![s.system.clone()])) />
                     {move || (!pending.get()).then(|| view! { <plot::FractionPlot spec=spec custom=custom result=result /> })}
                     <CautionPanel items=cautions testid="field-cautions" />
                 </div>

@@ -90,7 +90,7 @@ pub fn FlaskWorkspace() -> impl IntoView {
     let app = use_app();
     let design = app.design;
     let spec = Memo::new(move |_| design.with(|d| d.mixture.clone()));
-    let custom = Memo::new(move |_| design.with(|d| d.custom_systems.clone()));
+    let custom = Memo::new(move |_| design.with(|d| d.systems()));
     let wi = Memo::new(move |_| design.with(|d| d.what_if));
     let result = Memo::new(move |_| spec.with(|s| custom.with(|c| solve_mixture(s, c))));
     let whatif = Memo::new(move |_| spec.with(|s| custom.with(|c| wi.with(|w| what_if(s, c, w)))));
@@ -178,6 +178,13 @@ pub fn FlaskWorkspace() -> impl IntoView {
                     disabled=readonly on:click=add_component>
                     "+ Add a buffer component"
                 </button>
+                {move || (!app.view.with(|v| v.readonly)).then(|| view! {
+                    <crate::reagents::ReagentPanel
+                        id="mixture"
+                        selected=Signal::derive(move || spec.with(|s| s.components.last().map_or_else(|| "phosphate".to_string(), |c| c.system.clone())))
+                        on_pick=Callback::new(|_id: String| {})
+                    />
+                })}
                 <h3 id="mixture-additives-title">"Strong acids, bases and salts"</h3>
                 <div class="rows" role="group" aria-labelledby="mixture-additives-title">
                     {move || {
@@ -221,6 +228,7 @@ pub fn FlaskWorkspace() -> impl IntoView {
             </div>
             <div class="results">
                 <MixtureResultView result=result pending=pending />
+                <crate::reagents::UserReagentNote systems=Signal::derive(move || design.with(|d| d.mixture.components.iter().map(|c| c.system.clone()).collect::<Vec<_>>())) />
                 <WhatIfPanel wi=wi whatif=whatif pending=Signal::derive(move || pending.get() || pending_wi.get()) />
                 <CautionPanel items=cautions testid="mixture-cautions" />
             </div>
@@ -303,7 +311,11 @@ where
                             .into_iter()
                             .map(|s| {
                                 let sel = s.id == cur;
-                                view! { <option value=s.id.clone() selected=sel>{system_label(&s, tc)}</option> }
+                                let label = match crate::widgets::inputs::user_mark(&s) {
+                                    Some(m) => format!("★ {} ({m})", system_label(&s, tc)),
+                                    None => system_label(&s, tc),
+                                };
+                                view! { <option value=s.id.clone() selected=sel>{label}</option> }
                             })
                             .collect_view()
                     }}

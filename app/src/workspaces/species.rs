@@ -293,6 +293,10 @@ pub fn SpeciesWorkspace() -> impl IntoView {
                     }
                 })
             }}
+            <crate::reagents::UserReagentNote systems=Signal::derive(move || app.design.with(|d| match d.plot_source {
+                PlotSource::Recipe => vec![d.recipe.system.clone()],
+                PlotSource::Mixture => d.mixture.components.iter().map(|c| c.system.clone()).collect(),
+            })) />
             <p class="plot-readout" data-testid="plot-readout" aria-live="polite">
                 {readout}
             </p>

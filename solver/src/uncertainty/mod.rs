@@ -193,7 +193,8 @@ pub fn design_uncertainty(
     d: &crate::design::Design,
     inputs: &UncertaintyInputs,
 ) -> DesignUncertainty {
-    let custom = &d.custom_systems;
+    let systems = d.systems();
+    let custom = &systems;
     let s = |e: SolverError| e.to_string();
     let recipe = crate::recipe::solve_recipe(&d.recipe, custom)
         .and_then(|r| recipe_uncertainty(&d.recipe, &r, inputs, custom));

@@ -45,7 +45,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
     let app = use_app();
     let design = app.design;
     let spec = Memo::new(move |_| design.with(|d| d.recipe.clone()));
-    let custom = Memo::new(move |_| design.with(|d| d.custom_systems.clone()));
+    let custom = Memo::new(move |_| design.with(|d| d.systems()));
     let result = Memo::new(move |_| spec.with(|s| custom.with(|c| solve_recipe(s, c))));
     let pending = Memo::new(move |_| !app.pending_in("recipe-").is_empty());
 
@@ -55,7 +55,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
     Effect::new(move |_| {
         app.revision.track();
         if follow.get_untracked().is_none() {
-            let auto = design.with_untracked(|d| follows_suggestion(&d.recipe, &d.custom_systems));
+            let auto = design.with_untracked(|d| follows_suggestion(&d.recipe, &d.systems()));
             follow.set(Some(auto));
         }
     });
@@ -70,18 +70,14 @@ pub fn RecipeWorkspace() -> impl IntoView {
         if follow.get_untracked() == Some(false) {
             return;
         }
-        let (before, after) = design.with_untracked(|d| {
-            (
-                d.recipe.method.clone(),
-                retarget(&d.recipe, &d.custom_systems),
-            )
-        });
+        let (before, after) =
+            design.with_untracked(|d| (d.recipe.method.clone(), retarget(&d.recipe, &d.systems())));
         let Some(after) = after else { return };
         let text = design.with_untracked(|d| {
             format!(
                 "Forms changed for the new target: {} → {}.",
-                forms_text(&before, &d.recipe.system, &d.custom_systems),
-                forms_text(&after, &d.recipe.system, &d.custom_systems)
+                forms_text(&before, &d.recipe.system, &d.systems()),
+                forms_text(&after, &d.recipe.system, &d.systems())
             )
         });
         design.update(|d| d.recipe.method = after);
@@ -99,7 +95,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
 
     let on_system = Callback::new(move |id: String| {
         design.update(|d| {
-            let custom = d.custom_systems.clone();
+            let custom = d.systems();
             d.recipe.system = id;
             apply_suggestion(&mut d.recipe, &custom);
         });
@@ -233,6 +229,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
             {inputs}
             <div class="results">
                 <RecipeResultView spec=spec custom=custom result=result pending=pending />
+                <crate::reagents::UserReagentNote systems=Signal::derive(move || spec.with(|s| vec![s.system.clone()])) />
                 <CautionPanel items=cautions testid="recipe-cautions" />
             </div>
         </div>
@@ -499,7 +496,7 @@ fn MethodInputs(
                             // Acid form for a base titrant, base form for HCl: the
                             // weighed form follows the titrant unless picked by hand.
                             if follow.get_untracked() != Some(false) {
-                                if let Some(m) = retarget(&d.recipe, &d.custom_systems) {
+                                if let Some(m) = retarget(&d.recipe, &d.systems()) {
                                     d.recipe.method = m;
                                 }
                             }
@@ -535,7 +532,7 @@ fn MethodInputs(
             selected=kind
             on_change=Callback::new(move |k: String| {
                 design.update(|d| {
-                    let custom = d.custom_systems.clone();
+                    let custom = d.systems();
                     switch_method(&mut d.recipe, &custom, &k);
                 });
                 follow.set(Some(true));

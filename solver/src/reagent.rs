@@ -1,0 +1,458 @@
+//! User reagents: checks for user-defined systems and added shelf forms, the systems a design
+//! sees, the standalone reagent file, and the per-field checks a reagent editor shows.
+//!
+//! One mechanism checks everything: [`validate_user_system`] is
+//! [`crate::thermo::validate_system`] plus the one rule it leaves out (a form's counter-ions
+//! must leave the system in a charge its species can carry). Added forms, reagent files and
+//! the editor's per-field messages all run it, on the system or on parts of it.
+
+use crate::error::{clip, quote, Result, SolverError, QUOTE_MAX};
+use crate::library::{counter_charge, find_system};
+use crate::mixture::lookup;
+use crate::system::{AcidSystem, CustomForm, ReagentForm, Step, TempModel};
+use crate::thermo::validate_system;
+use serde::{Deserialize, Serialize};
+
+/// Version of the standalone reagent file ([`ReagentFile::bufferwright_reagent`]).
+pub const REAGENT_FILE_VERSION: u32 = 1;
+
+/// Largest reagent file read, bytes.
+pub const REAGENT_FILE_MAX_BYTES: usize = 256 * 1024;
+
+/// The field path an error names, if it names one.
+pub fn error_field(e: &SolverError) -> Option<&str> {
+    match e {
+        SolverError::NotFinite { field }
+        | SolverError::Negative { field, .. }
+        | SolverError::OutOfRange { field, .. }
+        | SolverError::Infeasible { field, .. }
+        | SolverError::Document { field, .. } => Some(field),
+        _ => None,
+    }
+}
+
+/// The same error with its field path rewritten by `f`.
+pub fn map_field(e: SolverError, f: impl Fn(&str) -> String) -> SolverError {
+    match e {
+        SolverError::NotFinite { field } => SolverError::NotFinite { field: f(&field) },
+        SolverError::Negative { field, value } => SolverError::Negative {
+            field: f(&field),
+            value,
+        },
+        SolverError::OutOfRange {
+            field,
+            value,
+            min,
+            max,
+        } => SolverError::OutOfRange {
+            field: f(&field),
+            value,
+            min,
+            max,
+        },
+        SolverError::Infeasible { field, reason } => SolverError::Infeasible {
+            field: f(&field),
+            reason,
+        },
+        SolverError::Document { field, reason } => SolverError::Document {
+            field: f(&field),
+            reason,
+        },
+        other => other,
+    }
+}
+
+/// Replace the leading `from` of a field path by `to` (`system.steps[1]` →
+/// `custom_systems[0].steps[1]` with `from = "system"`, `to = "custom_systems[0]"`).
+pub fn reroot(e: SolverError, from: &str, to: &str) -> SolverError {
+    map_field(e, |f| match f.strip_prefix(from) {
+        Some(rest) if rest.is_empty() || rest.starts_with(['.', '[']) => format!("{to}{rest}"),
+        _ => format!("{to}.{f}"),
+    })
+}
+
+/// Charge each unit of the system carries as this form delivers it:
+/// −(counter-ion charge) / units (Na₂HPO₄: −2; borax: −0.5; Tris·HCl: +1).
+pub fn form_system_charge(form: &ReagentForm) -> f64 {
+    -counter_charge(form) / form.units
+}
+
+/// Each form from index `from` on must leave the system in a charge its species carry.
+/// (One built-in form breaks this on purpose: sodium sulfide, whose S²⁻ the library models
+/// as HS⁻ plus hydroxide because pK2 of H₂S is not reliable; forms added to a built-in
+/// system are checked, its own are not.)
+fn check_form_charges(sys: &AcidSystem, from: usize) -> Result<()> {
+    let hi = f64::from(sys.z0);
+    let lo = hi - sys.steps.len() as f64;
+    for (j, form) in sys.forms.iter().enumerate().skip(from) {
+        let z = form_system_charge(form);
+        if !(lo - 1e-9..=hi + 1e-9).contains(&z) {
+            return Err(SolverError::Document {
+                field: format!("system.forms[{j}].counter_ions"),
+                reason: format!(
+                    "these counter-ions leave each unit of the system with charge {z:+}, \
+                     but its species carry {hi:+} to {lo:+} (check the charge of the most \
+                     protonated species, the units and the counter-ions)"
+                ),
+            });
+        }
+    }
+    Ok(())
+}
+
+/// Check a user-defined system: everything [`validate_system`] checks (fields
+/// named `system.…`), then each form's counter-ions against the charges the
+/// system's species can carry (`system.forms[j].counter_ions`).
+///
+/// # Errors
+///
+/// The first problem found, naming its field.
+pub fn validate_user_system(sys: &AcidSystem) -> Result<()> {
+    validate_system(sys)?;
+    check_form_charges(sys, 0)
+}
+
+/// Check added shelf forms against the systems they extend (the design's
+/// `custom_systems` first, then the library). Fields are named
+/// `custom_forms[i].system` and `custom_forms[i].form.…`.
+///
+/// # Errors
+///
+/// The first problem: an unknown system, or what [`validate_user_system`]
+/// finds when the form is added to its system (bad formula, units, counter-ions,
+/// an id the system or an earlier added form already uses).
+pub fn validate_custom_forms(forms: &[CustomForm], systems: &[AcidSystem]) -> Result<()> {
+    for (i, cf) in forms.iter().enumerate() {
+        let root = format!("custom_forms[{i}]");
+        let base = lookup(&cf.system, systems).map_err(|_| SolverError::Document {
+            field: format!("{root}.system"),
+            reason: format!("unknown system {}", quote(&cf.system)),
+        })?;
+        let mut probe = base.clone();
+        probe.forms.extend(
+            forms
+                .iter()
+                .take(i)
+                .filter(|f| f.system == cf.system)
+                .map(|f| f.form.clone()),
+        );
+        let j = probe.forms.len();
+        probe.forms.push(cf.form.clone());
+        let own = format!("system.forms[{j}]");
+        validate_system(&probe)
+            .and_then(|()| check_form_charges(&probe, j))
+            .map_err(|e| {
+                map_field(e, |f| match f.strip_prefix(own.as_str()) {
+                    Some(rest) => format!("{root}.form{rest}"),
+                    None => format!("{root}.system ({f})"),
+                })
+            })?;
+    }
+    Ok(())
+}
+
+/// The systems a design sees: its own systems, and every system an added form
+/// extends with that form appended (a library system is copied, so lookups find
+/// the extended copy first). Forms naming no known system are left out
+/// (validation refuses them).
+pub fn systems_with_forms(systems: &[AcidSystem], forms: &[CustomForm]) -> Vec<AcidSystem> {
+    let mut out = systems.to_vec();
+    for cf in forms {
+        if let Some(s) = out.iter_mut().find(|s| s.id == cf.system) {
+            s.forms.push(cf.form.clone());
+        } else if let Some(lib) = find_system(&cf.system) {
+            let mut s = lib.clone();
+            s.forms.push(cf.form.clone());
+            out.push(s);
+        }
+    }
+    out
+}
+
+// ---------------------------------------------------------------- reagent file
+
+/// One reagent on its own: a whole system with its forms, or one shelf form
+/// added to a system.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Reagent {
+    /// A user-defined acid system.
+    System(AcidSystem),
+    /// An extra shelf form for a system.
+    Form(CustomForm),
+}
+
+impl Reagent {
+    /// Display name: the system's name, or the form's.
+    pub fn name(&self) -> &str {
+        match self {
+            Reagent::System(s) => &s.name,
+            Reagent::Form(f) => &f.form.name,
+        }
+    }
+}
+
+/// The reagent file: `{"bufferwright_reagent": 1, "reagent": {"system": {…}}}`
+/// or `{"bufferwright_reagent": 1, "reagent": {"form": {"system": "hepes", "form": {…}}}}`.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ReagentFile {
+    /// File version, [`REAGENT_FILE_VERSION`].
+    pub bufferwright_reagent: u32,
+    /// The reagent.
+    pub reagent: Reagent,
+}
+
+/// Check a reagent. A system is checked on its own (fields `reagent.system.…`);
+/// an added form against `systems` and the library (fields `reagent.form.…`).
+///
+/// # Errors
+///
+/// The first problem, naming its field.
+pub fn validate_reagent(r: &Reagent, systems: &[AcidSystem]) -> Result<()> {
+    match r {
+        Reagent::System(s) => {
+            validate_user_system(s).map_err(|e| reroot(e, "system", "reagent.system"))
+        }
+        Reagent::Form(cf) => validate_custom_forms(std::slice::from_ref(cf), systems)
+            .map_err(|e| reroot(e, "custom_forms[0]", "reagent.form")),
+    }
+}
+
+fn file_err(field: &str, reason: impl Into<String>) -> SolverError {
+    SolverError::Document {
+        field: field.into(),
+        reason: reason.into(),
+    }
+}
+
+/// Read a reagent file, refusing the whole file with the reason: not JSON, too
+/// large, another version, an unknown key (by its path), or any field
+/// [`validate_reagent`] refuses. Added forms are checked against the library.
+///
+/// # Errors
+///
+/// [`SolverError::Document`] (or a range error) naming the field.
+///
+/// # Example
+///
+/// ```
+/// use solver::reagent::{parse_reagent, reagent_to_json, Reagent};
+/// let lib = solver::library::find_system("acetate").cloned().ok_or(solver::SolverError::Unknown {
+///     kind: "system".into(), name: "acetate".into() })?;
+/// let r = Reagent::System(solver::system::AcidSystem { id: "my_acetate".into(), ..lib });
+/// assert_eq!(parse_reagent(&reagent_to_json(&r))?, r);
+/// assert!(parse_reagent("{\"bufferwright_reagent\": 1}").is_err());
+/// # Ok::<(), solver::SolverError>(())
+/// ```
+pub fn parse_reagent(text: &str) -> Result<Reagent> {
+    if text.len() > REAGENT_FILE_MAX_BYTES {
+        return Err(file_err(
+            "document",
+            format!(
+                "larger than {} KB: not a reagent file",
+                REAGENT_FILE_MAX_BYTES / 1024
+            ),
+        ));
+    }
+    let value: serde_json::Value = serde_json::from_str(text)
+        .map_err(|e| file_err("document", format!("not valid JSON: {e}")))?;
+    match value
+        .get("bufferwright_reagent")
+        .and_then(serde_json::Value::as_u64)
+    {
+        Some(v) if v == u64::from(REAGENT_FILE_VERSION) => {}
+        Some(v) => {
+            return Err(file_err(
+                "bufferwright_reagent",
+                format!("version {v} is not supported (this page reads {REAGENT_FILE_VERSION})"),
+            ))
+        }
+        None => {
+            return Err(file_err(
+                "bufferwright_reagent",
+                "missing: not a Bufferwright reagent file",
+            ))
+        }
+    }
+    let file: ReagentFile = serde_path_to_error::deserialize(&value).map_err(|e| {
+        let path = e.path().to_string();
+        crate::design::serde_err(&path, &e.into_inner().to_string())
+    })?;
+    let back = serde_json::to_value(&file).unwrap_or(serde_json::Value::Null);
+    if let Some(field) = crate::design::extra_tagged_key(&value, &back, "") {
+        return Err(file_err(
+            &field,
+            "unknown field (this kind takes no such key; check the spelling)",
+        ));
+    }
+    validate_reagent(&file.reagent, &[])?;
+    Ok(file.reagent)
+}
+
+/// A reagent as its file (indented JSON).
+pub fn reagent_to_json(r: &Reagent) -> String {
+    serde_json::to_string_pretty(&ReagentFile {
+        bufferwright_reagent: REAGENT_FILE_VERSION,
+        reagent: r.clone(),
+    })
+    .unwrap_or_default()
+}
+
+/// A file name for a reagent: `my-amine.bwreagent.json`.
+pub fn reagent_file_name(r: &Reagent) -> String {
+    let mut slug = String::new();
+    for c in clip(r.name(), QUOTE_MAX).chars() {
+        if c.is_ascii_alphanumeric() {
+            slug.push(c.to_ascii_lowercase());
+        } else if !slug.ends_with('-') && !slug.is_empty() {
+            slug.push('-');
+        }
+    }
+    let slug = slug.trim_end_matches('-');
+    let slug = if slug.is_empty() { "reagent" } else { slug };
+    format!("{slug}.bwreagent.json")
+}
+
+// ---------------------------------------------------------------- per-field checks
+
+/// A system that passes [`validate_user_system`] with `n` constant steps and
+/// charge `z0` (the frame the field checks put one part of the user's system in).
+fn skeleton(z0: i32, n: usize) -> AcidSystem {
+    AcidSystem {
+        id: "probe".into(),
+        name: "probe".into(),
+        z0,
+        steps: (0..n)
+            .map(|i| Step {
+                pk25: 1.0 + i as f64,
+                temp: TempModel::Constant,
+            })
+            .collect(),
+        species: (0..=n).map(|i| format!("s{i}")).collect(),
+        t_min_c: 0.0,
+        t_max_c: 60.0,
+        forms: vec![],
+        source: String::new(),
+        hazards: vec![],
+    }
+}
+
+/// Every problem a reagent editor shows beside its fields, at most one per
+/// field path (`system.name`, `system.steps[1].pk25`, `system.t_max_c`,
+/// `system.forms[0].formula`, `system.forms[0].counter_ions`, …), found by
+/// running [`validate_user_system`] on the system and on parts of it: the
+/// system without its forms; its first `i + 1` steps (so each step is judged
+/// after the ones before it); its name, charge and temperature range in a
+/// valid frame; each form alone in the system (or, when the system itself is
+/// not yet valid, in a valid frame with the same charge and number of steps);
+/// and each form's id after the forms before it.
+pub fn system_field_problems(sys: &AcidSystem) -> Vec<SolverError> {
+    let mut out: Vec<SolverError> = Vec::new();
+    let mut push = |e: SolverError| {
+        let f = error_field(&e).map(str::to_string);
+        if !out.iter().any(|o| error_field(o).map(str::to_string) == f) {
+            out.push(e);
+        }
+    };
+    let n = sys.steps.len();
+    let bare = AcidSystem {
+        forms: vec![],
+        ..sys.clone()
+    };
+    let bare_ok = validate_user_system(&bare);
+    // Name, id, charge and range, each in a valid frame.
+    let frame = skeleton(0, 1);
+    for probe in [
+        AcidSystem {
+            name: sys.name.clone(),
+            ..frame.clone()
+        },
+        AcidSystem {
+            id: sys.id.clone(),
+            ..frame.clone()
+        },
+        AcidSystem {
+            z0: sys.z0,
+            ..frame.clone()
+        },
+        AcidSystem {
+            t_min_c: sys.t_min_c,
+            t_max_c: sys.t_max_c,
+            ..frame.clone()
+        },
+    ] {
+        if let Err(e) = validate_user_system(&probe) {
+            push(e);
+        }
+    }
+    // Steps, each after the ones before it.
+    for i in 0..n.min(crate::system::MAX_STEPS) {
+        // Earlier steps keep their pK (for the order) without their temperature data,
+        // so a half-typed ΔrH° above does not hide this step's own problem.
+        let mut p = skeleton(0, i + 1);
+        p.steps = sys
+            .steps
+            .iter()
+            .take(i)
+            .map(|s| Step {
+                pk25: s.pk25,
+                temp: TempModel::Constant,
+            })
+            .chain(sys.steps.get(i).cloned())
+            .collect();
+        p.t_min_c = sys.t_min_c;
+        p.t_max_c = sys.t_max_c;
+        if let Err(e) = validate_user_system(&p) {
+            let own = format!("system.steps[{i}]");
+            if error_field(&e).is_some_and(|f| f.starts_with(&own)) {
+                push(e);
+            }
+        }
+    }
+    if let Err(e) = bare_ok.clone() {
+        push(e);
+    }
+    // Forms.
+    let base = if bare_ok.is_ok() {
+        bare
+    } else if (1..=crate::system::MAX_STEPS).contains(&n)
+        && sys.z0.unsigned_abs() as usize <= crate::system::MAX_STEPS
+    {
+        skeleton(sys.z0, n)
+    } else {
+        return out;
+    };
+    for (j, form) in sys.forms.iter().enumerate() {
+        let at_j = |e: SolverError| {
+            map_field(e, |f| match f.strip_prefix("system.forms[0]") {
+                Some(rest) => format!("system.forms[{j}]{rest}"),
+                None => f.to_string(),
+            })
+        };
+        let alone = AcidSystem {
+            forms: vec![form.clone()],
+            ..base.clone()
+        };
+        if let Err(e) = validate_user_system(&alone) {
+            push(at_j(e));
+            continue;
+        }
+        // The id after the ones before it (earlier forms stand in as copies of this one).
+        let mut after = base.clone();
+        after.forms = sys
+            .forms
+            .iter()
+            .take(j)
+            .map(|f| ReagentForm {
+                id: f.id.clone(),
+                ..form.clone()
+            })
+            .collect();
+        after.forms.push(form.clone());
+        if let Err(e) = validate_user_system(&after) {
+            push(e);
+        }
+    }
+    out
+}

@@ -20,71 +20,12 @@ use app::state::AppState;
 use leptos::prelude::*;
 use wasm_bindgen::JsCast;
 use wasm_bindgen_test::*;
-use web_sys::{Element, Event, EventInit, HtmlElement, HtmlInputElement};
+use web_sys::{Element, HtmlElement, HtmlInputElement};
 
 wasm_bindgen_test_configure!(run_in_browser);
 
-/// Mount `f` (with `state` in context) into a new container; returns the container.
-fn mount<F, V>(state: AppState, f: F) -> Element
-where
-    F: FnOnce() -> V + 'static,
-    V: IntoView + 'static,
-{
-    let doc = document();
-    let host: HtmlElement = doc.create_element("div").unwrap().unchecked_into();
-    doc.body().unwrap().append_child(&host).unwrap();
-    let handle = leptos::mount::mount_to(host.clone(), move || {
-        provide_context(state);
-        f()
-    });
-    // Keep the view mounted for the rest of the test run.
-    std::mem::forget(handle);
-    host.unchecked_into()
-}
-
-async fn settle() {
-    for _ in 0..4 {
-        leptos::task::tick().await;
-    }
-    // One macrotask as well, for anything queued with a timer.
-    let p = js_sys::Promise::new(&mut |resolve, _| {
-        window()
-            .set_timeout_with_callback_and_timeout_and_arguments_0(&resolve, 0)
-            .unwrap();
-    });
-    wasm_bindgen_futures::JsFuture::from(p).await.unwrap();
-    leptos::task::tick().await;
-}
-
-fn find(root: &Element, sel: &str) -> Option<Element> {
-    root.query_selector(sel).unwrap()
-}
-
-fn text(root: &Element, testid: &str) -> Option<String> {
-    find(root, &format!("[data-testid=\"{testid}\"]")).map(|e| e.text_content().unwrap_or_default())
-}
-
-fn bubbling(kind: &str) -> Event {
-    let init = EventInit::new();
-    init.set_bubbles(true);
-    Event::new_with_event_init_dict(kind, &init).unwrap()
-}
-
-async fn type_into(root: &Element, id: &str, value: &str) {
-    let input: HtmlInputElement = find(root, &format!("#{id}"))
-        .unwrap_or_else(|| panic!("no input #{id}"))
-        .unchecked_into();
-    input.set_value(value);
-    input.dispatch_event(&bubbling("input")).unwrap();
-    settle().await;
-}
-async fn click(root: &Element, testid: &str) {
-    let el: HtmlElement = find(root, &format!("[data-testid=\"{testid}\"]"))
-        .unwrap_or_else(|| panic!("no [data-testid={testid}]"))
-        .unchecked_into();
-    el.click();
-    settle().await;
-}
+mod common;
+use common::*;
 
 fn message(root: &Element, key: &str) -> String {
     text(root, &format!("error-{key}")).unwrap_or_default()

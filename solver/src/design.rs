@@ -260,34 +260,7 @@ pub(crate) fn extra_tagged_key(
 }
 
 fn prefixed(prefix: &str, e: SolverError) -> SolverError {
-    let p = |f: String| format!("{prefix}.{f}");
-    match e {
-        SolverError::NotFinite { field } => SolverError::NotFinite { field: p(field) },
-        SolverError::Negative { field, value } => SolverError::Negative {
-            field: p(field),
-            value,
-        },
-        SolverError::OutOfRange {
-            field,
-            value,
-            min,
-            max,
-        } => SolverError::OutOfRange {
-            field: p(field),
-            value,
-            min,
-            max,
-        },
-        SolverError::Infeasible { field, reason } => SolverError::Infeasible {
-            field: p(field),
-            reason,
-        },
-        SolverError::Document { field, reason } => SolverError::Document {
-            field: p(field),
-            reason,
-        },
-        other => other,
-    }
+    crate::reagent::map_field(e, |f| format!("{prefix}.{f}"))
 }
 
 /// Check every field a user can enter, without solving anything.

@@ -10,7 +10,7 @@ import { mkdirSync, readFileSync, writeFileSync, readdirSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import zlib from 'node:zlib';
-import { serveDist, openSession, waitForApp, screenshot, ROOT, ARTIFACTS } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, ROOT, ARTIFACTS, tid } from './harness.mjs';
 
 // jsQR (pure JS, tests/package.json): decodes the QR code from the printed page's pixels.
 const JSQR = createRequire(import.meta.url).resolve('jsqr');
@@ -23,7 +23,6 @@ after(async () => {
   await srv?.close();
 });
 
-const tid = (id) => `[data-testid="${id}"]`;
 
 async function openPage(s, url) {
   const page = await s.newPage();

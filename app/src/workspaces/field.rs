@@ -467,7 +467,7 @@ fn FieldResultView(
                         </div>
                         <div>
                             <dt>"Model"</dt>
-                            <dd data-testid="field-model">{r.model.describe()}</dd>
+                            <dd data-testid="field-model" title=r.model.describe()>{r.model.short()}</dd>
                         </div>
                     </dl>
                 }

@@ -292,6 +292,7 @@ pub fn other_bases_text(sp: &FieldSpecies) -> String {
 }
 
 #[cfg(test)]
+#[allow(clippy::panic, clippy::indexing_slicing)]
 mod tests {
     use super::*;
 

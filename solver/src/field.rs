@@ -87,6 +87,27 @@ pub enum TotalUnit {
     MmolPerL,
     /// µmol/L.
     UmolPerL,
+    /// mg/L as NH₃ (ammonia only).
+    MgPerLNh3,
+    /// mg/L as H₂S (sulfide only).
+    MgPerLH2s,
+    /// mg/L as CaCO₃, one CaCO₃ per carbon (carbonate only; not an alkalinity).
+    MgPerLCaco3,
+    /// mg/L as CO₂, one CO₂ per carbon (carbonate only).
+    MgPerLCo2,
+}
+
+impl TotalUnit {
+    /// For the mg/L units tied to one basis: (system id, basis label, formula).
+    pub fn fixed_basis(self) -> Option<(&'static str, &'static str, &'static str)> {
+        match self {
+            TotalUnit::MgPerLNh3 => Some(("ammonium", "NH₃", "NH3")),
+            TotalUnit::MgPerLH2s => Some(("sulfide", "H₂S", "H2S")),
+            TotalUnit::MgPerLCaco3 => Some(("carbonate", "CaCO₃", "CaCO3")),
+            TotalUnit::MgPerLCo2 => Some(("carbonate", "CO₂", "CO2")),
+            _ => None,
+        }
+    }
 }
 
 /// A field reading.
@@ -268,6 +289,14 @@ pub fn validate_field(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<()> {
     if let Some(t) = spec.total {
         in_range("total", t, 0.0, 1e6)?;
     }
+    if let Some((id, label, _)) = spec.total_unit.fixed_basis() {
+        if id != sys.id {
+            return Err(SolverError::Infeasible {
+                field: "total_unit".into(),
+                reason: format!("a total as {label} does not fit {}", sys.name),
+            });
+        }
+    }
     ionic_from(&spec.ionic)?;
     if let Some(a) = &spec.alkalinity {
         a.to_eq_per_l()?;
@@ -314,6 +343,18 @@ pub fn total_to_molar(system_id: &str, total: f64, unit: TotalUnit) -> Result<f6
         TotalUnit::MgPerLAs => match reporting_bases(system_id).first() {
             None => t / 1000.0,
             Some((_, f)) => t / 1000.0 / molar_mass(f)?,
+        },
+        TotalUnit::MgPerLNh3
+        | TotalUnit::MgPerLH2s
+        | TotalUnit::MgPerLCaco3
+        | TotalUnit::MgPerLCo2 => match unit.fixed_basis() {
+            Some((id, _, f)) if id == system_id => t / 1000.0 / molar_mass(f)?,
+            _ => {
+                return Err(SolverError::Infeasible {
+                    field: "total_unit".into(),
+                    reason: format!("that mg/L basis does not fit the system {system_id}"),
+                })
+            }
         },
     })
 }

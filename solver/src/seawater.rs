@@ -59,6 +59,14 @@ pub enum PkModel {
 }
 
 impl PkModel {
+    /// A short label for the page's facts list.
+    pub fn short(self) -> &'static str {
+        match self {
+            PkModel::Davies => "Davies activity model",
+            PkModel::CleggWhitfield1995 => "Seawater: Clegg & Whitfield (1995), total pH scale",
+        }
+    }
+
     /// One line naming the model and its pH scale, for the page and the CLI.
     pub fn describe(self) -> &'static str {
         match self {

@@ -644,3 +644,42 @@ fn new_reading_parts_round_trip_and_refuse_unknown_keys() {
         assert!(field_of(&e).starts_with("field."), "{e}");
     }
 }
+
+#[test]
+fn totals_in_every_trade_basis_give_the_same_water() {
+    // 1 mg/L as N = 17.031/14.007 mg/L as NH3; 1 mg/L as S = 34.076/32.06 mg/L
+    // as H2S; 1 mg/L as C = 100.086/12.011 mg/L as CaCO3 = 44.009/12.011 as CO2
+    // (one formula unit per unit of the system; CIAAW 2021 weights).
+    let cases = [
+        ("ammonium", 8.0, TotalUnit::MgPerLNh3, (N + 3.0 * H) / N),
+        ("sulfide", 7.0, TotalUnit::MgPerLH2s, (2.0 * H + S) / S),
+        (
+            "carbonate",
+            7.0,
+            TotalUnit::MgPerLCaco3,
+            (CA + C + 3.0 * O) / C,
+        ),
+        ("carbonate", 7.0, TotalUnit::MgPerLCo2, (C + 2.0 * O) / C),
+    ];
+    for (system, ph, unit, ratio) in cases {
+        let first =
+            field_reading(&spec(system, ph, 20.0, Some(1.0), IonicSource::Zero), &[]).unwrap();
+        let mut s = spec(system, ph, 20.0, Some(ratio), IonicSource::Zero);
+        s.total_unit = unit;
+        let other = field_reading(&s, &[]).unwrap();
+        for (a, b) in first.species.iter().zip(&other.species) {
+            let (a, b) = (a.conc_m.unwrap(), b.conc_m.unwrap());
+            assert!(
+                (a - b).abs() < 1e-9 * a.max(1e-12),
+                "{system} {unit:?}: {a} vs {b}"
+            );
+        }
+    }
+    // A basis of another system is refused on `total_unit`.
+    let mut s = spec("sulfide", 7.0, 20.0, Some(1.0), IonicSource::Zero);
+    s.total_unit = TotalUnit::MgPerLNh3;
+    assert_eq!(field_of(&field_reading(&s, &[]).unwrap_err()), "total_unit");
+    // The JSON names are stable.
+    let j = serde_json::to_string(&TotalUnit::MgPerLCaco3).unwrap();
+    assert_eq!(j, r#""mg_per_l_caco3""#);
+}

@@ -63,7 +63,31 @@ fn total_key(spec: &FieldSpec) -> &'static str {
         (Some(_), TotalUnit::MgPerLAs) => "mg",
         (Some(_), TotalUnit::MmolPerL) => "mmol",
         (Some(_), TotalUnit::UmolPerL) => "umol",
+        (Some(_), TotalUnit::MgPerLNh3) => "mg_nh3",
+        (Some(_), TotalUnit::MgPerLH2s) => "mg_h2s",
+        (Some(_), TotalUnit::MgPerLCaco3) => "mg_caco3",
+        (Some(_), TotalUnit::MgPerLCo2) => "mg_co2",
     }
+}
+
+/// The extra mg/L bases a total may be typed in, per system: (choice key, unit).
+const EXTRA_TOTAL_UNITS: [(&str, TotalUnit); 4] = [
+    ("mg_nh3", TotalUnit::MgPerLNh3),
+    ("mg_h2s", TotalUnit::MgPerLH2s),
+    ("mg_caco3", TotalUnit::MgPerLCaco3),
+    ("mg_co2", TotalUnit::MgPerLCo2),
+];
+
+/// The extra total units of a system: (choice key, unit, basis label).
+fn extra_total_units(system: &str) -> Vec<(&'static str, TotalUnit, &'static str)> {
+    EXTRA_TOTAL_UNITS
+        .iter()
+        .filter_map(|(k, u)| {
+            u.fixed_basis()
+                .filter(|(id, _, _)| *id == system)
+                .map(|(_, label, _)| (*k, *u, label))
+        })
+        .collect()
 }
 
 /// Unit text of the per-species amount for a reporting basis.
@@ -111,6 +135,9 @@ pub fn FieldWorkspace() -> impl IntoView {
         if b != "mmol" {
             v.push(ChoiceOption::new("mg", format!("mg/L as {b}")));
         }
+        for (k, _, label) in spec.with(|s| extra_total_units(&s.system)) {
+            v.push(ChoiceOption::new(k, format!("mg/L as {label}")));
+        }
         v.push(ChoiceOption::new("mmol", "mmol/L"));
         v.push(ChoiceOption::new("umol", "µmol/L"));
         if spec.with(|s| s.system == "carbonate") {
@@ -141,7 +168,10 @@ pub fn FieldWorkspace() -> impl IntoView {
                     f.total_unit = match other {
                         "mmol" => TotalUnit::MmolPerL,
                         "umol" => TotalUnit::UmolPerL,
-                        _ => TotalUnit::MgPerLAs,
+                        k => EXTRA_TOTAL_UNITS
+                            .iter()
+                            .find(|(key, _)| *key == k)
+                            .map_or(TotalUnit::MgPerLAs, |(_, u)| *u),
                     };
                 }
             }
@@ -310,7 +340,9 @@ pub fn FieldWorkspace() -> impl IntoView {
                                 let suffix = match key {
                                     "mmol" => "mmol/L".to_string(),
                                     "umol" => "µmol/L".to_string(),
-                                    _ => format!("mg/L as {}", basis.get()),
+                                    "mg" => format!("mg/L as {}", basis.get()),
+                                    _ => spec.with(|s| s.total_unit.fixed_basis())
+                                        .map_or_else(|| format!("mg/L as {}", basis.get()), |(_, l, _)| format!("mg/L as {l}")),
                                 };
                                 view! {
                                     <NumberField
@@ -468,7 +500,7 @@ fn FieldResultView(
                         </div>
                         <div>
                             <dt>"Model"</dt>
-                            <dd data-testid="field-model">{r.model.describe()}</dd>
+                            <dd data-testid="field-model" title=r.model.describe()>{r.model.short()}</dd>
                         </div>
                     </dl>
                 }

@@ -52,6 +52,14 @@ pub fn fit_to_system(f: &mut FieldSpec) {
             f.limit = None;
         }
     }
+    // A total typed as NH₃, H₂S, CaCO₃ or CO₂ is kept as the new system's
+    // first basis, as the other mg/L totals are.
+    if f.total_unit
+        .fixed_basis()
+        .is_some_and(|(id, _, _)| id != f.system)
+    {
+        f.total_unit = solver::field::TotalUnit::MgPerLAs;
+    }
 }
 
 /// Fraction of the total at which the limit is reached (same water, same total).
@@ -292,6 +300,7 @@ pub fn other_bases_text(sp: &FieldSpecies) -> String {
 }
 
 #[cfg(test)]
+#[allow(clippy::panic, clippy::indexing_slicing)]
 mod tests {
     use super::*;
 
@@ -392,5 +401,11 @@ mod tests {
         fit_to_system(&mut f);
         assert!(f.alkalinity.is_none());
         assert!(f.limit.is_none());
+        f.total_unit = solver::field::TotalUnit::MgPerLNh3;
+        fit_to_system(&mut f);
+        assert_eq!(f.total_unit, solver::field::TotalUnit::MgPerLNh3);
+        f.system = "sulfide".into();
+        fit_to_system(&mut f);
+        assert_eq!(f.total_unit, solver::field::TotalUnit::MgPerLAs);
     }
 }

@@ -32,14 +32,14 @@ pub struct CliOutput {
 
 /// Usage of `log`.
 pub const LOG_USAGE: &str = "usage: bufferwright log --system ID [--temp C] [--total X] \
-[--total-unit mg|mmol|umol] [--ionic I | --salinity S | --conductivity uS_CM | --tds MG_L] \
+[--total-unit mg|mmol|umol|mg-nh3|mg-h2s|mg-caco3|mg-co2] [--ionic I | --salinity S | --conductivity uS_CM | --tds MG_L] \
 [--alk-unit mg_caco3|meq] [--limit VALUE --limit-unit UNIT] [--col ROLE=COLUMN]... \
 [--sep comma|semicolon|tab] FILE.csv|-";
 
 /// Usage of `grid`.
 pub const GRID_USAGE: &str = "usage: bufferwright grid --system ID --ph START:STOP:STEP \
 --temp START:STOP:STEP [--species NAME] [--quantity fraction|conc] [--total X] \
-[--total-unit mg|mmol|umol] [--format csv|md|html] [--salinity S | --ionic I | --conductivity uS_CM]";
+[--total-unit mg|mmol|umol|mg-nh3|mg-h2s|mg-caco3|mg-co2] [--format csv|md|html] [--salinity S | --ionic I | --conductivity uS_CM]";
 
 fn usage(msg: &str, usage: &str) -> CliOutput {
     CliOutput {
@@ -78,7 +78,14 @@ fn total_unit(v: &str) -> Result<TotalUnit, String> {
         "mg" => Ok(TotalUnit::MgPerLAs),
         "mmol" => Ok(TotalUnit::MmolPerL),
         "umol" | "µmol" => Ok(TotalUnit::UmolPerL),
-        o => Err(format!("--total-unit: \"{o}\" is not mg, mmol or umol")),
+        "mg-nh3" => Ok(TotalUnit::MgPerLNh3),
+        "mg-h2s" => Ok(TotalUnit::MgPerLH2s),
+        "mg-caco3" => Ok(TotalUnit::MgPerLCaco3),
+        "mg-co2" => Ok(TotalUnit::MgPerLCo2),
+        o => Err(format!(
+            "--total-unit: {} is not mg, mmol, umol, mg-nh3, mg-h2s, mg-caco3 or mg-co2",
+            crate::error::quote(o)
+        )),
     }
 }
 

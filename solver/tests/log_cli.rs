@@ -532,3 +532,60 @@ fn garbage_never_panics() {
         }
     }
 }
+
+/// The trade's mg/L bases reach the command line too: a total of 1.0 mg/L as NH₃ is
+/// 14.007/17.031 mg/L as N (molar masses from CIAAW 2021 weights, computed).
+#[test]
+fn total_unit_takes_the_trades_bases() {
+    let csv = b"pH,temp\n8.0,20\n";
+    let as_n = format!("{}", 14.007 / 17.031);
+    let (c1, nh3, e1) = run(
+        &[
+            "log",
+            "--system",
+            "ammonium",
+            "--total",
+            "1.0",
+            "--total-unit",
+            "mg-nh3",
+            "-",
+        ],
+        Some(csv),
+    );
+    let (c2, n, e2) = run(
+        &[
+            "log",
+            "--system",
+            "ammonium",
+            "--total",
+            &as_n,
+            "--total-unit",
+            "mg",
+            "-",
+        ],
+        Some(csv),
+    );
+    assert_eq!((c1, c2), (0, 0), "{e1} {e2}");
+    let un = |out: &str| {
+        column(out, "NH3_mg_l_as_N")
+            .into_iter()
+            .flatten()
+            .collect::<Vec<f64>>()
+    };
+    let (a, b) = (un(&nh3), un(&n));
+    assert_eq!(a.len(), 1, "{nh3}");
+    assert!(close(a[0], b[0]), "{a:?} vs {b:?}");
+    let (code, _, err) = run(
+        &[
+            "log",
+            "--system",
+            "ammonium",
+            "--total-unit",
+            "mg-as-fish",
+            "-",
+        ],
+        Some(csv),
+    );
+    assert_ne!(code, 0);
+    assert!(err.contains("mg-nh3"), "{err}");
+}

@@ -110,6 +110,17 @@ test('salinity as the ionic-strength source: I and the warning shown', async () 
     assert.ok(Math.abs(frac - expected) < 0.01 * expected + 0.005, `${frac} vs ${expected}`);
     assert.ok(field.warnings.length > 0, 'the CLI warns at 35 PSU');
     assert.ok((await page.textContent(tid('field-warnings'))).includes(field.warnings[0].slice(0, 30)));
+    // At 35 PSU and 24 °C ammonia uses the seawater model (Clegg & Whitfield 1995), and the page
+    // says so, as the CLI's result does.
+    assert.equal(field.model, 'clegg_whitfield1995');
+    assert.match(await page.textContent(tid('field-model')), /Clegg & Whitfield \(1995\), total pH scale/);
+    // Past the model's salinity range the page falls back to Davies and says the value is indicative.
+    const past = fieldDoc({ ...AMMONIA, ionic: { kind: 'salinity', psu: 45 }, limit: undefined });
+    assert.equal(past.field.model, 'davies');
+    const page2 = await openField(s, past.doc);
+    await page2.waitForSelector(tid('field-model'));
+    assert.match(await page2.textContent(tid('field-model')), /Davies/);
+    assert.match(await page2.textContent(tid('field-warnings')), /indicative/i);
     s.assertClean('salinity');
   } finally {
     await s.close();

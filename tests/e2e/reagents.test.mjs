@@ -316,6 +316,18 @@ test('a shelf form of your own for a library system: potassium HEPES weighed in 
     assert.doesNotMatch(await page.textContent(ws('recipe')), /Unknown form/);
     assert.match(await page.textContent(ws('recipe')), /pH 7\.50 ± 0\.\d\d/);
     t.diagnostic(`screenshot: ${await screenshot(page, 'reagents-recipe-k-hepes-desktop')}`);
+    // The printed sheet carries the user's form and the note that its constants are the user's.
+    await page.emulateMedia({ media: 'print' });
+    const printed = await page.evaluate(() => {
+      const shown = (el) => !!el && el.getClientRects().length > 0 && getComputedStyle(el).visibility !== 'hidden';
+      const ws = document.querySelector('[data-testid="ws-recipe"]') || document;
+      return {
+        note: shown(ws.querySelector('[data-testid="user-reagent-note"]')),
+        form: [...ws.querySelectorAll('[data-testid^="recipe-ingredient-"]')].some((e) => shown(e) && /HEPES potassium salt/.test(e.textContent)),
+      };
+    });
+    assert.deepEqual(printed, { note: true, form: true }, 'printed: the user-reagent note and the user form');
+    await page.emulateMedia({ media: 'screen' });
     s.assertClean('potassium HEPES');
   } finally {
     await s.close();

@@ -4,7 +4,8 @@
 //! batches of rows until about [`SLICE_BUDGET_MS`] have passed, then gives
 //! the main thread back through a zero-delay message (not the next
 //! animation frame, so a slice follows as soon as the page has painted and
-//! handled input) and carries on. A small log finishes in its first slice;
+//! handled input) and carries on; every [`FRAME_EVERY_MS`] or so it waits
+//! for a frame instead, so progress is painted. A small log finishes in its first slice;
 //! a long one never freezes the page, and progress shows as it goes. A file that is
 //! refused (binary, too big, no pH column) leaves the results already shown
 //! untouched.
@@ -25,6 +26,9 @@ use wasm_bindgen::JsCast;
 const BATCH: usize = 100;
 /// Work per slice, ms, before the main thread is given back to the page.
 const SLICE_BUDGET_MS: f64 = 10.0;
+/// At least this long between frames (ms) while a log runs: after that the
+/// next slice waits for a frame, so progress is painted.
+const FRAME_EVERY_MS: f64 = 40.0;
 
 #[wasm_bindgen::prelude::wasm_bindgen]
 extern "C" {
@@ -99,6 +103,8 @@ struct Run {
     csv: StoredValue<String>,
     acc: StoredValue<LogSummary>,
     id: StoredValue<u64>,
+    /// When the page last had a frame during this run (ms, `Date.now()`).
+    painted: StoredValue<f64>,
     progress: RwSignal<(usize, usize)>,
     summary: RwSignal<Option<LogSummary>>,
     running: RwSignal<bool>,
@@ -113,6 +119,7 @@ impl Run {
         self.progress.set((0, plan.len()));
         self.plan.set_value(Some(plan));
         self.running.set(true);
+        self.painted.set_value(js_sys::Date::now());
         // The first slice right away: a small log is done before the page paints.
         self.step(id);
     }
@@ -145,7 +152,16 @@ impl Run {
                 break;
             }
         }
-        after_yield(move || self.step(id));
+        if js_sys::Date::now() - self.painted.get_value() >= FRAME_EVERY_MS {
+            // Chromium paints only now and then between back-to-back message tasks: wait for
+            // a frame (progress shown), then go on in a task after it.
+            request_animation_frame(move || {
+                self.painted.set_value(js_sys::Date::now());
+                after_yield(move || self.step(id));
+            });
+        } else {
+            after_yield(move || self.step(id));
+        }
     }
 }
 
@@ -191,6 +207,7 @@ pub fn DayLog(spec: Memo<FieldSpec>, custom: Memo<Vec<AcidSystem>>) -> impl Into
         csv: StoredValue::new(String::new()),
         acc: StoredValue::new(LogSummary::default()),
         id: StoredValue::new(0),
+        painted: StoredValue::new(0.0),
         progress: RwSignal::new((0, 0)),
         summary: RwSignal::new(None),
         running: RwSignal::new(false),

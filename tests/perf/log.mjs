@@ -62,6 +62,23 @@ try {
         po.observe({ type: 'longtask' });
         st.po = po;
       } catch { st.longtasks = null; }
+      // Long animation frames (Chromium): how much of a long frame is script, how much rendering.
+      st.loafs = [];
+      try {
+        const lo = new PerformanceObserver((list) => {
+          for (const e of list.getEntries()) {
+            st.loafs.push({
+              start: e.startTime,
+              ms: e.duration,
+              render: e.startTime + e.duration - (e.renderStart || e.startTime + e.duration),
+              layout: e.startTime + e.duration - (e.styleAndLayoutStart || e.startTime + e.duration),
+              blocking: e.blockingDuration,
+            });
+          }
+        });
+        lo.observe({ type: 'long-animation-frame' });
+        st.lo = lo;
+      } catch { st.loafs = null; }
     }, { n, sel: PROGRESS });
 
   const finish = async (n, timeout, t0) => {
@@ -71,6 +88,9 @@ try {
     const m = await page.evaluate(() => {
       const st = window.__logRun;
       st.po?.disconnect();
+      st.lo?.disconnect();
+      const loafs = (st.loafs || []).filter((f) => f.start + f.ms >= st.t0).map((f) =>
+        `${Math.round(f.ms)} ms at +${Math.round(f.start - st.t0)} (rendering ${Math.round(f.render)}, style+layout ${Math.round(f.layout)})`);
       const during = (st.longtasks || []).filter((t) => t.start + t.ms >= st.t0)
         .map((t) => ({ at: Math.round(t.start - st.t0), ms: Math.round(t.ms) }));
       let gap = 0;
@@ -85,6 +105,7 @@ try {
         progressShown: st.seen.filter((d) => d < Number(document.querySelector('[data-testid="field-log-progress"]').dataset.total)).length,
         longtasks: st.longtasks === null ? null : during.map((t) => t.ms),
         longtaskAt: during.map((t) => `${t.ms} ms at +${t.at}`),
+        loafs: st.loafs === null ? null : loafs,
       };
     });
     return { ...m, wall };
@@ -125,6 +146,7 @@ try {
     console.log(`  ${m.frames} animation frames while it ran, longest gap between frames ${r0(m.maxFrameGap)} ms; ` +
       `${m.progressShown} different progress counts shown before the end`);
     console.log(`  long tasks (≥ 50 ms): ${m.longtasks === null ? 'observer not supported' : `${lt.length}, longest ${lt.length ? Math.max(...lt) : 0} ms [${m.longtaskAt.join(', ')}]`}`);
+    console.log(`  long animation frames (≥ 50 ms): ${m.loafs === null ? 'observer not supported' : `${m.loafs.length} [${m.loafs.join('; ')}]`}`);
   }
 } finally {
   await s.close();

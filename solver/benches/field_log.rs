@@ -1,10 +1,10 @@
-//! Criterion benchmarks of field logs: 10,000 rows read, computed and written; one grid.
+//! Criterion benchmarks of field logs: 10,000 rows read, computed and written (and the compute step by both paths); one grid.
 #![allow(clippy::unwrap_used, clippy::expect_used, missing_docs)]
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use solver::field::{IonicSource, TotalUnit};
 use solver::field_limit::{Limit, LimitUnit};
-use solver::field_log::{run_log, LogOptions};
+use solver::field_log::{run_log, LogOptions, LogPlan};
 use solver::grid::{species_grid, GridSpec, Quantity};
 
 /// An invented logger export: 10,000 rows of pH, temperature, TAN, conductivity.
@@ -41,6 +41,20 @@ fn benches(cr: &mut Criterion) {
         "log: 10,000 rows, ammonia + limit, parse + compute + write",
         |b| b.iter(|| run_log(black_box(text.as_bytes()), &opts, &[], None).unwrap()),
     );
+    // The compute step alone, the two paths side by side (same plan, same load).
+    let plan = LogPlan::new(text.as_bytes(), &opts, &[], None).unwrap();
+    cr.bench_function(
+        "log compute only, 10,000 rows: one single reading per row (reference path)",
+        |b| b.iter(|| plan.compute_each(black_box(0..plan.len()))),
+    );
+    cr.bench_function(
+        "log compute only, 10,000 rows: constants kept per temperature (page and CLI path)",
+        |b| b.iter(|| plan.compute(black_box(0..plan.len()))),
+    );
+    let out = plan.compute(0..plan.len());
+    cr.bench_function("log write CSV only, 10,000 rows", |b| {
+        b.iter(|| plan.write_csv(black_box(&out)))
+    });
     let grid = GridSpec {
         system: "ammonium".into(),
         ph: (0..=60).map(|i| 6.0 + 0.05 * f64::from(i)).collect(),

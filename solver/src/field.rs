@@ -342,7 +342,13 @@ pub fn total_to_molar(system_id: &str, total: f64, unit: TotalUnit) -> Result<f6
         TotalUnit::UmolPerL => t / 1e6,
         TotalUnit::MgPerLAs => match reporting_bases(system_id).first() {
             None => t / 1000.0,
-            Some((_, f)) => t / 1000.0 / molar_mass(f)?,
+            Some((_, f)) => {
+                t / 1000.0
+                    / match basis_mass(f) {
+                        Some(m) => m,
+                        None => molar_mass(f)?,
+                    }
+            }
         },
         TotalUnit::MgPerLNh3
         | TotalUnit::MgPerLH2s
@@ -382,6 +388,119 @@ pub fn beyond_davies_warning(ionic: f64) -> String {
          trusted in (about {DAVIES_LIMIT} mol/L) and no seawater model is used: the fractions \
          are indicative only."
     )
+}
+
+/// What a [`FieldSample`] needs from the temperature alone: the system's
+/// thermodynamic pK values, Kw and the Debye–Hückel A. Logs keep these per
+/// distinct temperature ([`FieldCache`]) instead of redoing them per row;
+/// the numbers are the same either way.
+#[derive(Debug, Clone, PartialEq)]
+pub struct AtTemperature {
+    /// Temperature, °C (checked against 0–60 °C and the system's data).
+    pub temperature_c: f64,
+    /// Thermodynamic pK values at the temperature (I = 0).
+    pub pks: Vec<f64>,
+    acid: Acid,
+    kw: f64,
+    a_dh: f64,
+}
+
+impl AtTemperature {
+    /// A system's constants at a temperature.
+    ///
+    /// # Errors
+    ///
+    /// Temperature outside 0–60 °C or the system's data (field `temperature_c`).
+    pub fn new(sys: &AcidSystem, temperature_c: f64) -> Result<Self> {
+        let t = in_range("temperature_c", temperature_c, 0.0, 60.0)?;
+        let pks = system_pks(sys, t)?;
+        let a_dh = debye_huckel_a(t)?;
+        let acid = Acid::from_pks(sys.z0, &pks, 1.0);
+        let kw = 10f64.powf(-pkw(t)?);
+        Ok(Self {
+            temperature_c: t,
+            pks,
+            acid,
+            kw,
+            a_dh,
+        })
+    }
+
+    /// The sample at an ionic strength (Davies).
+    pub fn sample(&self, ionic_strength: f64) -> FieldSample {
+        FieldSample {
+            acid: self.acid,
+            kw: self.kw,
+            a_dh: self.a_dh,
+            gamma1: crate::activity::gamma1(ActivityModel::Davies, self.a_dh, ionic_strength),
+            ionic_strength,
+            model: PkModel::Davies,
+        }
+    }
+
+    /// The sample for an ionic-strength source whose ionic strength is
+    /// `ionic` (= [`ionic_from`] of it): the seawater ammonia model when the
+    /// source is a salinity in its range, Davies otherwise.
+    pub fn sample_for_source(
+        &self,
+        sys: &AcidSystem,
+        source: &IonicSource,
+        ionic: f64,
+    ) -> FieldSample {
+        let mut sample = self.sample(ionic);
+        if let SeawaterUse::Within(s) = seawater_use(&sys.id, source, self.temperature_c) {
+            sample.acid =
+                Acid::from_pks(sys.z0, &[pk_ammonium_seawater(self.temperature_c, s)], 1.0);
+            sample.gamma1 = 1.0;
+            sample.model = PkModel::CleggWhitfield1995;
+        }
+        sample
+    }
+}
+
+/// Most temperatures a [`FieldCache`] keeps (it starts afresh when full).
+const CACHE_TEMPERATURES: usize = 512;
+
+/// Temperature constants of one system, kept per distinct temperature (by
+/// its exact bits) across the readings of a log. Only successes are kept,
+/// so a bad row gives the same error as a single reading.
+#[derive(Debug, Clone, Default)]
+pub struct FieldCache {
+    system: String,
+    temperatures: Vec<(u64, AtTemperature)>,
+}
+
+impl FieldCache {
+    /// An empty cache.
+    pub fn new() -> Self {
+        Self::default()
+    }
+
+    fn at(&mut self, sys: &AcidSystem, temperature_c: f64) -> Result<&AtTemperature> {
+        if self.system != sys.id {
+            self.system.clone_from(&sys.id);
+            self.temperatures.clear();
+        }
+        let bits = temperature_c.to_bits();
+        let i = match self.temperatures.iter().position(|(b, _)| *b == bits) {
+            Some(i) => i,
+            None => {
+                let at = AtTemperature::new(sys, temperature_c)?;
+                if self.temperatures.len() >= CACHE_TEMPERATURES {
+                    self.temperatures.clear();
+                }
+                self.temperatures.push((bits, at));
+                self.temperatures.len() - 1
+            }
+        };
+        self.temperatures
+            .get(i)
+            .map(|(_, a)| a)
+            .ok_or_else(|| SolverError::Infeasible {
+                field: "temperature_c".into(),
+                reason: "internal: temperature cache".into(),
+            })
+    }
 }
 
 /// A field sample resolved at its temperature and ionic strength: what the
@@ -427,17 +546,7 @@ impl FieldSample {
     ///
     /// Temperature outside 0–60 °C or the system's data (field `temperature_c`).
     pub fn for_system(sys: &AcidSystem, temperature_c: f64, ionic_strength: f64) -> Result<Self> {
-        let t = in_range("temperature_c", temperature_c, 0.0, 60.0)?;
-        let pks = system_pks(sys, t)?;
-        let a_dh = debye_huckel_a(t)?;
-        Ok(Self {
-            acid: Acid::from_pks(sys.z0, &pks, 1.0),
-            kw: 10f64.powf(-pkw(t)?),
-            a_dh,
-            gamma1: crate::activity::gamma1(ActivityModel::Davies, a_dh, ionic_strength),
-            ionic_strength,
-            model: PkModel::Davies,
-        })
+        Ok(AtTemperature::new(sys, temperature_c)?.sample(ionic_strength))
     }
 
     /// Resolve a system at a temperature for an ionic-strength source: the
@@ -449,13 +558,8 @@ impl FieldSample {
     /// A bad source reading; temperature outside 0–60 °C or the system's data.
     pub fn for_source(sys: &AcidSystem, temperature_c: f64, source: &IonicSource) -> Result<Self> {
         let ionic = ionic_from(source)?;
-        let mut sample = Self::for_system(sys, temperature_c, ionic)?;
-        if let SeawaterUse::Within(s) = seawater_use(&sys.id, source, temperature_c) {
-            sample.acid = Acid::from_pks(sys.z0, &[pk_ammonium_seawater(temperature_c, s)], 1.0);
-            sample.gamma1 = 1.0;
-            sample.model = PkModel::CleggWhitfield1995;
-        }
-        Ok(sample)
+        let at = AtTemperature::new(sys, temperature_c)?;
+        Ok(at.sample_for_source(sys, source, ionic))
     }
 
     /// Apparent (concentration-scale) pK values at the sample's ionic
@@ -539,12 +643,42 @@ impl FieldSample {
 /// # Ok::<(), solver::SolverError>(())
 /// ```
 pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldResult> {
+    reading(spec, custom, None)
+}
+
+/// [`field_reading`] with the temperature constants kept in `cache` across
+/// calls (a log's rows): the same result, number for number.
+///
+/// # Errors
+///
+/// As [`field_reading`].
+pub fn field_reading_cached(
+    spec: &FieldSpec,
+    custom: &[AcidSystem],
+    cache: &mut FieldCache,
+) -> Result<FieldResult> {
+    reading(spec, custom, Some(cache))
+}
+
+fn reading(
+    spec: &FieldSpec,
+    custom: &[AcidSystem],
+    cache: Option<&mut FieldCache>,
+) -> Result<FieldResult> {
     validate_field(spec, custom)?;
     let ph = spec.ph;
     let ionic = ionic_from(&spec.ionic)?;
     let sys = lookup(&spec.system, custom)?;
     let (label, _) = reporting_basis(&sys.id);
-    let sample = FieldSample::for_source(sys, spec.temperature_c, &spec.ionic)?;
+    let fresh;
+    let at = match cache {
+        Some(c) => c.at(sys, spec.temperature_c)?,
+        None => {
+            fresh = AtTemperature::new(sys, spec.temperature_c)?;
+            &fresh
+        }
+    };
+    let sample = at.sample_for_source(sys, &spec.ionic, ionic);
     let mut warnings = Vec::new();
     let sea = seawater_use(&sys.id, &spec.ionic, spec.temperature_c);
     if let SeawaterUse::Within(s) = sea {
@@ -579,7 +713,7 @@ pub fn field_reading(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<FieldRes
         .filter_map(|(l, f)| basis_mass(f).map(|m| (*l, m)))
         .collect();
     let basis_mm = bases.first().map(|b| b.1);
-    let pks = system_pks(sys, spec.temperature_c)?;
+    let pks = at.pks.clone();
     let (fractions, n) = sample.fractions(ph);
     let species = fractions
         .iter()

@@ -235,7 +235,9 @@ pub fn evaluate_limit(
     let to_mg = |fraction: f64| total_m * fraction * mm * 1000.0;
     let value_mg_l = to_mg(sample.fraction(index, ph));
     let species = system.species.get(index).cloned().unwrap_or_default();
-    let rises = sample.fraction(index, 14.0) > sample.fraction(index, 0.0);
+    // The fraction at both ends of the range, worked out once (direction and crossing).
+    let (f0, f14) = (sample.fraction(index, 0.0), sample.fraction(index, 14.0));
+    let rises = f14 > f0;
     // Bisection on fraction − wanted over pH 0–14 (monotone).
     let wanted = if total_m > 0.0 {
         limit_mg_l / (total_m * mm * 1000.0)
@@ -243,7 +245,7 @@ pub fn evaluate_limit(
         f64::INFINITY
     };
     let crossing_ph = if wanted.is_finite() && wanted > 0.0 && wanted < 1.0 {
-        crossing(sample, index, wanted)
+        crossing(sample, index, wanted, (f0, f14))
     } else {
         None
     };
@@ -266,9 +268,10 @@ pub fn evaluate_limit(
 /// Monoprotic systems have the closed form `pH = pK' ± log10(f/(1 − f))`
 /// with the same apparent constant the speciation uses; others are solved
 /// by bisection (52 halvings of 0–14, below 1e−14 pH).
-fn crossing(sample: &FieldSample, index: usize, wanted: f64) -> Option<f64> {
+/// `ends` are the fractions at pH 0 and 14.
+fn crossing(sample: &FieldSample, index: usize, wanted: f64, ends: (f64, f64)) -> Option<f64> {
     let g = |p: f64| sample.fraction(index, p) - wanted;
-    let (g0, g14) = (g(0.0), g(14.0));
+    let (g0, g14) = (ends.0 - wanted, ends.1 - wanted);
     if g0 * g14 >= 0.0 {
         return None;
     }

@@ -28,7 +28,8 @@ use crate::csv::{
 };
 use crate::error::{Result, SolverError};
 use crate::field::{
-    field_reading, reporting_bases, target_species, FieldResult, FieldSpec, IonicSource, TotalUnit,
+    field_reading, field_reading_cached, reporting_bases, target_species, FieldCache, FieldResult,
+    FieldSpec, IonicSource, TotalUnit,
 };
 use crate::field_limit::Limit;
 use crate::mixture::lookup;
@@ -545,7 +546,28 @@ impl LogPlan {
     }
 
     /// Compute rows `range` (clamped to the table), in order.
+    ///
+    /// The system's constants are worked out once per distinct temperature
+    /// in the range ([`FieldCache`]); every row's result is the one
+    /// [`field_reading`] gives for [`LogPlan::spec_of`] that row, number for
+    /// number ([`LogPlan::compute_each`] is that reference path).
     pub fn compute(&self, range: Range<usize>) -> Vec<RowOutcome> {
+        let mut cache = FieldCache::new();
+        self.outcomes(range, |s| field_reading_cached(s, &self.custom, &mut cache))
+    }
+
+    /// Compute rows `range` one single reading at a time ([`field_reading`]
+    /// per row, nothing kept between rows): the reference the faster
+    /// [`LogPlan::compute`] is tested against.
+    pub fn compute_each(&self, range: Range<usize>) -> Vec<RowOutcome> {
+        self.outcomes(range, |s| field_reading(s, &self.custom))
+    }
+
+    fn outcomes(
+        &self,
+        range: Range<usize>,
+        mut read: impl FnMut(&FieldSpec) -> Result<FieldResult>,
+    ) -> Vec<RowOutcome> {
         let end = range.end.min(self.len());
         let start = range.start.min(end);
         self.table
@@ -562,7 +584,7 @@ impl LogPlan {
                     .map(|s| s.trim().to_string()),
                 result: self
                     .row_spec(&r.fields)
-                    .and_then(|s| field_reading(&s, &self.custom).map_err(|e| e.to_string())),
+                    .and_then(|s| read(&s).map_err(|e| e.to_string())),
             })
             .collect()
     }

@@ -584,7 +584,8 @@ fn total_unit_takes_the_trades_bases() {
             "mg-as-fish",
             "-",
         ],
-        Some(csv),
+        // Refused while reading the options, before any input: nothing to pipe in.
+        None,
     );
     assert_ne!(code, 0);
     assert!(err.contains("mg-nh3"), "{err}");

@@ -1,7 +1,12 @@
 //! A day's log in the field tab: paste or open a CSV, check the column mapping, compute every row in chunks, export.
 //!
-//! Rows are computed a time-budgeted chunk per animation frame, so a long
-//! log never freezes the page; progress shows as it goes. A file that is
+//! Rows are computed in time-budgeted slices: a slice keeps computing
+//! batches of rows until about [`SLICE_BUDGET_MS`] have passed, then gives
+//! the main thread back through a zero-delay message (not the next
+//! animation frame, so a slice follows as soon as the page has painted and
+//! handled input) and carries on; every [`FRAME_EVERY_MS`] or so it waits
+//! for a frame instead, so progress is painted. A small log finishes in its first slice;
+//! a long one never freezes the page, and progress shows as it goes. A file that is
 //! refused (binary, too big, no pH column) leaves the results already shown
 //! untouched.
 
@@ -17,10 +22,65 @@ use solver::system::AcidSystem;
 use wasm_bindgen::closure::Closure;
 use wasm_bindgen::JsCast;
 
-/// Rows per batch inside a frame.
-const BATCH: usize = 250;
-/// Work per animation frame, ms (the rest of the frame is left to the page).
-const FRAME_BUDGET_MS: f64 = 12.0;
+/// Rows per batch inside a slice (the clock is read between batches).
+const BATCH: usize = 100;
+/// Work per slice, ms, before the main thread is given back to the page.
+const SLICE_BUDGET_MS: f64 = 10.0;
+/// At least this long between frames (ms) while a log runs: after that the
+/// next slice waits for a frame, so progress is painted.
+const FRAME_EVERY_MS: f64 = 40.0;
+
+#[wasm_bindgen::prelude::wasm_bindgen]
+extern "C" {
+    type MessageChannel;
+    #[wasm_bindgen(constructor, catch)]
+    fn new() -> Result<MessageChannel, wasm_bindgen::JsValue>;
+    #[wasm_bindgen(method, getter)]
+    fn port1(this: &MessageChannel) -> MessagePort;
+    #[wasm_bindgen(method, getter)]
+    fn port2(this: &MessageChannel) -> MessagePort;
+
+    type MessagePort;
+    #[wasm_bindgen(method, setter)]
+    fn set_onmessage(this: &MessagePort, f: Option<&js_sys::Function>);
+    #[wasm_bindgen(method, js_name = postMessage)]
+    fn post_message(this: &MessagePort, msg: &wasm_bindgen::JsValue);
+}
+
+type Pending = std::cell::RefCell<Vec<Box<dyn FnOnce()>>>;
+
+thread_local! {
+    /// Work waiting for the next message, and the channel that delivers it.
+    static PENDING: Pending = const { std::cell::RefCell::new(Vec::new()) };
+    static CHANNEL: Option<(MessagePort, Closure<dyn FnMut()>)> = {
+        let ch = MessageChannel::new().ok()?;
+        let run = Closure::<dyn FnMut()>::new(|| {
+            let jobs = PENDING.with(|p| std::mem::take(&mut *p.borrow_mut()));
+            for job in jobs {
+                job();
+            }
+        });
+        ch.port1().set_onmessage(Some(run.as_ref().unchecked_ref()));
+        Some((ch.port2(), run))
+    };
+}
+
+/// Run `f` in a new task as soon as the page has had its turn (a zero-delay
+/// message: no 4 ms timer clamp, no wait for the next frame); a zero-delay
+/// timeout where message channels are missing.
+fn after_yield(f: impl FnOnce() + 'static) {
+    let posted = CHANNEL.with(|c| match c {
+        Some((port, _)) => {
+            PENDING.with(|p| p.borrow_mut().push(Box::new(f)));
+            port.post_message(&wasm_bindgen::JsValue::NULL);
+            None
+        }
+        None => Some(f),
+    });
+    if let Some(f) = posted {
+        set_timeout(f, std::time::Duration::ZERO);
+    }
+}
 
 /// Log options from the reading on the page: system, defaults, limit.
 pub fn options_from(spec: &FieldSpec, mapping: Vec<(Role, String)>) -> LogOptions {
@@ -43,6 +103,8 @@ struct Run {
     csv: StoredValue<String>,
     acc: StoredValue<LogSummary>,
     id: StoredValue<u64>,
+    /// When the page last had a frame during this run (ms, `Date.now()`).
+    painted: StoredValue<f64>,
     progress: RwSignal<(usize, usize)>,
     summary: RwSignal<Option<LogSummary>>,
     running: RwSignal<bool>,
@@ -57,7 +119,9 @@ impl Run {
         self.progress.set((0, plan.len()));
         self.plan.set_value(Some(plan));
         self.running.set(true);
-        request_animation_frame(move || self.step(id));
+        self.painted.set_value(js_sys::Date::now());
+        // The first slice right away: a small log is done before the page paints.
+        self.step(id);
     }
 
     fn step(self, id: u64) {
@@ -83,12 +147,21 @@ impl Run {
                     self.csv.update_value(|c| append_csv(c, &text));
                 }
             });
-            if js_sys::Date::now() - t0 > FRAME_BUDGET_MS {
+            if js_sys::Date::now() - t0 > SLICE_BUDGET_MS {
                 self.progress.set((end, total));
                 break;
             }
         }
-        request_animation_frame(move || self.step(id));
+        if js_sys::Date::now() - self.painted.get_value() >= FRAME_EVERY_MS {
+            // Chromium paints only now and then between back-to-back message tasks: wait for
+            // a frame (progress shown), then go on in a task after it.
+            request_animation_frame(move || {
+                self.painted.set_value(js_sys::Date::now());
+                after_yield(move || self.step(id));
+            });
+        } else {
+            after_yield(move || self.step(id));
+        }
     }
 }
 
@@ -134,6 +207,7 @@ pub fn DayLog(spec: Memo<FieldSpec>, custom: Memo<Vec<AcidSystem>>) -> impl Into
         csv: StoredValue::new(String::new()),
         acc: StoredValue::new(LogSummary::default()),
         id: StoredValue::new(0),
+        painted: StoredValue::new(0.0),
         progress: RwSignal::new((0, 0)),
         summary: RwSignal::new(None),
         running: RwSignal::new(false),

@@ -9,102 +9,21 @@
 //! precision (plotters rounds coordinates to integers, so drawing in CSS px
 //! under a 2× transform would put curve vertices on a 2-pixel grid).
 
+use super::backend::FastCanvas;
 use super::draw::Frame;
 use leptos::html::Canvas;
 use leptos::leptos_dom::helpers::WindowListenerHandle;
 use leptos::prelude::*;
 use plotters::coord::Shift;
 use plotters::prelude::*;
-use plotters_backend::{
-    BackendColor, BackendCoord, BackendStyle, BackendTextStyle, DrawingErrorKind,
-};
-use plotters_canvas::CanvasBackend;
 use std::cell::RefCell;
 use std::rc::Rc;
 use wasm_bindgen::closure::Closure;
 use wasm_bindgen::JsCast;
 use web_sys::{CanvasRenderingContext2d, HtmlCanvasElement, MediaQueryList, ResizeObserver};
 
-/// The plotters canvas backend, sized to the backing store (kept as a wrapper so
-/// the reported size is the one this module chose, whatever the element says).
-pub struct HiDpiCanvas {
-    inner: CanvasBackend,
-    size: (u32, u32),
-}
-
-type CanvasError = <CanvasBackend as DrawingBackend>::ErrorType;
-
-impl DrawingBackend for HiDpiCanvas {
-    type ErrorType = CanvasError;
-
-    fn get_size(&self) -> (u32, u32) {
-        self.size
-    }
-    fn ensure_prepared(&mut self) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.ensure_prepared()
-    }
-    fn present(&mut self) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.present()
-    }
-    fn draw_pixel(
-        &mut self,
-        point: BackendCoord,
-        color: BackendColor,
-    ) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.draw_pixel(point, color)
-    }
-    fn draw_line<S: BackendStyle>(
-        &mut self,
-        from: BackendCoord,
-        to: BackendCoord,
-        style: &S,
-    ) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.draw_line(from, to, style)
-    }
-    fn draw_rect<S: BackendStyle>(
-        &mut self,
-        upper_left: BackendCoord,
-        bottom_right: BackendCoord,
-        style: &S,
-        fill: bool,
-    ) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.draw_rect(upper_left, bottom_right, style, fill)
-    }
-    fn draw_path<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
-        &mut self,
-        path: I,
-        style: &S,
-    ) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.draw_path(path, style)
-    }
-    fn draw_circle<S: BackendStyle>(
-        &mut self,
-        center: BackendCoord,
-        radius: u32,
-        style: &S,
-        fill: bool,
-    ) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.draw_circle(center, radius, style, fill)
-    }
-    fn fill_polygon<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
-        &mut self,
-        vert: I,
-        style: &S,
-    ) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.fill_polygon(vert, style)
-    }
-    fn draw_text<TStyle: BackendTextStyle>(
-        &mut self,
-        text: &str,
-        style: &TStyle,
-        pos: BackendCoord,
-    ) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.draw_text(text, style, pos)
-    }
-}
-
 /// The drawing area the page's plots paint into.
-pub type CanvasArea = DrawingArea<HiDpiCanvas, Shift>;
+pub type CanvasArea = DrawingArea<FastCanvas, Shift>;
 
 /// CSS size and device pixel ratio of a canvas.
 #[derive(Debug, Clone, Copy, PartialEq, Default)]
@@ -166,10 +85,7 @@ where
     // Absolute transform (identity: one unit = one backing-store pixel), whatever was set before.
     ctx.set_transform(1.0, 0.0, 0.0, 1.0, 0.0, 0.0).ok()?;
     ctx.set_line_join("round");
-    let backend = HiDpiCanvas {
-        inner: CanvasBackend::with_canvas_object(canvas.clone())?,
-        size: (bw as u32, bh as u32),
-    };
+    let backend = FastCanvas::new(ctx, (bw as u32, bh as u32));
     let area = backend.into_drawing_area();
     let frame = paint(&area, bw / size.w);
     let _ = area.present();

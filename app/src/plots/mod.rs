@@ -4,7 +4,9 @@
 //! - [`draw`]: `draw_species`, `draw_capacity`, `draw_titration`, generic over the plotters backend,
 //!   so the page's canvas and the native SVG tests run the same code.
 //! - [`canvas`]: the `PlotCanvas` component (backing store = CSS size × devicePixelRatio).
+//! - [`backend`]: the plotters backend the canvas draws through (plotters-canvas's calls, batched).
 
+pub mod backend;
 pub mod canvas;
 pub mod data;
 pub mod draw;

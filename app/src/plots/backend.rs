@@ -5,11 +5,12 @@
 //! same colours, fonts, anchors), so the picture is the same; what changes is
 //! the cost of getting there:
 //!
-//! - A path of many points becomes one `Path2D` built from an SVG path string
-//!   and one `stroke`, instead of one `lineTo` call per point.
 //! - Consecutive strokes with the same colour and width that do not overlap
 //!   (the dashes of a dashed line, the grid's horizontal and vertical lines
-//!   at odd widths, which cover whole pixels) are stroked together as one path.
+//!   at odd widths, which cover whole pixels) are stroked together as one path
+//!   of several subpaths: one `stroke` and one style set instead of one each.
+//!   (Building a `Path2D` from SVG path text was tried and was slower: the
+//!   text formatting, its transfer and parsing cost more than the `lineTo` calls.)
 //! - Context state (stroke and fill colour, line width, font, text alignment
 //!   and baseline) is set only when it changes.
 //! - Text sizes (the legend's layout) are measured through the DOM as
@@ -23,23 +24,8 @@ use plotters_backend::{
 };
 use std::cell::RefCell;
 use std::collections::HashMap;
-use std::fmt::Write as _;
-use wasm_bindgen::prelude::*;
+use wasm_bindgen::JsValue;
 use web_sys::CanvasRenderingContext2d;
-
-#[wasm_bindgen]
-extern "C" {
-    /// The browser's `Path2D` (not among the web-sys features this crate enables).
-    #[wasm_bindgen(js_name = Path2D)]
-    type JsPath2d;
-    #[wasm_bindgen(constructor, js_class = "Path2D", catch)]
-    fn new_from_svg(d: &str) -> Result<JsPath2d, JsValue>;
-    /// The 2D context, for the `stroke(path)` overload.
-    type StrokeCtx;
-    /// `ctx.stroke(path)`.
-    #[wasm_bindgen(method, js_name = stroke)]
-    fn stroke_path2d(this: &StrokeCtx, path: &JsPath2d);
-}
 
 /// Error of a canvas call (the thrown value, as text).
 #[derive(Debug)]
@@ -119,8 +105,8 @@ pub fn measure_cached<S: BackendTextStyle>(
 struct Batch {
     color: BackendColor,
     width: u32,
-    /// SVG path data: one `M…L…` subpath per stroke.
-    d: String,
+    /// The strokes' points (canvas units), one list per stroke.
+    paths: Vec<Vec<(f64, f64)>>,
     /// Bounding boxes (device px, inclusive, widened by the half width) of the
     /// subpaths so far: a new stroke that touches one starts a new batch.
     boxes: Vec<(f64, f64, f64, f64)>,
@@ -183,17 +169,26 @@ impl FastCanvas {
             return Ok(());
         };
         self.set_stroke(b.color, b.width);
-        let path = JsPath2d::new_from_svg(&b.d).map_err(|e| js_err(&e))?;
-        self.ctx.unchecked_ref::<StrokeCtx>().stroke_path2d(&path);
+        self.ctx.begin_path();
+        for path in &b.paths {
+            let mut pts = path.iter();
+            if let Some((x, y)) = pts.next() {
+                self.ctx.move_to(*x, *y);
+            }
+            for (x, y) in pts {
+                self.ctx.line_to(*x, *y);
+            }
+        }
+        self.ctx.stroke();
         Ok(())
     }
 
     /// Add a stroke (points in canvas units) to the batch when it can join it
     /// without changing the picture; otherwise flush and start a new batch.
-    fn queue_stroke(&mut self, pts: &[(f64, f64)], color: BackendColor, width: u32, exact: bool) {
+    fn queue_stroke(&mut self, pts: Vec<(f64, f64)>, color: BackendColor, width: u32, exact: bool) {
         let half = f64::from(width) / 2.0 + 1.0;
         let (mut x0, mut y0, mut x1, mut y1) = (f64::MAX, f64::MAX, f64::MIN, f64::MIN);
-        for (x, y) in pts {
+        for (x, y) in &pts {
             x0 = x0.min(*x - half);
             y0 = y0.min(*y - half);
             x1 = x1.max(*x + half);
@@ -216,16 +211,14 @@ impl FastCanvas {
             self.batch = Some(Batch {
                 color,
                 width,
-                d: String::with_capacity(pts.len() * 12),
+                paths: Vec::new(),
                 boxes: Vec::new(),
                 pixel_exact: exact,
             });
         }
         if let Some(b) = self.batch.as_mut() {
             b.pixel_exact &= exact;
-            for (i, (x, y)) in pts.iter().enumerate() {
-                let _ = write!(b.d, "{}{} {}", if i == 0 { 'M' } else { 'L' }, x, y);
-            }
+            b.paths.push(pts);
             b.boxes.push(bb);
         }
     }
@@ -294,7 +287,7 @@ impl DrawingBackend for FastCanvas {
         let axis_aligned = from.0 == to.0 || from.1 == to.1;
         let (from, to) = fine_hor_ver_lines(from, to);
         let exact = axis_aligned && style.stroke_width() % 2 == 1;
-        self.queue_stroke(&[from, to], style.color(), style.stroke_width(), exact);
+        self.queue_stroke(vec![from, to], style.color(), style.stroke_width(), exact);
         Ok(())
     }
 
@@ -338,7 +331,7 @@ impl DrawingBackend for FastCanvas {
             .collect();
         // An empty or one-point path strokes nothing (butt caps).
         if pts.len() >= 2 {
-            self.queue_stroke(&pts, style.color(), style.stroke_width(), false);
+            self.queue_stroke(pts, style.color(), style.stroke_width(), false);
         }
         Ok(())
     }

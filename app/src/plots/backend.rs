@@ -9,6 +9,9 @@
 //!   (the dashes of a dashed line, the grid's horizontal and vertical lines
 //!   at odd widths, which cover whole pixels) are stroked together as one path
 //!   of several subpaths: one `stroke` and one style set instead of one each.
+//!   Measured: the canvases are byte-identical at DPR 1 and 2; at DPR 3 (odd
+//!   line widths, edges on half pixels) a few anti-aliased edge pixels of
+//!   batched dashes differ by 1 of 255 in one channel.
 //!   (Building a `Path2D` from SVG path text was tried and was slower: the
 //!   text formatting, its transfer and parsing cost more than the `lineTo` calls.)
 //! - Context state (stroke and fill colour, line width, font, text alignment
@@ -184,7 +187,8 @@ impl FastCanvas {
     }
 
     /// Add a stroke (points in canvas units) to the batch when it can join it
-    /// without changing the picture; otherwise flush and start a new batch.
+    /// (same colour and width, and no overlap unless both cover whole pixels);
+    /// otherwise flush and start a new batch.
     fn queue_stroke(&mut self, pts: Vec<(f64, f64)>, color: BackendColor, width: u32, exact: bool) {
         let half = f64::from(width) / 2.0 + 1.0;
         let (mut x0, mut y0, mut x1, mut y1) = (f64::MAX, f64::MAX, f64::MIN, f64::MIN);

@@ -1,11 +1,18 @@
 // Input-to-redraw timing of the species workspace plots (figures in app/PERF.md).
-// Usage, after a release build: node tests/perf/plots.mjs [dist-dir]   (default: dist/)
+// Usage, after a release build: node tests/perf/plots.mjs [dist-dir] [--throttled-only] [--runs=N]
+//   dist-dir default dist/; --throttled-only: only the 768×1024 DPR 2, CPU ×4 case;
+//   --runs=N: repeat the cases N times in one browser (median of each run printed).
 import { startServer } from '../e2e/server.mjs';
 import { launchChromium } from '../e2e/browser.mjs';
-const srv = await startServer({ root: process.argv[2] || new URL('../../dist', import.meta.url).pathname, port: 0 });
+const args = process.argv.slice(2);
+const dir = args.find(a => !a.startsWith('--'));
+const throttledOnly = args.includes('--throttled-only');
+const runs = Number((args.find(a => a.startsWith('--runs=')) || '--runs=1').slice(7));
+const srv = await startServer({ root: dir || new URL('../../dist', import.meta.url).pathname, port: 0 });
 const browser = await launchChromium();
 const results = {};
-for (const [w, h, dpr, throttle] of [[768, 1024, 2, 1], [1366, 768, 1, 1], [768, 1024, 2, 4]]) {
+const cases = throttledOnly ? [[768, 1024, 2, 4]] : [[768, 1024, 2, 1], [1366, 768, 1, 1], [768, 1024, 2, 4]];
+for (let run = 0; run < runs; run++) for (const [w, h, dpr, throttle] of cases) {
   const ctx = await browser.newContext({ viewport: { width: w, height: h }, deviceScaleFactor: dpr, serviceWorkers: 'block' });
   const page = await ctx.newPage();
   await page.goto(srv.url('/'));
@@ -24,17 +31,30 @@ for (const [w, h, dpr, throttle] of [[768, 1024, 2, 1], [1366, 768, 1, 1], [768,
       for (let i = 0; i < 2000 && !cs.every((c, j) => count(c) > before[j]); i++) await new Promise(r => setTimeout(r, 0));
       return Math.max(...cs.map(c => Number(c.dataset.drawnAt)));
     }
+    // Main-thread time of the browser's next frame (style, layout, paint, commit): from
+    // the animation-frame callback to a task queued in it, which runs after the frame.
+    const frameWork = () => new Promise(r => requestAnimationFrame(() => {
+      const t = performance.now();
+      setTimeout(() => r(performance.now() - t), 0);
+    }));
+    const plotsDiv = document.querySelector('.plots');
     const med = a => { const s = [...a].sort((x, y) => x - y); return +s[Math.floor(s.length / 2)].toFixed(2); };
     const p90 = a => { const s = [...a].sort((x, y) => x - y); return +s[Math.floor(s.length * 0.9)].toFixed(2); };
     const all = ['plot-species', 'plot-capacity', 'plot-titration'].map(q);
     const N = 41;
     // 1. plot source toggle: recomputes every curve from the design and redraws all three plots
-    const src = [];
+    const src = [], srcFrame = [], solve = [], paints = [], pre = [];
     for (let k = 0; k < N; k++) {
       const before = all.map(count);
       const t0 = performance.now();
       document.querySelector(k % 2 ? '[data-testid="plot-source-recipe"]' : '[data-testid="plot-source-mixture"]').click();
-      src.push(await waitDrawn(all, before) - t0);
+      const t = await waitDrawn(all, before) - t0;
+      src.push(t);
+      // Input → the first canvas starting to paint: event, reactive update, solver, other effects.
+      pre.push(Math.min(...all.map(c => Number(c.dataset.drawnAt) - Number(c.dataset.drawMs))) - t0);
+      srcFrame.push(t + await frameWork());
+      if (plotsDiv && plotsDiv.dataset.computeMs) solve.push(Number(plotsDiv.dataset.computeMs));
+      paints.push(all.reduce((a, c) => a + Number(c.dataset.drawMs), 0));
       await frame();
     }
     // 2. pointer move on the species plot: cursor + readout, redraws species and capacity plots
@@ -60,12 +80,16 @@ for (const [w, h, dpr, throttle] of [[768, 1024, 2, 1], [1366, 768, 1, 1], [768,
     }
     return {
       sourceToggle_allThree: { median: med(src), p90: p90(src) },
+      sourceToggle_withNextFrameWork: { median: med(srcFrame), p90: p90(srcFrame) },
+      sourceToggle_threePaints: { median: med(paints), p90: p90(paints) },
+      sourceToggle_beforeFirstPaint: { median: med(pre), p90: p90(pre) },
+      sourceToggle_solver: solve.length ? { median: med(solve), p90: p90(solve) } : 'not recorded by this build',
       pointerMove_speciesAndCapacity: { median: med(mv), p90: p90(mv) },
       quantityToggle_species: { median: med(qt), p90: p90(qt) },
       singleDrawMs: all.map(c => c.dataset.testid + ' ' + c.dataset.drawMs),
     };
   });
-  results[`${w}x${h} dpr ${dpr}${throttle > 1 ? ` cpu÷${throttle}` : ''}`] = r;
+  results[`${runs > 1 ? `run ${run + 1}: ` : ''}${w}x${h} dpr ${dpr}${throttle > 1 ? ` cpu÷${throttle}` : ''}`] = r;
   await ctx.close();
 }
 console.log(JSON.stringify(results, null, 1));

@@ -8,6 +8,11 @@
 //! margins are multiplied by it while curve vertices keep whole-device-pixel
 //! precision (plotters rounds coordinates to integers, so drawing in CSS px
 //! under a 2× transform would put curve vertices on a 2-pixel grid).
+//!
+//! Text sizes are remembered per text and font: plotters measures a label by
+//! putting a span in the page and reading its size, which forces a layout of
+//! the whole page each time (measured as most of a redraw's cost at ×4 CPU
+//! throttling, `app/PERF.md`).
 
 use super::draw::Frame;
 use leptos::html::Canvas;
@@ -20,6 +25,7 @@ use plotters_backend::{
 };
 use plotters_canvas::CanvasBackend;
 use std::cell::RefCell;
+use std::collections::HashMap;
 use std::rc::Rc;
 use wasm_bindgen::closure::Closure;
 use wasm_bindgen::JsCast;
@@ -101,6 +107,61 @@ impl DrawingBackend for HiDpiCanvas {
     ) -> Result<(), DrawingErrorKind<CanvasError>> {
         self.inner.draw_text(text, style, pos)
     }
+    fn estimate_text_size<TStyle: BackendTextStyle>(
+        &self,
+        text: &str,
+        style: &TStyle,
+    ) -> Result<(u32, u32), DrawingErrorKind<CanvasError>> {
+        measure_cached(text, style)
+    }
+}
+
+/// Key of one remembered text measurement: text, family, style, size.
+type MeasureKey = (String, String, String, u64);
+
+thread_local! {
+    static MEASURED: RefCell<HashMap<MeasureKey, (u32, u32)>> = RefCell::new(HashMap::new());
+}
+
+/// Most texts remembered; the table is emptied when full (labels with changing
+/// numbers would otherwise accumulate).
+const MEASURE_CAP: usize = 1024;
+
+/// Text size as plotters measures it in the browser (a span in the page),
+/// remembered per text, font family, style and size.
+///
+/// # Errors
+///
+/// The font's error.
+pub fn measure_cached<S: BackendTextStyle>(
+    text: &str,
+    style: &S,
+) -> Result<(u32, u32), DrawingErrorKind<CanvasError>> {
+    let key: MeasureKey = (
+        text.to_string(),
+        style.family().as_str().to_string(),
+        style.style().as_str().to_string(),
+        style.size().to_bits(),
+    );
+    if let Some(v) = MEASURED.with(|m| m.borrow().get(&key).copied()) {
+        return Ok(v);
+    }
+    // The same computation as plotters' default `estimate_text_size`.
+    let layout = style
+        .layout_box(text)
+        .map_err(|e| DrawingErrorKind::FontError(Box::new(e)))?;
+    let v = (
+        ((layout.1).0 - (layout.0).0) as u32,
+        ((layout.1).1 - (layout.0).1) as u32,
+    );
+    MEASURED.with(|m| {
+        let mut m = m.borrow_mut();
+        if m.len() >= MEASURE_CAP {
+            m.clear();
+        }
+        m.insert(key, v);
+    });
+    Ok(v)
 }
 
 /// The drawing area the page's plots paint into.

@@ -38,6 +38,12 @@ impl Cursor {
 
 type PlotResult = Result<PlotData, String>;
 
+fn now_ms() -> f64 {
+    web_sys::window()
+        .and_then(|w| w.performance())
+        .map_or(0.0, |p| p.now())
+}
+
 /// Paint one plot, or a short message when there is nothing to plot.
 fn paint_or_message(
     area: &CanvasArea,
@@ -124,8 +130,13 @@ fn context_text(d: &PlotData) -> String {
 pub fn SpeciesWorkspace() -> impl IntoView {
     let app = use_app();
     let source = Memo::new(move |_| app.design.with(data::source));
+    let compute_ms = RwSignal::new(0.0_f64);
     let plot: Memo<PlotResult> = Memo::new(move |_| {
-        source.with(|s| s.as_ref().map_err(Clone::clone).and_then(data::compute))
+        let t0 = now_ms();
+        let r = source.with(|s| s.as_ref().map_err(Clone::clone).and_then(data::compute));
+        // For the redraw measurement (tests/perf/plots.mjs): the solver's share.
+        compute_ms.set(now_ms() - t0);
+        r
     });
     let kind = Memo::new(move |_| app.design.with(|d| d.plot_source));
     let stale = Memo::new(move |_| {
@@ -137,6 +148,10 @@ pub fn SpeciesWorkspace() -> impl IntoView {
     });
     let quantity = RwSignal::new(Quantity::Fraction);
     let cursor = RwSignal::new(None::<Cursor>);
+    // Each plot follows only its own kind of cursor: a move on the titration plot
+    // leaves the species and capacity plots alone, and the other way round.
+    let cursor_ph = Memo::new(move |_| cursor.get().and_then(Cursor::ph));
+    let cursor_added = Memo::new(move |_| cursor.get().and_then(Cursor::added));
 
     let set_kind = move |k: PlotSource| {
         if app.design.with_untracked(|d| d.plot_source) != k {
@@ -172,7 +187,7 @@ pub fn SpeciesWorkspace() -> impl IntoView {
 
     let paint_species = move |area: &CanvasArea, scale: f64| {
         let q = quantity.get();
-        let c = cursor.get().and_then(Cursor::ph);
+        let c = cursor_ph.get();
         plot.with(|d| {
             paint_or_message(area, scale, d, |a, d| {
                 draw::draw_species(a, d, q, c, scale).ok()
@@ -180,7 +195,7 @@ pub fn SpeciesWorkspace() -> impl IntoView {
         })
     };
     let paint_capacity = move |area: &CanvasArea, scale: f64| {
-        let c = cursor.get().and_then(Cursor::ph);
+        let c = cursor_ph.get();
         plot.with(|d| {
             paint_or_message(area, scale, d, |a, d| {
                 draw::draw_capacity(a, d, c, scale).ok()
@@ -188,7 +203,7 @@ pub fn SpeciesWorkspace() -> impl IntoView {
         })
     };
     let paint_titration = move |area: &CanvasArea, scale: f64| {
-        let c = cursor.get().and_then(Cursor::added);
+        let c = cursor_added.get();
         plot.with(|d| {
             paint_or_message(area, scale, d, |a, d| {
                 draw::draw_titration(a, d, c, scale).ok()
@@ -300,7 +315,7 @@ pub fn SpeciesWorkspace() -> impl IntoView {
             <p class="plot-readout" data-testid="plot-readout" aria-live="polite">
                 {readout}
             </p>
-            <div class="plots">
+            <div class="plots" data-compute-ms=move || format!("{:.2}", compute_ms.get())>
                 <figure class="plot-figure plot-wide">
                     <figcaption>
                         <strong>"Species"</strong>

@@ -15,6 +15,7 @@ export const ARTIFACTS = join(ROOT, 'tests', 'artifacts');
 export const AXE_PATH = join(ROOT, 'tests', 'node_modules', 'axe-core', 'axe.min.js');
 
 export const VIEWPORTS = {
+  phone: { viewport: { width: 390, height: 844 }, deviceScaleFactor: 3, isMobile: true, hasTouch: true },
   tablet: { viewport: { width: 768, height: 1024 }, deviceScaleFactor: 2 },
   desktop: { viewport: { width: 1366, height: 768 }, deviceScaleFactor: 1 },
 };

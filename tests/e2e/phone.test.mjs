@@ -2,7 +2,7 @@
 // is on screen when the page opens and while the user edits an input further down.
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
-import { serveDist, openSession, waitForApp, screenshot } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, VIEWPORTS } from './harness.mjs';
 
 let srv;
 before(async () => {
@@ -12,7 +12,7 @@ after(async () => {
   await srv?.close();
 });
 
-const PHONE = { viewport: { width: 390, height: 844 }, deviceScaleFactor: 3, isMobile: true, hasTouch: true };
+const PHONE = VIEWPORTS.phone;
 
 async function answerInView(page) {
   return page.evaluate(() => {

@@ -8,7 +8,7 @@ import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { serveDist, openSession, waitForApp, screenshot, axeAudit, ARTIFACTS, tid } from './harness.mjs';
+import { serveDist, openSession, waitForApp, screenshot, axeAudit, ARTIFACTS, tid, VIEWPORTS } from './harness.mjs';
 
 /** What is in view (the editor is an overlay, which a full-page shot does not show whole). */
 async function viewShot(page, name) {
@@ -25,7 +25,7 @@ after(async () => {
   await srv?.close();
 });
 
-const PHONE = { viewport: { width: 390, height: 844 }, deviceScaleFactor: 3, isMobile: true, hasTouch: true };
+const PHONE = VIEWPORTS.phone;
 const b64url = (s) => Buffer.from(s, 'utf8').toString('base64url');
 const ws = (name) => `[data-testid="ws-${name}"]`;
 

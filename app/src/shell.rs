@@ -40,6 +40,7 @@ fn key_of(ws: Workspace) -> &'static str {
 pub fn App() -> impl IntoView {
     let state = AppState::new();
     provide_context(state);
+    state.after_first_paint();
     crate::designs::init(state);
     view! { <Shell /> }
 }

@@ -45,6 +45,12 @@ pub struct AppState {
     /// picked by hand (`Some(false)`); `None` right after a design is loaded,
     /// until the recipe workspace decides from the loaded forms.
     pub forms_follow: RwSignal<Option<bool>>,
+    /// False from the page's start until it has painted once: plots and the
+    /// print-only sheet wait for it, so the first frame shows the inputs and
+    /// the headline answer without their drawing and text measuring
+    /// (see [`AppState::after_first_paint`]). True wherever no page starts
+    /// (component tests, a state made on its own).
+    pub painted: RwSignal<bool>,
 }
 
 /// Where the field `id` of row `n` goes when row `removed` of the list with
@@ -85,7 +91,24 @@ impl AppState {
             decimal_comma: RwSignal::new(false),
             row_shift: StoredValue::new(None),
             forms_follow: RwSignal::new(None),
+            painted: RwSignal::new(true),
         }
+    }
+
+    /// Hold back the work that waits for the first paint ([`AppState::painted`])
+    /// until the browser has painted the page once: an animation frame, then a
+    /// zero-delay timer queued in it (it runs after that frame is painted).
+    pub fn after_first_paint(&self) {
+        let painted = self.painted;
+        painted.set(false);
+        request_animation_frame(move || {
+            set_timeout(
+                move || {
+                    let _ = painted.try_set(true);
+                },
+                std::time::Duration::ZERO,
+            );
+        });
     }
 
     /// Replace the whole design (load, import, share link) and tell inputs to re-read.

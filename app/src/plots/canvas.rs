@@ -338,7 +338,9 @@ where
         resize_listener.set_value(Some(window_event_listener(leptos::ev::resize, move |_| {
             on_window()
         })));
-        remeasure();
+        // No measuring here: reading the size now would force a layout of the
+        // page being built; the observer's first report (after the browser's
+        // own layout, before it paints) brings the size.
     });
     on_cleanup(move || {
         observer.update_value(|o| {
@@ -359,7 +361,12 @@ where
     });
 
     // Sync with the canvas: the only effect here.
+    // Nothing is drawn before the page's first paint (see `AppState::painted`).
+    let painted = use_context::<crate::state::AppState>().map(|a| a.painted);
     Effect::new(move |_| {
+        if painted.is_some_and(|p| !p.get()) {
+            return;
+        }
         let s = size.get();
         let Some(canvas) = canvas_ref.get() else {
             return;

@@ -53,8 +53,10 @@ pub(crate) fn RecipeChemistry(
     result: Memo<Result<RecipeResult, SolverError>>,
     pending: Memo<bool>,
 ) -> impl IntoView {
+    // Computed and drawn after the page's first paint (the headline answer first).
+    let painted = crate::state::use_app().painted;
     let plot = Memo::new(move |_| {
-        if pending.get() {
+        if pending.get() || !painted.get() {
             return None;
         }
         result.with(|r| {

@@ -95,13 +95,15 @@ pub(crate) fn share_link() -> Memo<String> {
     })
 }
 
-/// The solved recipe, or `None` while fields are marked or it has no solution.
+/// The solved recipe, or `None` while fields are marked or it has no solution
+/// (and before the page's first paint: the sheet is print-only).
 fn solved(
     spec: Memo<RecipeSpec>,
     result: Memo<Result<RecipeResult, SolverError>>,
     pending: Memo<bool>,
+    painted: RwSignal<bool>,
 ) -> Option<(RecipeSpec, RecipeResult)> {
-    if pending.get() {
+    if pending.get() || !painted.get() {
         return None;
     }
     Some((spec.get(), result.get().ok()?))
@@ -115,6 +117,7 @@ pub(crate) fn SheetTop(
     pending: Memo<bool>,
     link: Memo<String>,
 ) -> impl IntoView {
+    let painted = use_app().painted;
     // The code is made a moment after the design stops changing (about 15–40 ms
     // for a share link: not on every keystroke), and at once before printing.
     let qr: RwSignal<Option<(String, Result<QrSvg, String>)>> = RwSignal::new(None);
@@ -168,7 +171,7 @@ pub(crate) fn SheetTop(
         }
     };
     move || {
-        solved(spec, result, pending).map(|(s, r)| {
+        solved(spec, result, pending, painted).map(|(s, r)| {
             let (big, detail) = sheet_meter_text(&s, &r);
             view! {
                 <div class="print-only sheet-top" data-testid="recipe-sheet">
@@ -197,8 +200,9 @@ pub(crate) fn SheetFill(
     link: Memo<String>,
     no_cautions: Signal<bool>,
 ) -> impl IntoView {
+    let painted = use_app().painted;
     move || {
-        solved(spec, result, pending).map(|(_, r)| {
+        solved(spec, result, pending, painted).map(|(_, r)| {
             let lots = r
                 .ingredients
                 .iter()

@@ -177,10 +177,8 @@ pub fn parse_design(text: &str) -> Result<Design> {
 /// As [`parse_design`], except that the text is already JSON.
 pub fn parse_design_value(value: serde_json::Value) -> Result<Design> {
     let value = migrate(value)?;
-    let design: Design = serde_path_to_error::deserialize(&value).map_err(|e| {
-        let path = e.path().to_string();
-        serde_err(&path, &e.into_inner().to_string())
-    })?;
+    let design: Design =
+        crate::docpath::from_value(&value).map_err(|e| serde_err(&e.path(), &e.message))?;
     let back = serde_json::to_value(&design).unwrap_or(serde_json::Value::Null);
     if let Some(field) = extra_tagged_key(&value, &back, "") {
         return Err(doc_err(

@@ -6,6 +6,7 @@ pub mod carbonate_field;
 pub mod cli;
 pub mod csv;
 pub mod design;
+pub mod docpath;
 pub mod equilibrium;
 pub mod error;
 pub mod field;

@@ -275,10 +275,8 @@ pub fn parse_reagent(text: &str) -> Result<Reagent> {
             ))
         }
     }
-    let file: ReagentFile = serde_path_to_error::deserialize(&value).map_err(|e| {
-        let path = e.path().to_string();
-        crate::design::serde_err(&path, &e.into_inner().to_string())
-    })?;
+    let file: ReagentFile = crate::docpath::from_value(&value)
+        .map_err(|e| crate::design::serde_err(&e.path(), &e.message))?;
     let back = serde_json::to_value(&file).unwrap_or(serde_json::Value::Null);
     if let Some(field) = crate::design::extra_tagged_key(&value, &back, "") {
         return Err(file_err(

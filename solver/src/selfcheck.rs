@@ -418,7 +418,7 @@ fn field(system: &str, ph: f64, t_c: f64) -> Value {
 }
 
 fn from_json<T: serde::de::DeserializeOwned>(id: &str, v: &Value) -> Result<T> {
-    serde_json::from_value(v.clone()).map_err(|e| SolverError::Document {
+    crate::docpath::from_value(v).map_err(|e| SolverError::Document {
         field: format!("self_check.{id}"),
         reason: e.to_string(),
     })

@@ -1,0 +1,386 @@
+//! Reading a parsed JSON document into its typed form, naming where the first error is.
+//!
+//! [`from_value`] is serde's deserialisation from a [`serde_json::Value`] with
+//! one addition: an error carries the path of the value it is about
+//! (`recipe.salts[1].form`), built on the way out as the error passes each
+//! enclosing key and index. Paths read `key.key[index].key`; an error about a
+//! key itself (an unknown field) ends with that key. Errors raised inside an
+//! internally tagged object (one with a `kind`) stop at that object: serde
+//! reads such objects through its own buffer.
+//!
+//! One deserialiser for every document type keeps the page small: each
+//! derived `Deserialize` is instantiated once, for this deserialiser only.
+
+use serde::de::{
+    self, DeserializeOwned, DeserializeSeed, EnumAccess, MapAccess, SeqAccess, VariantAccess,
+    Visitor,
+};
+use serde::forward_to_deserialize_any;
+use serde_json::{Map, Value};
+use std::fmt;
+
+/// A deserialisation error with the path of the value it is about.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PathError {
+    /// What went wrong (serde's message).
+    pub message: String,
+    /// Segments from the innermost out (reversed while the error travels up).
+    segments: Vec<Segment>,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+enum Segment {
+    Key(String),
+    Index(usize),
+}
+
+impl PathError {
+    /// The path: `.` for the document itself, else `a.b[2].c`.
+    pub fn path(&self) -> String {
+        if self.segments.is_empty() {
+            return ".".into();
+        }
+        let mut out = String::new();
+        for s in self.segments.iter().rev() {
+            match s {
+                Segment::Key(k) => {
+                    if !out.is_empty() {
+                        out.push('.');
+                    }
+                    out.push_str(k);
+                }
+                Segment::Index(i) => {
+                    out.push('[');
+                    out.push_str(&i.to_string());
+                    out.push(']');
+                }
+            }
+        }
+        out
+    }
+
+    fn within(mut self, s: Segment) -> Self {
+        self.segments.push(s);
+        self
+    }
+}
+
+impl fmt::Display for PathError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(&self.message)
+    }
+}
+
+impl std::error::Error for PathError {}
+
+impl de::Error for PathError {
+    fn custom<T: fmt::Display>(msg: T) -> Self {
+        PathError {
+            message: msg.to_string(),
+            segments: Vec::new(),
+        }
+    }
+}
+
+/// Read `value` as a `T`.
+///
+/// # Errors
+///
+/// The first error serde meets, with its path ([`PathError::path`]).
+pub fn from_value<T: DeserializeOwned>(value: &Value) -> Result<T, PathError> {
+    T::deserialize(At(value))
+}
+
+/// A value being read.
+struct At<'a>(&'a Value);
+
+impl<'de> de::Deserializer<'de> for At<'de> {
+    type Error = PathError;
+
+    fn deserialize_any<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::Null => visitor.visit_unit(),
+            Value::Bool(b) => visitor.visit_bool(*b),
+            Value::Number(n) => {
+                if let Some(u) = n.as_u64() {
+                    visitor.visit_u64(u)
+                } else if let Some(i) = n.as_i64() {
+                    visitor.visit_i64(i)
+                } else {
+                    visitor.visit_f64(n.as_f64().unwrap_or(f64::NAN))
+                }
+            }
+            Value::String(s) => visitor.visit_borrowed_str(s),
+            Value::Array(items) => visitor.visit_seq(Items {
+                iter: items.iter(),
+                index: 0,
+            }),
+            Value::Object(map) => visitor.visit_map(Entries::new(map)),
+        }
+    }
+
+    fn deserialize_option<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::Null => visitor.visit_none(),
+            _ => visitor.visit_some(self),
+        }
+    }
+
+    fn deserialize_newtype_struct<V: Visitor<'de>>(
+        self,
+        _name: &'static str,
+        visitor: V,
+    ) -> Result<V::Value, PathError> {
+        visitor.visit_newtype_struct(self)
+    }
+
+    fn deserialize_enum<V: Visitor<'de>>(
+        self,
+        _name: &'static str,
+        _variants: &'static [&'static str],
+        visitor: V,
+    ) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::String(s) => visitor.visit_enum(Variant {
+                name: s,
+                content: None,
+            }),
+            Value::Object(map) if map.len() == 1 => match map.iter().next() {
+                Some((k, v)) => visitor
+                    .visit_enum(Variant {
+                        name: k,
+                        content: Some(v),
+                    })
+                    .map_err(|e| e.within(Segment::Key(k.clone()))),
+                None => Err(de::Error::custom(
+                    "empty object where a variant was expected",
+                )),
+            },
+            other => Err(de::Error::invalid_type(
+                unexpected(other),
+                &"a variant name",
+            )),
+        }
+    }
+
+    forward_to_deserialize_any! {
+        bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string
+        bytes byte_buf unit unit_struct seq tuple tuple_struct map struct
+        identifier ignored_any
+    }
+}
+
+fn unexpected(v: &Value) -> de::Unexpected<'_> {
+    match v {
+        Value::Null => de::Unexpected::Unit,
+        Value::Bool(b) => de::Unexpected::Bool(*b),
+        Value::Number(n) => de::Unexpected::Float(n.as_f64().unwrap_or(f64::NAN)),
+        Value::String(s) => de::Unexpected::Str(s),
+        Value::Array(_) => de::Unexpected::Seq,
+        Value::Object(_) => de::Unexpected::Map,
+    }
+}
+
+/// The elements of an array, each error marked with its index.
+struct Items<'a> {
+    iter: std::slice::Iter<'a, Value>,
+    index: usize,
+}
+
+impl<'de> SeqAccess<'de> for Items<'de> {
+    type Error = PathError;
+
+    fn next_element_seed<T: DeserializeSeed<'de>>(
+        &mut self,
+        seed: T,
+    ) -> Result<Option<T::Value>, PathError> {
+        let Some(v) = self.iter.next() else {
+            return Ok(None);
+        };
+        let i = self.index;
+        self.index += 1;
+        seed.deserialize(At(v))
+            .map(Some)
+            .map_err(|e| e.within(Segment::Index(i)))
+    }
+
+    fn size_hint(&self) -> Option<usize> {
+        Some(self.iter.len())
+    }
+}
+
+/// The entries of an object, each error marked with its key.
+struct Entries<'a> {
+    iter: serde_json::map::Iter<'a>,
+    current: Option<(&'a String, &'a Value)>,
+}
+
+impl<'a> Entries<'a> {
+    fn new(map: &'a Map<String, Value>) -> Self {
+        Entries {
+            iter: map.iter(),
+            current: None,
+        }
+    }
+}
+
+impl<'de> MapAccess<'de> for Entries<'de> {
+    type Error = PathError;
+
+    fn next_key_seed<K: DeserializeSeed<'de>>(
+        &mut self,
+        seed: K,
+    ) -> Result<Option<K::Value>, PathError> {
+        let Some((k, v)) = self.iter.next() else {
+            return Ok(None);
+        };
+        self.current = Some((k, v));
+        let key = de::value::BorrowedStrDeserializer::<PathError>::new(k.as_str());
+        seed.deserialize(key)
+            .map(Some)
+            .map_err(|e| e.within(Segment::Key(k.clone())))
+    }
+
+    fn next_value_seed<V: DeserializeSeed<'de>>(&mut self, seed: V) -> Result<V::Value, PathError> {
+        match self.current.take() {
+            Some((k, v)) => seed
+                .deserialize(At(v))
+                .map_err(|e| e.within(Segment::Key(k.clone()))),
+            None => Err(de::Error::custom("a value without its key")),
+        }
+    }
+
+    fn size_hint(&self) -> Option<usize> {
+        Some(self.iter.len())
+    }
+}
+
+/// An enum's variant: a name alone (`"davies"`) or a one-key object.
+struct Variant<'a> {
+    name: &'a str,
+    content: Option<&'a Value>,
+}
+
+impl<'de> EnumAccess<'de> for Variant<'de> {
+    type Error = PathError;
+    type Variant = Self;
+
+    fn variant_seed<V: DeserializeSeed<'de>>(self, seed: V) -> Result<(V::Value, Self), PathError> {
+        let name = de::value::BorrowedStrDeserializer::<PathError>::new(self.name);
+        Ok((seed.deserialize(name)?, self))
+    }
+}
+
+impl<'de> VariantAccess<'de> for Variant<'de> {
+    type Error = PathError;
+
+    fn unit_variant(self) -> Result<(), PathError> {
+        match self.content {
+            None | Some(Value::Null) => Ok(()),
+            Some(other) => Err(de::Error::invalid_type(unexpected(other), &"unit variant")),
+        }
+    }
+
+    fn newtype_variant_seed<T: DeserializeSeed<'de>>(self, seed: T) -> Result<T::Value, PathError> {
+        match self.content {
+            Some(v) => seed.deserialize(At(v)),
+            None => Err(de::Error::invalid_type(
+                de::Unexpected::UnitVariant,
+                &"newtype variant",
+            )),
+        }
+    }
+
+    fn tuple_variant<V: Visitor<'de>>(
+        self,
+        _len: usize,
+        visitor: V,
+    ) -> Result<V::Value, PathError> {
+        match self.content {
+            Some(v @ Value::Array(_)) => de::Deserializer::deserialize_any(At(v), visitor),
+            _ => Err(de::Error::invalid_type(
+                de::Unexpected::UnitVariant,
+                &"tuple variant",
+            )),
+        }
+    }
+
+    fn struct_variant<V: Visitor<'de>>(
+        self,
+        _fields: &'static [&'static str],
+        visitor: V,
+    ) -> Result<V::Value, PathError> {
+        match self.content {
+            Some(v @ Value::Object(_)) => de::Deserializer::deserialize_any(At(v), visitor),
+            _ => Err(de::Error::invalid_type(
+                de::Unexpected::UnitVariant,
+                &"struct variant",
+            )),
+        }
+    }
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)]
+mod tests {
+    use super::*;
+    use serde::Deserialize;
+    use serde_json::json;
+
+    #[derive(Debug, Deserialize, PartialEq)]
+    #[serde(deny_unknown_fields)]
+    struct Inner {
+        x: f64,
+        #[serde(default)]
+        tag: Option<Mode>,
+    }
+
+    #[derive(Debug, Deserialize, PartialEq)]
+    #[serde(rename_all = "snake_case")]
+    enum Mode {
+        Fast,
+        Slow,
+    }
+
+    #[derive(Debug, Deserialize, PartialEq)]
+    #[serde(deny_unknown_fields)]
+    struct Outer {
+        name: String,
+        items: Vec<Inner>,
+        count: u32,
+    }
+
+    #[test]
+    fn a_good_document_reads_as_serde_json_reads_it() {
+        let v = json!({"name": "a", "items": [{"x": 1}, {"x": 2.5, "tag": "slow"}], "count": 3});
+        let ours: Outer = from_value(&v).unwrap();
+        assert_eq!(ours.items[1].tag, Some(Mode::Slow));
+        assert_eq!(ours.items[0].x, 1.0);
+        assert_eq!(ours.name, "a");
+        assert_eq!(ours.count, 3);
+    }
+
+    #[test]
+    fn errors_name_their_path() {
+        let v = json!({"name": "a", "items": [{"x": 1}, {"x": "two"}], "count": 3});
+        let e = from_value::<Outer>(&v).unwrap_err();
+        assert_eq!(e.path(), "items[1].x");
+        assert!(e.message.starts_with("invalid type: string \"two\""), "{e}");
+        let v = json!({"name": "a", "items": [{"x": 1, "y": 2}], "count": 3});
+        let e = from_value::<Outer>(&v).unwrap_err();
+        assert_eq!(e.path(), "items[0].y");
+        assert!(e.message.starts_with("unknown field `y`"), "{e}");
+        let v = json!({"name": "a", "items": [{"x": 1, "tag": "medium"}], "count": 3});
+        let e = from_value::<Outer>(&v).unwrap_err();
+        assert_eq!(e.path(), "items[0].tag");
+        assert!(e.message.contains("unknown variant `medium`"), "{e}");
+        let v = json!({"name": "a", "items": [], "count": 1.5});
+        assert_eq!(from_value::<Outer>(&v).unwrap_err().path(), "count");
+        let v = json!({"items": []});
+        let e = from_value::<Outer>(&v).unwrap_err();
+        assert_eq!(e.path(), ".");
+        assert!(e.message.contains("missing field `name`"), "{e}");
+        let e = from_value::<Outer>(&json!("text")).unwrap_err();
+        assert_eq!(e.path(), ".");
+    }
+}

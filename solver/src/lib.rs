@@ -17,6 +17,7 @@ pub mod formula;
 pub mod grid;
 pub mod library;
 pub mod mixture;
+pub mod order;
 pub mod reagent;
 pub mod recipe;
 pub mod seawater;

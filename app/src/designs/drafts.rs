@@ -354,7 +354,9 @@ pub fn closed_drafts(
             Err(q) => bad.push(q),
         }
     }
-    out.sort_by(|a, b| b.stored.updated_ms.total_cmp(&a.stored.updated_ms));
+    solver::order::sort_by(&mut out, |a, b| {
+        b.stored.updated_ms.total_cmp(&a.stored.updated_ms)
+    });
     Ok((out, bad))
 }
 
@@ -416,7 +418,9 @@ pub fn set_aside(
             (t, k)
         })
         .collect();
-    all.sort_by(|a, b| b.0.total_cmp(&a.0).then_with(|| b.1.cmp(&a.1)));
+    solver::order::sort_by(&mut all, |a, b| {
+        b.0.total_cmp(&a.0).then_with(|| b.1.cmp(&a.1))
+    });
     for (_, k) in all.into_iter().skip(MAX_SET_ASIDE) {
         if k != key {
             let _ = kv.remove(&k);
@@ -452,7 +456,7 @@ pub fn list_set_aside(
             Err(q) => bad.push(q),
         }
     }
-    out.sort_by(|a, b| {
+    solver::order::sort_by(&mut out, |a, b| {
         b.stored
             .set_aside_ms
             .unwrap_or(0.0)

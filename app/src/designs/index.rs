@@ -184,7 +184,7 @@ pub(crate) fn quarantine(
 }
 
 pub(crate) fn sort_newest_first(designs: &mut [(String, Design)]) {
-    designs.sort_by(|(ia, a), (ib, b)| {
+    solver::order::sort_by(designs, |(ia, a), (ib, b)| {
         b.saved_at_ms
             .total_cmp(&a.saved_at_ms)
             .then_with(|| a.name.cmp(&b.name))
@@ -226,7 +226,7 @@ pub fn scan(kv: &mut dyn KvStore, repair: bool, now_ms: f64) -> Result<Scan, Sto
     };
     // Entries without an index line (a save interrupted between its two writes, or a lost index).
     let mut keys = kv.keys()?;
-    keys.sort();
+    solver::order::sort_by(&mut keys, Ord::cmp);
     for k in &keys {
         if let Some(id) = design_id_from_key(k) {
             if !ids.iter().any(|i| i == id) {

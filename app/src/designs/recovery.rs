@@ -196,7 +196,7 @@ pub fn list_recovery(
         .into_iter()
         .filter(|k| k.starts_with(QUARANTINE_PREFIX))
         .collect();
-    damaged.sort();
+    solver::order::sort_by(&mut damaged, Ord::cmp);
     for key in damaged {
         let id = key.trim_start_matches(QUARANTINE_PREFIX);
         let kind = EntryKind::of_quarantine_id(id);

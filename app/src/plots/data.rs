@@ -251,7 +251,7 @@ impl PlotData {
             .enumerate()
             .flat_map(|(k, s)| s.pks.iter().enumerate().map(move |(j, pk)| (k, j + 1, *pk)))
             .collect();
-        v.sort_by(|a, b| a.2.total_cmp(&b.2));
+        solver::order::sort_by(&mut v, |a, b| a.2.total_cmp(&b.2));
         v
     }
 

@@ -39,7 +39,7 @@ pub struct Shelf {
 pub fn read_shelf(kv: &mut dyn KvStore, repair: bool) -> Result<Shelf, StoreError> {
     let mut out = Shelf::default();
     let mut keys = kv.keys()?;
-    keys.sort();
+    solver::order::sort_by(&mut keys, Ord::cmp);
     for key in keys {
         let Some(id) = key.strip_prefix(SHELF_PREFIX) else {
             continue;
@@ -63,7 +63,9 @@ pub fn read_shelf(kv: &mut dyn KvStore, repair: bool) -> Result<Shelf, StoreErro
             }
         }
     }
-    out.reagents.sort_by_key(|a| a.1.name().to_lowercase());
+    solver::order::sort_by(&mut out.reagents, |a, b| {
+        a.1.name().to_lowercase().cmp(&b.1.name().to_lowercase())
+    });
     Ok(out)
 }
 

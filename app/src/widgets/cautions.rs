@@ -115,7 +115,7 @@ fn from_additive(a: Additive, out: &mut Vec<Caution>) {
 }
 
 fn tidy(mut v: Vec<Caution>) -> Vec<Caution> {
-    v.sort();
+    solver::order::sort_by(&mut v, Ord::cmp);
     v.dedup();
     v
 }

@@ -388,7 +388,7 @@ pub fn SystemPicker(
                         .and_then(|p| p.iter().map(|p| (p - x).abs()).reduce(f64::min))
                         .unwrap_or(f64::INFINITY)
                 };
-                found.sort_by(|a, b| gap(a).total_cmp(&gap(b)));
+                solver::order::sort_by(&mut found, |a, b| gap(a).total_cmp(&gap(b)));
             }
             let mut v: Vec<(String, String)> = found
                 .iter()

@@ -203,7 +203,7 @@ fn finish(
             }
         }
     }
-    rows.sort_by(|a, b| b.u_ph.total_cmp(&a.u_ph));
+    crate::order::sort_by(&mut rows, |a, b| b.u_ph.total_cmp(&a.u_ph));
     let notes = warnings.iter().map(UncertaintyWarning::text).collect();
     Uncertainty {
         u95_ph: COVERAGE_FACTOR * u,

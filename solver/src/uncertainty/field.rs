@@ -199,7 +199,7 @@ pub fn field_uncertainty(
                 0.0
             };
         }
-        budget.sort_by(|a, b| b.u_fraction.total_cmp(&a.u_fraction));
+        crate::order::sort_by(&mut budget, |a, b| b.u_fraction.total_cmp(&a.u_fraction));
         species.push(SpeciesUncertainty {
             name: sp.name.clone(),
             fraction: sp.fraction,

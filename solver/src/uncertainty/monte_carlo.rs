@@ -72,7 +72,7 @@ fn monte_carlo(model: &Model<'_>, draws: usize, seed: u64) -> Result<MonteCarlo>
     let n = out.len() as f64;
     let mean = out.iter().sum::<f64>() / n;
     let sd = (out.iter().map(|x| (x - mean) * (x - mean)).sum::<f64>() / (n - 1.0)).sqrt();
-    out.sort_by(f64::total_cmp);
+    crate::order::sort_by(&mut out, f64::total_cmp);
     let q = |p: f64| {
         let i = ((out.len() - 1) as f64 * p).round() as usize;
         out.get(i).copied().unwrap_or(f64::NAN)

@@ -260,7 +260,7 @@ pub fn recipe_table(data: &PlotData, marks: &Marks) -> Vec<TableRow> {
             }
         }
     }
-    picks.sort_by_key(|(i, _)| *i);
+    solver::order::sort_by(&mut picks, |a, b| a.0.cmp(&b.0));
     // Two marks on one grid point share a row.
     let mut rows: Vec<TableRow> = Vec::new();
     for (i, note) in picks {

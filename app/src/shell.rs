@@ -96,14 +96,17 @@ pub fn Shell() -> impl IntoView {
                     }
                 }}
             </main>
-            <Show when=move || !embed()>
+            // Below the workspace: built once the page has painted the answer.
+            <Show when=move || !embed() && app.painted.get()>
                 <div class="designs-area">
                     <DesignsPanel />
                 </div>
             </Show>
             <footer class="notes">
                 <ModelNote />
-                <crate::checks::EngineCheck />
+                <Show when=move || app.painted.get()>
+                    <crate::checks::EngineCheck />
+                </Show>
                 <p class="offline-note">
                     "Runs entirely in this browser and works offline; nothing you enter leaves the device."
                 </p>

@@ -170,7 +170,7 @@ pub struct Columns {
 
 fn tokens(header: &str) -> Vec<String> {
     header
-        .to_lowercase()
+        .to_ascii_lowercase()
         .split(|c: char| !c.is_alphanumeric())
         .filter(|t| !t.is_empty())
         .map(str::to_string)
@@ -180,7 +180,7 @@ fn tokens(header: &str) -> Vec<String> {
 /// The role a header name suggests, if any.
 pub fn guess_role(header: &str) -> Option<Role> {
     let t = tokens(header);
-    let raw = header.to_lowercase();
+    let raw = header.to_ascii_lowercase();
     let any = |f: &dyn Fn(&str) -> bool| t.iter().any(|s| f(s));
     let has = |w: &str| t.iter().any(|s| s == w);
     if any(&|s| s.starts_with("alk")) {
@@ -333,7 +333,7 @@ pub fn find_columns(header: &[String], mapping: &ColumnMapping) -> Result<Column
     };
     let raw = |i: Option<usize>| {
         i.and_then(|i| header.get(i))
-            .map(|h| h.to_lowercase())
+            .map(|h| h.to_ascii_lowercase())
             .unwrap_or_default()
     };
     let tt = toks(temperature);

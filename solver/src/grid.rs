@@ -178,10 +178,10 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
     }
     let index = match &spec.species {
         Some(name) => {
-            let want = ascii_name(name).to_lowercase();
+            let want = ascii_name(name).to_ascii_lowercase();
             sys.species
                 .iter()
-                .position(|s| ascii_name(s).to_lowercase() == want || s == name)
+                .position(|s| ascii_name(s).to_ascii_lowercase() == want || s == name)
                 .ok_or_else(|| SolverError::Unknown {
                     kind: format!(
                         "species of {} (one of {})",

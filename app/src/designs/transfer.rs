@@ -38,7 +38,7 @@ pub fn export_many(designs: &[Design]) -> String {
 /// A file name from a design name: `hatchery-lab-assay-buffer.bwdesign.json`.
 pub fn file_name(name: &str) -> String {
     let mut slug = String::new();
-    for c in name.chars().flat_map(char::to_lowercase) {
+    for c in name.chars().map(|c| c.to_ascii_lowercase()) {
         if c.is_ascii_alphanumeric() {
             slug.push(c);
         } else if !slug.is_empty() && !slug.ends_with('-') {

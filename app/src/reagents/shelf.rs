@@ -64,7 +64,9 @@ pub fn read_shelf(kv: &mut dyn KvStore, repair: bool) -> Result<Shelf, StoreErro
         }
     }
     solver::order::sort_by(&mut out.reagents, |a, b| {
-        a.1.name().to_lowercase().cmp(&b.1.name().to_lowercase())
+        a.1.name()
+            .to_ascii_lowercase()
+            .cmp(&b.1.name().to_ascii_lowercase())
     });
     Ok(out)
 }

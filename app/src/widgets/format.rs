@@ -478,7 +478,7 @@ pub fn error_field(e: &SolverError) -> Option<String> {
 fn capitalise(s: &str) -> String {
     let mut c = s.chars();
     match c.next() {
-        Some(f) => f.to_uppercase().collect::<String>() + c.as_str(),
+        Some(f) => f.to_ascii_uppercase().to_string() + c.as_str(),
         None => String::new(),
     }
 }

@@ -301,22 +301,25 @@ fn fmt_sig_fixed(v: f64, d: usize) -> String {
 }
 
 /// Does `sys` match a search text? Words match the name, id or species; a
-/// number matches systems with a pK within one unit of it at `t_c`.
+/// number matches systems with a pK within one unit of it at `t_c`. Case is
+/// ignored for ASCII letters (names and formulas are written in them).
 pub fn system_matches(sys: &AcidSystem, query: &str, t_c: f64) -> bool {
-    let q = query.trim().to_lowercase();
+    let q = query.trim().to_ascii_lowercase();
     if q.is_empty() {
         return true;
     }
     if let Ok(x) = crate::widgets::format::parse_number(&q) {
         return system_pks(sys, t_c).is_ok_and(|pks| pks.iter().any(|p| (p - x).abs() <= 1.0));
     }
-    sys.name.to_lowercase().contains(&q)
+    sys.name.to_ascii_lowercase().contains(&q)
         || sys.id.contains(&q)
-        || sys.species.iter().any(|s| s.to_lowercase().contains(&q))
         || sys
-            .forms
+            .species
             .iter()
-            .any(|f| f.name.to_lowercase().contains(&q) || f.formula.to_lowercase().contains(&q))
+            .any(|s| s.to_ascii_lowercase().contains(&q))
+        || sys.forms.iter().any(|f| {
+            f.name.to_ascii_lowercase().contains(&q) || f.formula.to_ascii_lowercase().contains(&q)
+        })
 }
 
 /// All systems the design can use: its custom ones (with any shelf forms the

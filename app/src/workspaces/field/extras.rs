@@ -201,7 +201,7 @@ pub fn LimitInputs(
             <div class="field-limit-inputs" data-testid="field-limit-inputs">
                 <Choice
                     name="field-limit-unit"
-                    legend=format!("Your limit for {}", why.to_lowercase())
+                    legend=format!("Your limit for {}", why.to_ascii_lowercase())
                     options=options
                     selected=selected
                     on_change=on_change

@@ -9,10 +9,11 @@
 //! precision (plotters rounds coordinates to integers, so drawing in CSS px
 //! under a 2× transform would put curve vertices on a 2-pixel grid).
 //!
-//! Text sizes are remembered per text and font: plotters measures a label by
-//! putting a span in the page and reading its size, which forces a layout of
-//! the whole page each time (measured as most of a redraw's cost at ×4 CPU
-//! throttling, `app/PERF.md`).
+//! Text sizes are measured on a detached canvas (`measureText`) and
+//! remembered per text and font: plotters measures a label by putting a span
+//! in the page and reading its size, which forces a layout of the whole page
+//! each time (measured as most of a redraw's cost at ×4 CPU throttling,
+//! `app/PERF.md`); the canvas gives the same numbers without a layout.
 
 use super::draw::Frame;
 use leptos::html::Canvas;
@@ -146,14 +147,19 @@ pub fn measure_cached<S: BackendTextStyle>(
     if let Some(v) = MEASURED.with(|m| m.borrow().get(&key).copied()) {
         return Ok(v);
     }
-    // The same computation as plotters' default `estimate_text_size`.
-    let layout = style
-        .layout_box(text)
-        .map_err(|e| DrawingErrorKind::FontError(Box::new(e)))?;
-    let v = (
-        ((layout.1).0 - (layout.0).0) as u32,
-        ((layout.1).1 - (layout.0).1) as u32,
-    );
+    let v = match measure_on_canvas(text, &key) {
+        Some(v) => v,
+        None => {
+            // plotters' own way (a span in the page), where no 2D context exists.
+            let layout = style
+                .layout_box(text)
+                .map_err(|e| DrawingErrorKind::FontError(Box::new(e)))?;
+            (
+                ((layout.1).0 - (layout.0).0) as u32,
+                ((layout.1).1 - (layout.0).1) as u32,
+            )
+        }
+    };
     MEASURED.with(|m| {
         let mut m = m.borrow_mut();
         if m.len() >= MEASURE_CAP {
@@ -162,6 +168,44 @@ pub fn measure_cached<S: BackendTextStyle>(
         m.insert(key, v);
     });
     Ok(v)
+}
+
+/// Line height of the page's text (`body` in `style.css`): plotters' span
+/// measurement gives a text the height of one line of the page.
+const PAGE_LINE_HEIGHT: f64 = 1.45;
+
+thread_local! {
+    /// A detached canvas whose 2D context measures text (no page layout needed).
+    static MEASURER: Option<CanvasRenderingContext2d> = web_sys::window()
+        .and_then(|w| w.document())
+        .and_then(|d| d.create_element("canvas").ok())
+        .and_then(|c| c.dyn_into::<HtmlCanvasElement>().ok())
+        .and_then(|c| c.get_context("2d").ok().flatten())
+        .and_then(|c| c.dyn_into::<CanvasRenderingContext2d>().ok());
+}
+
+/// The size plotters' span measurement reports (`inline-block`, the text's
+/// advance width rounded to a pixel, one page line high), from the canvas's
+/// `measureText`: the same numbers without laying out the page.
+fn measure_on_canvas(text: &str, key: &MeasureKey) -> Option<(u32, u32)> {
+    let (_, family, style, size_bits) = key;
+    let size = f64::from_bits(*size_bits);
+    // The span took CSS `font-style`, where plotters' "bold" means nothing.
+    let style = if style == "italic" || style == "oblique" {
+        style.as_str()
+    } else {
+        "normal"
+    };
+    MEASURER.with(|m| {
+        let ctx = m.as_ref()?;
+        ctx.set_font(&format!("{style} {size}px {family}"));
+        let width = ctx.measure_text(text).ok()?.width();
+        // Layout keeps sizes in 1/64 px, a text's width rounded up to one,
+        // and `offsetWidth` then rounds to a pixel: checked equal to the span
+        // for 200 labels, sizes and families at pixel ratios 1–3 (app/PERF.md).
+        let width = ((width * 64.0).ceil() / 64.0).round();
+        Some((width as u32, (size * PAGE_LINE_HEIGHT).round() as u32))
+    })
 }
 
 /// The drawing area the page's plots paint into.

@@ -51,3 +51,32 @@ for (const [ws, lastInput, pattern] of [
     }
   });
 }
+
+// The plot legends fit their canvas on a phone: a legend entry too wide for one row moves to the
+// next row instead of running off the right edge. (Labels used to be measured in a span in the
+// page, whose width the 390 px viewport capped, so a long entry was thought to fit and was cut.)
+test('phone: no plot legend runs off the right edge of its canvas', async () => {
+  const s = await openSession({ allowedOrigin: srv.origin, view: 'tablet', contextOptions: PHONE });
+  try {
+    const page = await s.newPage();
+    await page.goto(srv.url('/?ws=species'));
+    await waitForApp(page);
+    await page.waitForSelector('canvas[data-testid="plot-titration"][data-draw-count]');
+    for (const id of ['plot-species', 'plot-capacity', 'plot-titration']) {
+      // Ink in the last two device-pixel columns of the top quarter (the legend's rows).
+      const ink = await page.evaluate((id) => {
+        const c = document.querySelector(`canvas[data-testid="${id}"]`);
+        const h = Math.floor(c.height / 4);
+        const px = c.getContext('2d').getImageData(c.width - 2, 0, 2, h).data;
+        let dark = 0;
+        for (let i = 0; i < px.length; i += 4) if (px[i + 3] > 0 && px[i] + px[i + 1] + px[i + 2] < 384) dark++;
+        return dark;
+      }, id);
+      assert.equal(ink, 0, `${id}: ${ink} dark pixels at the right edge of the legend rows`);
+    }
+    await screenshot(page, 'phone-species-legends');
+    s.assertClean('phone legends');
+  } finally {
+    await s.close();
+  }
+});

@@ -34,9 +34,58 @@ use web_sys::{CanvasRenderingContext2d, HtmlCanvasElement, MediaQueryList, Resiz
 
 /// The plotters canvas backend, sized to the backing store (kept as a wrapper so
 /// the reported size is the one this module chose, whatever the element says).
+///
+/// Straight lines in one opaque colour and width that come one after another
+/// (grid lines, ticks, the dashes of a dashed line) are stroked as one path:
+/// plotters-canvas sets the colour and width and strokes each line on its own,
+/// several calls into the browser for each of a plot's hundreds of lines. The
+/// lines are the same ones plotters-canvas would stroke (the same half-pixel
+/// shift of horizontal and vertical lines); where two of them cross, the
+/// anti-aliased edge may differ by a shade. Everything else goes to
+/// plotters-canvas, after the lines waiting.
 pub struct HiDpiCanvas {
     inner: CanvasBackend,
     size: (u32, u32),
+    ctx: CanvasRenderingContext2d,
+    lines: Vec<((f64, f64), (f64, f64))>,
+    line_style: Option<((u8, u8, u8), u32)>,
+}
+
+impl HiDpiCanvas {
+    /// Stroke the lines waiting, if any, as one path.
+    fn flush_lines(&mut self) {
+        let Some(((r, g, b), width)) = self.line_style else {
+            return;
+        };
+        if !self.lines.is_empty() {
+            self.ctx
+                .set_stroke_style_str(&format!("rgba({r},{g},{b},1)"));
+            self.ctx.set_line_width(f64::from(width));
+            self.ctx.begin_path();
+            for (from, to) in self.lines.drain(..) {
+                self.ctx.move_to(from.0, from.1);
+                self.ctx.line_to(to.0, to.1);
+            }
+            self.ctx.stroke();
+        }
+        self.line_style = None;
+    }
+}
+
+/// A line's ends as plotters-canvas strokes them: horizontal and vertical
+/// lines move half a pixel so a one-pixel line covers one pixel row or column.
+fn stroked_ends(from: BackendCoord, to: BackendCoord) -> ((f64, f64), (f64, f64)) {
+    let mut a = (f64::from(from.0), f64::from(from.1));
+    let mut b = (f64::from(to.0), f64::from(to.1));
+    if from.0 == to.0 {
+        a.0 -= 0.5;
+        b.0 -= 0.5;
+    }
+    if from.1 == to.1 {
+        a.1 -= 0.5;
+        b.1 -= 0.5;
+    }
+    (a, b)
 }
 
 type CanvasError = <CanvasBackend as DrawingBackend>::ErrorType;
@@ -48,9 +97,11 @@ impl DrawingBackend for HiDpiCanvas {
         self.size
     }
     fn ensure_prepared(&mut self) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.flush_lines();
         self.inner.ensure_prepared()
     }
     fn present(&mut self) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.flush_lines();
         self.inner.present()
     }
     fn draw_pixel(
@@ -58,6 +109,7 @@ impl DrawingBackend for HiDpiCanvas {
         point: BackendCoord,
         color: BackendColor,
     ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.flush_lines();
         self.inner.draw_pixel(point, color)
     }
     fn draw_line<S: BackendStyle>(
@@ -66,7 +118,19 @@ impl DrawingBackend for HiDpiCanvas {
         to: BackendCoord,
         style: &S,
     ) -> Result<(), DrawingErrorKind<CanvasError>> {
-        self.inner.draw_line(from, to, style)
+        let color = style.color();
+        if color.alpha < 1.0 {
+            // Translucent lines blend where they cross: one stroke each, as before.
+            self.flush_lines();
+            return self.inner.draw_line(from, to, style);
+        }
+        let key = (color.rgb, style.stroke_width());
+        if self.line_style != Some(key) {
+            self.flush_lines();
+            self.line_style = Some(key);
+        }
+        self.lines.push(stroked_ends(from, to));
+        Ok(())
     }
     fn draw_rect<S: BackendStyle>(
         &mut self,
@@ -75,6 +139,7 @@ impl DrawingBackend for HiDpiCanvas {
         style: &S,
         fill: bool,
     ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.flush_lines();
         self.inner.draw_rect(upper_left, bottom_right, style, fill)
     }
     fn draw_path<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
@@ -82,6 +147,7 @@ impl DrawingBackend for HiDpiCanvas {
         path: I,
         style: &S,
     ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.flush_lines();
         self.inner.draw_path(path, style)
     }
     fn draw_circle<S: BackendStyle>(
@@ -91,6 +157,7 @@ impl DrawingBackend for HiDpiCanvas {
         style: &S,
         fill: bool,
     ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.flush_lines();
         self.inner.draw_circle(center, radius, style, fill)
     }
     fn fill_polygon<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
@@ -98,6 +165,7 @@ impl DrawingBackend for HiDpiCanvas {
         vert: I,
         style: &S,
     ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.flush_lines();
         self.inner.fill_polygon(vert, style)
     }
     fn draw_text<TStyle: BackendTextStyle>(
@@ -106,6 +174,7 @@ impl DrawingBackend for HiDpiCanvas {
         style: &TStyle,
         pos: BackendCoord,
     ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.flush_lines();
         self.inner.draw_text(text, style, pos)
     }
     fn estimate_text_size<TStyle: BackendTextStyle>(
@@ -274,6 +343,9 @@ where
     let backend = HiDpiCanvas {
         inner: CanvasBackend::with_canvas_object(canvas.clone())?,
         size: (bw as u32, bh as u32),
+        ctx,
+        lines: Vec::new(),
+        line_style: None,
     };
     let area = backend.into_drawing_area();
     let frame = paint(&area, bw / size.w);

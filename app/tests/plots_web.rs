@@ -155,3 +155,78 @@ async fn a_recipe_without_solution_shows_the_reason() {
         .unwrap();
     assert!(label.starts_with("No plot"), "{label}");
 }
+
+/// A chart with a grid, ticks, a dashed line, a curve and text, drawn by `backend`.
+fn draw_test_chart<DB: plotters::prelude::DrawingBackend>(backend: DB) {
+    use plotters::prelude::*;
+    let root = backend.into_drawing_area();
+    root.fill(&WHITE).unwrap();
+    let mut chart = ChartBuilder::on(&root)
+        .margin(20)
+        .x_label_area_size(40)
+        .y_label_area_size(50)
+        .build_cartesian_2d(0.0..14.0, 0.0..1.0)
+        .unwrap();
+    chart
+        .configure_mesh()
+        .bold_line_style(RGBColor(0xe3, 0xe7, 0xeb))
+        .light_line_style(TRANSPARENT)
+        .x_desc("pH")
+        .draw()
+        .unwrap();
+    chart
+        .draw_series(DashedLineSeries::new(
+            vec![(7.2, 0.0), (7.2, 1.0)],
+            10,
+            8,
+            RGBColor(0x5f, 0x66, 0x70).stroke_width(2),
+        ))
+        .unwrap();
+    chart
+        .draw_series(LineSeries::new(
+            (0..=140).map(|i| {
+                let x = f64::from(i) / 10.0;
+                (x, 1.0 / (1.0 + 10f64.powf(x - 7.2)))
+            }),
+            RGBColor(0x0f, 0x6e, 0x75).stroke_width(3),
+        ))
+        .unwrap();
+    chart
+        .draw_series(std::iter::once(PathElement::new(
+            vec![(3.0, 0.2), (11.0, 0.2)],
+            RGBColor(0, 0, 0).mix(0.5).stroke_width(2),
+        )))
+        .unwrap();
+    root.present().unwrap();
+}
+
+fn pixels(c: &HtmlCanvasElement) -> Vec<u8> {
+    let ctx: web_sys::CanvasRenderingContext2d =
+        c.get_context("2d").unwrap().unwrap().unchecked_into();
+    ctx.get_image_data(0.0, 0.0, f64::from(c.width()), f64::from(c.height()))
+        .unwrap()
+        .data()
+        .0
+}
+
+/// The page's wrapper strokes runs of same-style lines as one path: the pixels
+/// are those plotters-canvas gives drawing each line on its own.
+#[wasm_bindgen_test]
+fn batched_lines_draw_the_same_pixels_as_plotters_canvas() {
+    let doc = document();
+    let make = || {
+        let c: HtmlCanvasElement = doc.create_element("canvas").unwrap().unchecked_into();
+        c.set_width(900);
+        c.set_height(600);
+        c
+    };
+    let (ours, theirs) = (make(), make());
+    draw_test_chart(app::plots::canvas::HiDpiCanvas::new(&ours).unwrap());
+    draw_test_chart(plotters_canvas::CanvasBackend::with_canvas_object(theirs.clone()).unwrap());
+    let (a, b) = (pixels(&ours), pixels(&theirs));
+    assert_eq!(a.len(), b.len());
+    let differing = a.iter().zip(&b).filter(|(x, y)| x != y).count();
+    assert_eq!(differing, 0, "{differing} channel values differ");
+    // The chart drew something (grid, curve and text are there).
+    assert!(a.chunks(4).filter(|p| p[0] < 128).count() > 1000);
+}

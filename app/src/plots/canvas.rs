@@ -52,6 +52,18 @@ pub struct HiDpiCanvas {
 }
 
 impl HiDpiCanvas {
+    /// The backend of `canvas` at its current backing-store size.
+    pub fn new(canvas: &HtmlCanvasElement) -> Option<Self> {
+        let ctx: CanvasRenderingContext2d = canvas.get_context("2d").ok()??.dyn_into().ok()?;
+        Some(HiDpiCanvas {
+            inner: CanvasBackend::with_canvas_object(canvas.clone())?,
+            size: (canvas.width(), canvas.height()),
+            ctx,
+            lines: Vec::new(),
+            line_style: None,
+        })
+    }
+
     /// Stroke the lines waiting, if any, as one path.
     fn flush_lines(&mut self) {
         let Some(((r, g, b), width)) = self.line_style else {
@@ -340,13 +352,7 @@ where
     // Absolute transform (identity: one unit = one backing-store pixel), whatever was set before.
     ctx.set_transform(1.0, 0.0, 0.0, 1.0, 0.0, 0.0).ok()?;
     ctx.set_line_join("round");
-    let backend = HiDpiCanvas {
-        inner: CanvasBackend::with_canvas_object(canvas.clone())?,
-        size: (bw as u32, bh as u32),
-        ctx,
-        lines: Vec::new(),
-        line_style: None,
-    };
+    let backend = HiDpiCanvas::new(canvas)?;
     let area = backend.into_drawing_area();
     let frame = paint(&area, bw / size.w);
     let _ = area.present();

@@ -321,7 +321,7 @@ impl<'de> VariantAccess<'de> for Variant<'de> {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used)]
+#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use serde::Deserialize;

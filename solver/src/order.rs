@@ -50,7 +50,7 @@ mod tests {
             let mut ours: Vec<(u8, usize)> = keys.iter().copied().zip(0..).collect();
             let mut std_sorted = ours.clone();
             sort_by(&mut ours, |a, b| a.0.cmp(&b.0));
-            std_sorted.sort_by(|a, b| a.0.cmp(&b.0));
+            std_sorted.sort_by_key(|a| a.0);
             prop_assert_eq!(ours, std_sorted);
         }
     }

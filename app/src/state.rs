@@ -51,6 +51,16 @@ pub struct AppState {
     /// (see [`AppState::after_first_paint`]). True wherever no page starts
     /// (component tests, a state made on its own).
     pub painted: RwSignal<bool>,
+    /// What was typed into the reagent editor when it was closed without
+    /// adding the reagent: kept for the page's life (across tabs and both
+    /// pickers) until the user continues or discards it. One at a time:
+    /// (what is typed, what the editor opened with).
+    pub unfinished_reagent: RwSignal<
+        Option<(
+            crate::reagents::model::EditorModel,
+            crate::reagents::model::EditorModel,
+        )>,
+    >,
 }
 
 /// Where the field `id` of row `n` goes when row `removed` of the list with
@@ -92,6 +102,7 @@ impl AppState {
             row_shift: StoredValue::new(None),
             forms_follow: RwSignal::new(None),
             painted: RwSignal::new(true),
+            unfinished_reagent: RwSignal::new(None),
         }
     }
 

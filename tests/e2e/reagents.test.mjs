@@ -333,3 +333,44 @@ test('a shelf form of your own for a library system: potassium HEPES weighed in 
     await s.close();
   }
 });
+
+test('closing the reagent editor keeps what was typed until it is continued or discarded', async () => {
+  const s = await openSession({ allowedOrigin: srv.origin, view: 'desktop' });
+  try {
+    const page = await s.newPage();
+    await page.goto(srv.url('/?ws=recipe'));
+    await waitForApp(page);
+    const panel = await openRecipePanel(page);
+    await page.click(tid('rg-new'));
+    await page.fill('#rg-name', 'Half-typed citrate');
+    await page.fill('#rg-step-0-pk', '3,13');
+    await page.click(tid('rg-close'));
+    // Kept, said so, and not lost by a trip to another workspace and back.
+    await panel.locator(tid('rg-unfinished')).waitFor();
+    assert.match(await panel.locator(tid('rg-unfinished')).textContent(), /Half-typed citrate/);
+    await page.click(tid('tab-field'));
+    await page.click(tid('tab-recipe'));
+    const again = await openRecipePanel(page);
+    assert.match(await again.locator(tid('rg-unfinished')).textContent(), /Half-typed citrate/);
+    // Another editor does not open over it: one unfinished reagent at a time, never replaced.
+    await again.locator(tid('rg-new')).click();
+    assert.equal(await page.locator('#rg-name').count(), 0);
+    assert.match(await again.locator(tid('rg-notice')).textContent(), /unfinished/);
+    // Continue brings the typed text back.
+    await again.locator(tid('rg-continue')).click();
+    assert.equal(await page.inputValue('#rg-name'), 'Half-typed citrate');
+    assert.equal(await page.inputValue('#rg-step-0-pk'), '3,13');
+    assert.equal(await again.locator(tid('rg-unfinished')).count(), 0);
+    // Closed unchanged from where it continued is still unfinished work; Discard drops it.
+    await page.click(tid('rg-close'));
+    await again.locator(tid('rg-discard')).click();
+    assert.equal(await again.locator(tid('rg-unfinished')).count(), 0);
+    // An editor closed without typing leaves nothing behind.
+    await again.locator(tid('rg-new')).click();
+    await page.click(tid('rg-close'));
+    assert.equal(await again.locator(tid('rg-unfinished')).count(), 0);
+    s.assertClean('unfinished reagent');
+  } finally {
+    await s.close();
+  }
+});

@@ -372,14 +372,50 @@ pub fn ReagentPanel(
 ) -> impl IntoView {
     let app = use_app();
     let design = app.design;
-    let editing: RwSignal<Option<RwSignal<EditorModel>>> = RwSignal::new(None);
+    // The editor on screen: what is typed, and what it opened with.
+    let editing: RwSignal<Option<(RwSignal<EditorModel>, EditorModel)>> = RwSignal::new(None);
+    let unfinished = app.unfinished_reagent;
     let shelf = RwSignal::new(load_shelf());
     let notice = RwSignal::new(None::<String>);
-    let open = move |m: EditorModel| {
+    // Open the editor on `m`; `start` is what it first opened with (changes are
+    // what differs from it).
+    // The editor's signal belongs to the panel, not to the button that opened it
+    // (the "Continue editing" button goes away as it is clicked).
+    let owner = StoredValue::new_local(Owner::current());
+    let open_at = move |m: EditorModel, start: EditorModel| {
         notice.set(None);
-        editing.set(Some(RwSignal::new(m)));
+        let typed = owner.get_value().map_or_else(
+            || RwSignal::new(m.clone()),
+            |o| o.with(|| RwSignal::new(m.clone())),
+        );
+        editing.set(Some((typed, start)));
     };
+    let open = move |m: EditorModel| {
+        if unfinished.with_untracked(Option::is_some) {
+            notice.set(Some(
+                "Continue or discard the reagent you left unfinished first: only one is kept."
+                    .into(),
+            ));
+            return;
+        }
+        open_at(m.clone(), m);
+    };
+    // Closed without adding (or the panel goes away with the editor open):
+    // what was typed is kept, never dropped.
+    let keep_typed = move || {
+        if let Some((typed, start)) = editing.try_get_untracked().flatten() {
+            if let Some(typed) = typed.try_get_untracked() {
+                if typed != start {
+                    unfinished.set(Some((typed, start)));
+                }
+            }
+        }
+    };
+    on_cleanup(keep_typed);
     let done = Callback::new(move |sys: Option<String>| {
+        if sys.is_none() {
+            keep_typed();
+        }
         editing.set(None);
         shelf.set(load_shelf());
         if let Some(s) = sys {
@@ -489,11 +525,44 @@ pub fn ReagentPanel(
                 </label>
             </div>
             {move || notice.get().map(|n| view! { <p class="notice" role="status" data-testid="rg-notice">{n}</p> })}
+            {move || unfinished.get().map(|(m, _)| {
+                let what = unfinished_label(&m);
+                view! {
+                    <p class="notice" data-testid="rg-unfinished">
+                        {format!("You closed the editor before adding {what}; what you typed is kept here. ")}
+                        <button type="button" class="btn secondary" data-testid="rg-continue"
+                            on:click=move |_| {
+                                if let Some((m, start)) = unfinished.get_untracked() {
+                                    unfinished.set(None);
+                                    open_at(m, start);
+                                }
+                            }>"Continue editing"</button>
+                        " "
+                        <button type="button" class="btn secondary" data-testid="rg-discard"
+                            on:click=move |_| {
+                                unfinished.set(None);
+                                notice.set(Some("The unfinished reagent was discarded.".into()));
+                            }>"Discard it"</button>
+                    </p>
+                }
+            })}
             // In a portal: the editor is an overlay, above the sticky inputs column and tabs.
-            {move || editing.get().map(|m| view! { <leptos::portal::Portal><ReagentEditor model=m on_done=done /></leptos::portal::Portal> })}
+            {move || editing.get().map(|(m, _)| view! { <leptos::portal::Portal><ReagentEditor model=m on_done=done /></leptos::portal::Portal> })}
             <h4>"Your shelf in this browser"</h4>
             {shelf_list}
         </details>
+    }
+}
+
+/// How the panel names an unfinished reagent: its typed name, else what it was.
+fn unfinished_label(m: &EditorModel) -> String {
+    let name = m.name.trim();
+    if !name.is_empty() {
+        return format!("“{}”", solver::error::clip(name, 60));
+    }
+    match &m.target {
+        Target::NewSystem => "a new system".into(),
+        Target::AddForms(system) => format!("shelf forms for {system}"),
     }
 }
 

@@ -163,18 +163,110 @@ impl<'de> de::Deserializer<'de> for At<'de> {
         }
     }
 
-    forward_to_deserialize_any! {
-        bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string
-        bytes byte_buf unit unit_struct seq tuple tuple_struct map struct
-        identifier ignored_any
+    // Each kind asks only for its own visit: a struct is read from an object
+    // only, a number from a number. The derived code then carries no unused
+    // paths (a struct read from an array, say) into the page, and a value of
+    // the wrong kind gets serde's usual "invalid type: ..., expected ..." message.
+
+    fn deserialize_bool<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::Bool(b) => visitor.visit_bool(*b),
+            other => Err(wrong_kind(other, &visitor)),
+        }
     }
+
+    fn deserialize_f64<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::Number(n) => {
+                if let Some(u) = n.as_u64() {
+                    visitor.visit_u64(u)
+                } else if let Some(i) = n.as_i64() {
+                    visitor.visit_i64(i)
+                } else {
+                    visitor.visit_f64(n.as_f64().unwrap_or(f64::NAN))
+                }
+            }
+            other => Err(wrong_kind(other, &visitor)),
+        }
+    }
+
+    fn deserialize_u64<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        self.deserialize_f64(visitor)
+    }
+
+    fn deserialize_u32<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        self.deserialize_f64(visitor)
+    }
+
+    fn deserialize_str<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::String(s) => visitor.visit_borrowed_str(s),
+            other => Err(wrong_kind(other, &visitor)),
+        }
+    }
+
+    fn deserialize_string<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        self.deserialize_str(visitor)
+    }
+
+    fn deserialize_identifier<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        self.deserialize_str(visitor)
+    }
+
+    fn deserialize_unit<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::Null => visitor.visit_unit(),
+            other => Err(wrong_kind(other, &visitor)),
+        }
+    }
+
+    fn deserialize_seq<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::Array(items) => visitor.visit_seq(Items {
+                iter: items.iter(),
+                index: 0,
+            }),
+            other => Err(wrong_kind(other, &visitor)),
+        }
+    }
+
+    fn deserialize_map<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
+        match self.0 {
+            Value::Object(map) => visitor.visit_map(Entries::new(map)),
+            other => Err(wrong_kind(other, &visitor)),
+        }
+    }
+
+    fn deserialize_struct<V: Visitor<'de>>(
+        self,
+        _name: &'static str,
+        _fields: &'static [&'static str],
+        visitor: V,
+    ) -> Result<V::Value, PathError> {
+        self.deserialize_map(visitor)
+    }
+
+    forward_to_deserialize_any! {
+        i8 i16 i32 i64 i128 u8 u16 u128 f32 char
+        bytes byte_buf unit_struct tuple tuple_struct ignored_any
+    }
+}
+
+/// serde's message for a value of the wrong kind ("invalid type: string
+/// \"x\", expected f64").
+fn wrong_kind<'de, V: Visitor<'de>>(v: &Value, visitor: &V) -> PathError {
+    de::Error::invalid_type(unexpected(v), visitor)
 }
 
 fn unexpected(v: &Value) -> de::Unexpected<'_> {
     match v {
         Value::Null => de::Unexpected::Unit,
         Value::Bool(b) => de::Unexpected::Bool(*b),
-        Value::Number(n) => de::Unexpected::Float(n.as_f64().unwrap_or(f64::NAN)),
+        Value::Number(n) => match (n.as_u64(), n.as_i64()) {
+            (Some(u), _) => de::Unexpected::Unsigned(u),
+            (_, Some(i)) => de::Unexpected::Signed(i),
+            _ => de::Unexpected::Float(n.as_f64().unwrap_or(f64::NAN)),
+        },
         Value::String(s) => de::Unexpected::Str(s),
         Value::Array(_) => de::Unexpected::Seq,
         Value::Object(_) => de::Unexpected::Map,
@@ -382,5 +474,12 @@ mod tests {
         assert!(e.message.contains("missing field `name`"), "{e}");
         let e = from_value::<Outer>(&json!("text")).unwrap_err();
         assert_eq!(e.path(), ".");
+        // A struct is read from an object only; numbers keep their kind in messages.
+        let e = from_value::<Outer>(&json!({"name": "a", "items": [[1]], "count": 1})).unwrap_err();
+        assert_eq!(e.path(), "items[0]");
+        assert!(e.message.contains("expected struct Inner"), "{e}");
+        let e = from_value::<Outer>(&json!({"name": 7, "items": [], "count": 1})).unwrap_err();
+        assert_eq!(e.path(), "name");
+        assert!(e.message.starts_with("invalid type: integer `7`"), "{e}");
     }
 }

@@ -97,25 +97,15 @@ struct At<'a>(&'a Value);
 impl<'de> de::Deserializer<'de> for At<'de> {
     type Error = PathError;
 
+    /// Whatever the value is: the visit of its own kind (below).
     fn deserialize_any<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, PathError> {
         match self.0 {
-            Value::Null => visitor.visit_unit(),
-            Value::Bool(b) => visitor.visit_bool(*b),
-            Value::Number(n) => {
-                if let Some(u) = n.as_u64() {
-                    visitor.visit_u64(u)
-                } else if let Some(i) = n.as_i64() {
-                    visitor.visit_i64(i)
-                } else {
-                    visitor.visit_f64(n.as_f64().unwrap_or(f64::NAN))
-                }
-            }
-            Value::String(s) => visitor.visit_borrowed_str(s),
-            Value::Array(items) => visitor.visit_seq(Items {
-                iter: items.iter(),
-                index: 0,
-            }),
-            Value::Object(map) => visitor.visit_map(Entries::new(map)),
+            Value::Null => self.deserialize_unit(visitor),
+            Value::Bool(_) => self.deserialize_bool(visitor),
+            Value::Number(_) => self.deserialize_f64(visitor),
+            Value::String(_) => self.deserialize_str(visitor),
+            Value::Array(_) => self.deserialize_seq(visitor),
+            Value::Object(_) => self.deserialize_map(visitor),
         }
     }
 

@@ -229,6 +229,7 @@ pub fn page_base(href: &str) -> &str {
 )]
 mod tests {
     use super::*;
+    use solver::design::demo_design;
 
     #[test]
     fn crc32_is_the_standard_one() {
@@ -242,7 +243,6 @@ mod tests {
             bytes.push((n.wrapping_mul(2_654_435_761) >> 13) as u8);
         }
     }
-    use solver::design::demo_design;
 
     #[test]
     fn base64url_matches_rfc4648_vectors() {

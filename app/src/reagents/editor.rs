@@ -378,16 +378,16 @@ pub fn ReagentPanel(
     let shelf = RwSignal::new(load_shelf());
     let notice = RwSignal::new(None::<String>);
     // Open the editor on `m`; `start` is what it first opened with (changes are
-    // what differs from it).
-    // The editor's signal belongs to the panel, not to the button that opened it
-    // (the "Continue editing" button goes away as it is clicked).
+    // what differs from it). The editor's signal belongs to the panel, not to
+    // the button that opened it (the "Continue editing" button goes away as it
+    // is clicked).
     let owner = StoredValue::new_local(Owner::current());
     let open_at = move |m: EditorModel, start: EditorModel| {
         notice.set(None);
-        let typed = owner.get_value().map_or_else(
-            || RwSignal::new(m.clone()),
-            |o| o.with(|| RwSignal::new(m.clone())),
-        );
+        let typed = match owner.get_value() {
+            Some(o) => o.with(|| RwSignal::new(m)),
+            None => RwSignal::new(m),
+        };
         editing.set(Some((typed, start)));
     };
     let open = move |m: EditorModel| {

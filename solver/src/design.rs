@@ -364,6 +364,7 @@ pub fn validate_design(d: &Design) -> Result<()> {
     // Field: system, pH, temperature, total, ionic source, alkalinity, limit.
     let fp = |e| prefixed("field", e);
     crate::field::validate_field(&d.field, custom).map_err(fp)?;
+    crate::atmosphere::report::validate_design_gas(d, custom)?;
     d.uncertainty.validate()?;
     Ok(())
 }
@@ -407,6 +408,7 @@ pub fn demo_design() -> Design {
             // Made and checked at the bench, used in the 37 °C assay.
             prepare_temperature_c: Some(22.0),
             concentrate_factor: 1.0,
+            atmosphere: None,
         },
         mixture: MixtureSpec {
             temperature_c: 20.0,
@@ -427,6 +429,7 @@ pub fn demo_design() -> Design {
                 additive: Additive::Nacl,
                 conc_m: 0.15,
             }],
+            atmosphere: None,
         },
         what_if: WhatIf::default(),
         field: FieldSpec {
@@ -438,6 +441,7 @@ pub fn demo_design() -> Design {
             ionic: IonicSource::Conductivity { us_cm: 450.0 },
             alkalinity: None,
             limit: None,
+            atmosphere: None,
         },
         plot_source: PlotSource::Recipe,
         custom_systems: vec![],
@@ -464,6 +468,10 @@ pub struct Report {
     pub curves: std::result::Result<SpeciesCurves, String>,
     /// Titration curve of the plotted composition.
     pub titration: std::result::Result<TitrationCurve, String>,
+    /// Under a CO₂ atmosphere: room-air and CO₂ what-ifs, pH against CO₂ %,
+    /// the field sample's equilibrium (absent when no workspace has one).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub gas: Option<crate::atmosphere::report::GasReport>,
 }
 
 /// Compute every part of a design.
@@ -484,6 +492,8 @@ pub fn report(d: &Design) -> Report {
         let span = (c * 2.0).max(0.001);
         titration_curve(&p, span, span, 41)
     });
+    let gas =
+        crate::atmosphere::report::gas_report(d, custom, recipe.as_ref().ok().map(|r| &r.mixture));
     let s = |e: SolverError| e.to_string();
     Report {
         name: d.name.clone(),
@@ -493,6 +503,7 @@ pub fn report(d: &Design) -> Report {
         field: field_reading(&d.field, custom).map_err(s),
         curves: curves.map_err(s),
         titration: titration.map_err(s),
+        gas,
     }
 }
 

@@ -135,6 +135,10 @@ pub struct FieldSpec {
     /// HOCl, free CO₂). No regulatory number is built in.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub limit: Option<Limit>,
+    /// A gas to report the sample's equilibrium with (carbonate system with
+    /// an alkalinity): its pH there and the CO₂ it would lose or gain.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub atmosphere: Option<crate::atmosphere::Atmosphere>,
 }
 
 /// A species amount in one reporting basis.
@@ -634,6 +638,7 @@ impl FieldSample {
 ///     system: "ammonium".into(), ph: 8.0, temperature_c: 20.0,
 ///     total: Some(1.0), total_unit: TotalUnit::MgPerLAs, ionic: IonicSource::Zero,
 ///     alkalinity: None, limit: None,
+///     atmosphere: None,
 /// }, &[])?;
 /// let pka = 0.09018 + 2729.92 / 293.15;
 /// let f = 1.0 / (10f64.powf(pka - 8.0) + 1.0);

@@ -530,6 +530,7 @@ impl LogPlan {
             ionic,
             alkalinity,
             limit: o.limit,
+            atmosphere: None,
         })
     }
 

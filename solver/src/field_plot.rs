@@ -56,7 +56,7 @@ pub struct FractionCurves {
 /// use solver::field_plot::fraction_curves;
 /// let spec = FieldSpec { system: "ammonium".into(), ph: 8.0, temperature_c: 20.0,
 ///     total: None, total_unit: TotalUnit::MgPerLAs, ionic: IonicSource::Zero,
-///     alkalinity: None, limit: None };
+///     alkalinity: None, limit: None, atmosphere: None };
 /// let c = fraction_curves(&spec, &[], None, 0.0, 14.0, 200)?;
 /// assert_eq!(c.curves.len(), 3);
 /// // Warmer water holds more NH3 at the same pH.

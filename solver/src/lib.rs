@@ -2,6 +2,7 @@
 #![forbid(unsafe_code)]
 
 pub mod activity;
+pub mod atmosphere;
 pub mod carbonate_field;
 pub mod cli;
 pub mod csv;

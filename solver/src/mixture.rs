@@ -1,6 +1,8 @@
 //! What is in the flask: mixture specifications, their solution, speciation, curves and what-ifs.
 
 use crate::activity::{gamma1, gamma_z, ActivityModel};
+use crate::atmosphere::{Atmosphere, GasState};
+use crate::equilibrium::open::system_total;
 use crate::equilibrium::{
     capacity_with_gamma, fractions_into, solve, solve_addition, solve_hinted, Acid, Composition,
     Equilibrium,
@@ -112,6 +114,10 @@ pub struct MixtureSpec {
     /// Strong acids, bases and salts added.
     #[serde(default)]
     pub additives: Vec<AdditiveSpec>,
+    /// A gas the solution has equilibrated with (open carbonate system);
+    /// absent: closed, what is weighed in stays in.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub atmosphere: Option<Atmosphere>,
 }
 
 /// One species of a system at equilibrium.
@@ -155,6 +161,9 @@ pub struct MixtureResult {
     pub ions: Vec<(Ion, f64)>,
     /// pKw at the temperature.
     pub pkw: f64,
+    /// The gas the solution is open to, when it has an atmosphere.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub gas: Option<GasState>,
 }
 
 /// What a prepared mixture keeps of each system: its names, not its shelf forms.
@@ -179,6 +188,8 @@ pub struct Prepared {
     pub ions: [f64; 3],
     /// pKw.
     pub pkw: f64,
+    /// The gas the carbonate system is open to, if any.
+    pub gas: Option<GasState>,
 }
 
 /// Look a system up among the custom ones first, then the library.
@@ -263,7 +274,7 @@ pub fn prepare(spec: &MixtureSpec, custom: &[AcidSystem]) -> Result<Prepared> {
         }
     }
     let (charge, z2) = spectators(&ions);
-    Ok(Prepared {
+    let mut p = Prepared {
         composition: Composition {
             acids,
             spectator_charge: charge,
@@ -275,7 +286,14 @@ pub fn prepare(spec: &MixtureSpec, custom: &[AcidSystem]) -> Result<Prepared> {
         systems,
         ions,
         pkw,
-    })
+        gas: None,
+    };
+    if let Some(a) = &spec.atmosphere {
+        let gas = crate::atmosphere::gas_at(a, t, 0.0)?;
+        crate::atmosphere::open_to(&mut p, &gas)?;
+        p.gas = Some(gas);
+    }
+    Ok(p)
 }
 
 fn spectators(ions: &[f64; 3]) -> (f64, f64) {
@@ -307,13 +325,14 @@ impl Prepared {
         for (acid, sys) in c.acids.iter().zip(self.systems.iter()) {
             let mut fr = [0.0; MAX_STEPS + 1];
             let n = fractions_into(acid, ph, g1, &mut fr);
+            let total = system_total(acid, ph, g1);
             let species = fr
                 .iter()
                 .take(n)
                 .enumerate()
                 .map(|(j, f)| {
                     let z = acid.z0 - j as i32;
-                    let conc = acid.total * f;
+                    let conc = total * f;
                     SpeciesRow {
                         name: sys
                             .species
@@ -330,7 +349,7 @@ impl Prepared {
             out.push(SystemSpecies {
                 system: sys.id.clone(),
                 name: sys.name.clone(),
-                total: acid.total,
+                total,
                 pks: acid.ka.iter().take(acid.n).map(|k| -k.log10()).collect(),
                 species,
             });
@@ -383,6 +402,7 @@ impl Prepared {
 ///         ComponentSpec { system: "phosphate".into(), form: Some("na2hpo4".into()), conc_m: 0.025 },
 ///     ],
 ///     additives: vec![],
+///     atmosphere: None,
 /// };
 /// let r = solve_mixture(&spec, &[])?;
 /// assert!((r.equilibrium.ph - 6.865).abs() < 0.02);
@@ -396,6 +416,7 @@ pub fn solve_mixture(spec: &MixtureSpec, custom: &[AcidSystem]) -> Result<Mixtur
         systems,
         ions: p.ion_list(),
         pkw: p.pkw,
+        gas: p.gas,
         equilibrium: eq,
     })
 }
@@ -412,6 +433,13 @@ pub struct WhatIf {
     pub add_base_m: f64,
     /// Another temperature for the same composition, °C.
     pub temperature_c: f64,
+    /// Room air for the gas what-ifs, µatm of CO₂ (absent: about 420 µatm,
+    /// [`crate::atmosphere::ROOM_AIR_UATM`]); only used with an atmosphere.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub room_co2_uatm: Option<f64>,
+    /// Another CO₂ percentage to try (same pressure); only used with an atmosphere.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub co2_percent: Option<f64>,
 }
 
 impl Default for WhatIf {
@@ -421,6 +449,8 @@ impl Default for WhatIf {
             add_acid_m: 0.001,
             add_base_m: 0.001,
             temperature_c: 4.0,
+            room_co2_uatm: None,
+            co2_percent: None,
         }
     }
 }

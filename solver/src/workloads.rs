@@ -26,6 +26,7 @@ pub fn three_systems() -> MixtureSpec {
             additive: Additive::Nacl,
             conc_m: 0.1,
         }],
+        atmosphere: None,
     }
 }
 
@@ -50,6 +51,7 @@ pub fn phosphate_recipe() -> RecipeSpec {
         tolerance_ph: 0.05,
         prepare_temperature_c: None,
         concentrate_factor: 1.0,
+        atmosphere: None,
     }
 }
 

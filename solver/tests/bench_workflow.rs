@@ -23,6 +23,7 @@ fn spec(system: &str, method: Method, target: f64, t: f64) -> RecipeSpec {
         tolerance_ph: 0.05,
         prepare_temperature_c: None,
         concentrate_factor: 1.0,
+        atmosphere: None,
     }
 }
 
@@ -162,6 +163,7 @@ fn phosphate_standard_follows_published_temperature_dependence() {
             },
         ],
         additives: vec![],
+        atmosphere: None,
     };
     for (t_work, phs_work) in [(25.0, 6.865), (37.0, 6.844), (20.0, 6.881)] {
         // The recipe whose composition is the standard: target = the model's

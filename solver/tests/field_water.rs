@@ -25,6 +25,7 @@ fn spec(system: &str, ph: f64, t: f64, total: Option<f64>, ionic: IonicSource) -
         ionic,
         alkalinity: None,
         limit: None,
+        atmosphere: None,
     }
 }
 

@@ -94,6 +94,7 @@ fn log_rows_equal_single_field_readings() {
                 ionic: IonicSource::Conductivity { us_cm: *cond },
                 alkalinity: None,
                 limit: opts.limit,
+                atmosphere: None,
             },
             &[],
         )
@@ -301,6 +302,7 @@ fn units_and_defaults_from_headers_and_options() {
             ionic: IonicSource::Conductivity { us_cm: 500.0 },
             alkalinity: None,
             limit: None,
+            atmosphere: None,
         };
         field_reading(&one, &[]).unwrap().species[1].fraction
     };
@@ -338,6 +340,7 @@ fn carbonate_log_with_salinity_and_alkalinity() {
                     unit: AlkalinityUnit::MeqPerL,
                 }),
                 limit: None,
+                atmosphere: None,
             },
             &[],
         )

@@ -48,6 +48,7 @@ fn mixture() -> impl Strategy<Value = MixtureSpec> {
             },
             components,
             additives,
+            atmosphere: None,
         })
 }
 
@@ -138,6 +139,7 @@ proptest! {
             total_conc_m: 10f64.powf(lc), volume_l: 1.0, salts: vec![],
             activity: ActivityModel::Davies, method: m, tolerance_ph: 0.05,
             prepare_temperature_c: None, concentrate_factor: 1.0,
+            atmosphere: None,
         };
         // Some targets are legitimately infeasible (e.g. beyond what the pair spans);
         // those must be errors, and every success must round-trip.
@@ -154,6 +156,7 @@ proptest! {
             activity: ActivityModel::Davies,
             components: vec![ComponentSpec { system: "phosphate".into(), form: Some("na2hpo4".into()), conc_m: c }],
             additives: vec![],
+            atmosphere: None,
         };
         let _ = solve_mixture(&spec, &[]);
         let mut r = RecipeSpec {
@@ -163,6 +166,7 @@ proptest! {
             tolerance_ph: 0.05,
             prepare_temperature_c: None,
             concentrate_factor: 1.0,
+            atmosphere: None,
         };
         let _ = solve_recipe(&r, &[]);
         r.system = "no_such".into();

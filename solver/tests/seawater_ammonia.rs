@@ -23,6 +23,7 @@ fn reading(ph: f64, t: f64, ionic: IonicSource) -> FieldSpec {
         ionic,
         alkalinity: None,
         limit: None,
+        atmosphere: None,
     }
 }
 

@@ -23,6 +23,7 @@ fn spec(system: &str, conc: f64, salt: f64, activity: ActivityModel) -> MixtureS
         }],
         temperature_c: 25.0,
         activity,
+        atmosphere: None,
     }
 }
 

@@ -39,6 +39,11 @@
 //! protonation moments, like the pH derivatives). If that ever fails, a
 //! bisection-safeguarded Newton in pH nested in a fixed-point loop on I takes
 //! over. Nothing in the iteration allocates.
+//!
+//! An acid marked [`Acid::open`] is held by a gas instead of weighed in: its
+//! neutral species stays at a fixed concentration and its total follows the
+//! pH (the same balance with the sums of [`open`]); used for CO₂ over a
+//! solution (`crate::atmosphere`).
 
 use crate::activity::{gamma1, ActivityModel, DAVIES_LIMIT};
 use crate::error::{Result, SolverError};
@@ -60,8 +65,14 @@ pub struct Acid {
     pub n: usize,
     /// Thermodynamic dissociation constants K₁…Kₙ at the working temperature.
     pub ka: [f64; MAX_STEPS],
-    /// Total concentration of the system, mol/L.
+    /// Total concentration of the system, mol/L; for an open system
+    /// (`open`), the fixed concentration of the neutral, fully protonated
+    /// species instead (CO₂(aq) held by a gas, see [`open`]).
     pub total: f64,
+    /// Open to a gas phase: species 0 is held at `total` and the system's
+    /// total follows the pH. Only for systems whose protonated species is
+    /// neutral (`z0 == 0`).
+    pub open: bool,
 }
 
 impl Acid {
@@ -72,7 +83,21 @@ impl Acid {
         for (k, pk) in ka.iter_mut().zip(pks.iter()) {
             *k = 10f64.powf(-pk);
         }
-        Self { z0, n, ka, total }
+        Self {
+            z0,
+            n,
+            ka,
+            total,
+            open: false,
+        }
+    }
+
+    /// An open system: the neutral species held at `neutral` mol/L by a gas.
+    pub fn open_from_pks(pks: &[f64], neutral: f64) -> Self {
+        Self {
+            open: true,
+            ..Self::from_pks(0, pks, neutral)
+        }
     }
 }
 
@@ -175,6 +200,13 @@ fn evaluate(c: &Composition, ph: f64, g1: f64) -> Eval {
     let mut z2_sum = c.spectator_z2 + h + oh;
     for acid in &c.acids {
         let (s0, s1, s2) = acid_moments(acid, inv_h, g1);
+        if acid.open {
+            let (df, dvar, dz2) = open::contributions(acid.total, s1, s2);
+            f += df;
+            var_sum += dvar;
+            z2_sum += dz2;
+            continue;
+        }
         let nbar = s1 / s0;
         let e2 = s2 / s0;
         let z0 = f64::from(acid.z0);
@@ -230,6 +262,13 @@ fn check(c: &Composition) -> Result<()> {
             return Err(SolverError::Negative {
                 field: format!("acids[{i}].total"),
                 value: a.total,
+            });
+        }
+        if a.open && a.z0 != 0 {
+            return Err(SolverError::Infeasible {
+                field: format!("acids[{i}].open"),
+                reason: "only a system whose protonated species is neutral can be held by a gas"
+                    .into(),
             });
         }
         if a.n > MAX_STEPS {
@@ -379,6 +418,16 @@ fn evaluate_jac(c: &Composition, ph: f64, g1: f64) -> Jac {
     for acid in &c.acids {
         let m = acid_moments4(acid, inv_h, g1);
         let [s0, s1, s2, s3, s4] = m;
+        if acid.open {
+            let o = open::jacobian(acid.total, [s1, s2, s3, s4]);
+            f += o[0];
+            beta += LN10 * o[1];
+            fg += o[2];
+            z2 += o[3];
+            ix += LN10 * o[4];
+            ig += o[5];
+            continue;
+        }
         let (m1, m2, m3, m4) = (s1 / s0, s2 / s0, s3 / s0, s4 / s0);
         let z0 = f64::from(acid.z0);
         let var = (m2 - m1 * m1).max(0.0);
@@ -726,5 +775,6 @@ pub fn charge_residual(c: &Composition, ph: f64, ionic_strength: f64) -> f64 {
     evaluate(c, ph, g1).f
 }
 
+pub mod open;
 #[cfg(test)]
 mod tests;

@@ -73,3 +73,33 @@ fn bad_input_is_an_error_not_a_panic() {
     c.acids.push(Acid::from_pks(0, &[4.0], -1.0));
     assert!(matches!(solve(&c, 7.0), Err(SolverError::Negative { .. })));
 }
+
+/// The joint iteration's partial derivatives of an open (gas-held) system
+/// against central differences of the charge balance and ionic strength.
+#[test]
+fn open_jacobian_matches_finite_differences() {
+    let mut c = water(ActivityModel::Davies);
+    c.acids.push(Acid::open_from_pks(&[6.3, 10.2], 1.2e-3));
+    c.acids.push(Acid::from_pks(-1, &[7.2], 0.01));
+    c.spectator_charge = 0.05;
+    c.spectator_z2 = 0.3;
+    for &(ph, g) in &[(9.7, -0.25), (7.4, -0.1), (5.5, -0.02)] {
+        let g1 = f64::exp(g);
+        let j = evaluate_jac(&c, ph, g1);
+        let e = evaluate(&c, ph, g1);
+        assert!((j.e.f - e.f).abs() < 1e-12 * (1.0 + e.f.abs()));
+        assert!((j.e.beta / e.beta - 1.0).abs() < 1e-12);
+        assert!((j.e.ionic / e.ionic - 1.0).abs() < 1e-12);
+        let (hx, hg) = (1e-6, 1e-6);
+        let at = |x: f64, gg: f64| evaluate(&c, x, gg.exp());
+        let fx = (at(ph + hx, g).f - at(ph - hx, g).f) / (2.0 * hx);
+        let fg = (at(ph, g + hg).f - at(ph, g - hg).f) / (2.0 * hg);
+        let ix = (at(ph + hx, g).ionic - at(ph - hx, g).ionic) / (2.0 * hx);
+        let ig = (at(ph, g + hg).ionic - at(ph, g - hg).ionic) / (2.0 * hg);
+        let close = |a: f64, b: f64| (a - b).abs() <= 1e-5 * (a.abs() + b.abs()) + 1e-12;
+        assert!(close(-j.e.beta, fx), "β {} vs {fx}", j.e.beta);
+        assert!(close(j.fg, fg), "fg {} vs {fg}", j.fg);
+        assert!(close(j.ix, ix), "ix {} vs {ix}", j.ix);
+        assert!(close(j.ig, ig), "ig {} vs {ig}", j.ig);
+    }
+}

@@ -301,6 +301,7 @@ fn empty_mixture(spec: &RecipeSpec) -> MixtureSpec {
         activity: spec.activity,
         components: vec![],
         additives: spec.salts.clone(),
+        atmosphere: None,
     }
 }
 
@@ -312,7 +313,7 @@ fn component(sys: &AcidSystem, f: &FormInfo<'_>, conc_m: f64) -> ComponentSpec {
     }
 }
 
-fn weigh(formula: &str, name: &str, mol: f64) -> Result<Ingredient> {
+pub(crate) fn weigh(formula: &str, name: &str, mol: f64) -> Result<Ingredient> {
     let mm = molar_mass(formula)?;
     Ok(Ingredient {
         formula: formula.into(),
@@ -504,7 +505,7 @@ fn concentrate_of(
     Ok(Some(m))
 }
 
-fn titrant_name(a: Additive) -> &'static str {
+pub(crate) fn titrant_name(a: Additive) -> &'static str {
     match a {
         Additive::Hcl => "hydrochloric acid",
         Additive::Naoh => "sodium hydroxide",
@@ -560,6 +561,7 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
 ///     tolerance_ph: 0.05,
 ///     prepare_temperature_c: None,
 ///     concentrate_factor: 1.0,
+///     atmosphere: None,
 /// };
 /// let r = solve_recipe(&spec, &[])?;
 /// assert!((r.equilibrium.ph - 7.4).abs() < 1e-6);
@@ -569,6 +571,9 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
 /// ```
 pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeResult> {
     validate(spec)?;
+    if spec.atmosphere.is_some() {
+        return crate::atmosphere::gas_recipe::solve_gas_recipe(spec, custom);
+    }
     let sys = lookup(&spec.system, custom)?;
     if let Some(t) = spec.prepare_temperature_c {
         in_range("prepare_temperature_c", t, sys.t_min_c, sys.t_max_c)?;

@@ -76,6 +76,11 @@ pub struct RecipeSpec {
     /// N-fold with water gives the target at the working temperature.
     #[serde(default = "default_factor", skip_serializing_if = "is_one")]
     pub concentrate_factor: f64,
+    /// The CO₂ atmosphere the finished solution equilibrates with (a
+    /// carbonate recipe for an incubator): the amount of the weighed
+    /// carbonate form becomes the unknown. Absent: the closed recipe.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub atmosphere: Option<crate::atmosphere::Atmosphere>,
 }
 
 pub(crate) fn default_tolerance() -> f64 {

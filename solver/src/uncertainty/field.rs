@@ -135,6 +135,7 @@ pub fn field_uncertainty(
             conc_m: 1.0,
         }],
         additives: vec![],
+        atmosphere: None,
     };
     let p = prepare(&mix, custom)?;
     let steps = p.composition.acids.first().map_or(0, |a| a.n);

@@ -158,6 +158,7 @@ fn several_systems_get_labelled_entries_and_per_system_pks() {
             activity: solver::activity::ActivityModel::Davies,
             components: vec![comp("citrate", 0.02), comp("acetate", 0.03)],
             additives: vec![],
+            atmosphere: None,
         },
         custom: vec![],
     };

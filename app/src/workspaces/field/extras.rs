@@ -317,6 +317,7 @@ mod tests {
                     ionic: solver::field::IonicSource::Zero,
                     alkalinity: None,
                     limit: None,
+                    atmosphere: None,
                 },
                 &[],
             )
@@ -397,6 +398,7 @@ mod tests {
                 value: 1.0,
                 unit: LimitUnit::MgPerLH2s,
             }),
+            atmosphere: None,
         };
         fit_to_system(&mut f);
         assert!(f.alkalinity.is_none());

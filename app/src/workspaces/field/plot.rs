@@ -171,6 +171,7 @@ mod tests {
                 value: 0.02,
                 unit: LimitUnit::MgPerLNh3,
             }),
+            atmosphere: None,
         };
         let r = field_reading(&spec, &[]);
         assert!(r.is_ok());

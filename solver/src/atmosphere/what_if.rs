@@ -100,7 +100,7 @@ pub struct Co2Curve {
     pub target_co2_percent: Option<f64>,
 }
 
-/// pH at `n` CO₂ percentages evenly from 0 to `max_percent`, and the
+/// pH at `n` CO₂ percentages evenly from `max_percent`/40 to `max_percent`, and the
 /// percentage that gives `target_ph` (bisection on the monotone curve: more
 /// CO₂ never raises the pH).
 ///
@@ -132,8 +132,11 @@ pub fn co2_curve(
     let mut co2 = Vec::with_capacity(n);
     let mut ph = Vec::with_capacity(n);
     let mut guess = f64::NAN;
+    // From 1/40 of the top: with no CO₂ at all every carbon would leave in
+    // time and the pH would be that of the counter-ions alone.
+    let lo = hi / 40.0;
     for i in 0..n {
-        let x = hi * i as f64 / (n - 1) as f64;
+        let x = lo + (hi - lo) * i as f64 / (n - 1) as f64;
         let y = at(x, guess)?;
         guess = y;
         co2.push(x);

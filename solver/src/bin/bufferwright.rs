@@ -1,7 +1,7 @@
 //! Command-line entry: reads a design document (file or stdin) and prints the full result.
 //!
 //! ```text
-//! bufferwright [--table] [--demo] [FILE|-]
+//! bufferwright [--table] [--demo] [--co2 5%|420uatm] [FILE|-]
 //! bufferwright log --system ID [options] FILE.csv|-     (see solver::cli)
 //! bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]
 //! bufferwright self-check [--json|--csv]
@@ -11,6 +11,8 @@
 //! Prints JSON by default (every part of the design: recipe, mixture,
 //! what-if, field reading, curves); `--table` prints a readable summary.
 //! `--demo` prints the demo design document instead of reading one.
+//! `--co2` puts a CO₂ atmosphere over every workspace of the design that holds
+//! carbonate (`solver::atmosphere::report::with_co2`; refused when none does).
 //! `self-check` runs the reference cases of `solver::selfcheck` (exit 1 if any fails);
 //! `uncertainty` prints the uncertainty budgets of a design (`solver::uncertainty`).
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
@@ -20,7 +22,7 @@ use solver::recipe::{format_mass, format_volume_ml, sig, sig_trim, METER_NOTE};
 use std::io::Read;
 use std::process::ExitCode;
 
-const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]\n       bufferwright log --system ID [options] FILE.csv|-\n       bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]\n       bufferwright self-check [--json|--csv]\n       bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]";
+const USAGE: &str = "usage: bufferwright [--table] [--demo] [--co2 5%|420uatm] [FILE|-]\n       bufferwright log --system ID [options] FILE.csv|-\n       bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]\n       bufferwright self-check [--json|--csv]\n       bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]";
 
 fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
@@ -49,9 +51,19 @@ fn main() -> ExitCode {
     let mut table = false;
     let mut demo = false;
     let mut path: Option<String> = None;
-    for arg in std::env::args().skip(1) {
+    let mut co2: Option<String> = None;
+    let mut argv = std::env::args().skip(1);
+    while let Some(arg) = argv.next() {
         match arg.as_str() {
             "--table" => table = true,
+            "--co2" => match argv.next() {
+                Some(v) => co2 = Some(v),
+                None => {
+                    eprintln!("--co2 needs a value (5% or 420uatm)\n{USAGE}");
+                    return ExitCode::from(2);
+                }
+            },
+            a if a.starts_with("--co2=") => co2 = a.strip_prefix("--co2=").map(str::to_string),
             "--demo" => demo = true,
             "-h" | "--help" => {
                 println!("{USAGE}");
@@ -91,13 +103,26 @@ fn main() -> ExitCode {
             }
         },
     };
-    let design = match parse_design(&text) {
+    let mut design = match parse_design(&text) {
         Ok(d) => d,
         Err(e) => {
             eprintln!("invalid design: {e}");
             return ExitCode::from(1);
         }
     };
+    if let Some(v) = co2 {
+        use solver::atmosphere::report::{parse_co2, with_co2};
+        match parse_co2(&v).and_then(|a| with_co2(&design, &a)) {
+            Ok((d, changed)) => {
+                eprintln!("CO₂ atmosphere put over: {}", changed.join(", "));
+                design = d;
+            }
+            Err(e) => {
+                eprintln!("{e}");
+                return ExitCode::from(1);
+            }
+        }
+    }
     let rep = report(&design);
     if table {
         print!("{}", render_table(&rep));
@@ -253,6 +278,9 @@ fn render_table(r: &Report) -> String {
             }
         }
         Err(e) => out.push_str(&format!("  error: {e}\n")),
+    }
+    if let Some(g) = &r.gas {
+        out.push_str(&solver::atmosphere::report::gas_table(g));
     }
     out
 }

@@ -2,13 +2,13 @@
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 
 use proptest::prelude::*;
-use solver::activity::ActivityModel;
 use solver::atmosphere::field::field_gas;
 use solver::atmosphere::what_if::{co2_curve, gas_what_if};
 use solver::atmosphere::{gas_at, k0_weiss, vapour_pressure_atm, Atmosphere};
-use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
-use solver::design::{demo_design, parse_design, report, to_json};
+use solver::document::{demo_design, parse_design, report, to_json};
+use solver::equilibrium::activity::ActivityModel;
 use solver::error::SolverError;
+use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
 use solver::field::{FieldSpec, IonicSource, TotalUnit};
 use solver::mixture::{
     prepare, solve_mixture, Additive, AdditiveSpec, ComponentSpec, MixtureSpec, WhatIf,

@@ -14,13 +14,13 @@
 //! the change of dissolved inorganic carbon, as mg/L of CO₂.
 
 use super::{gas_at, no_carbonate, GasState, CARBONATE};
-use crate::activity::ActivityModel;
-use crate::carbonate_field::carbonate_from_alkalinity;
+use crate::equilibrium::activity::ActivityModel;
 use crate::equilibrium::{open::system_total, solve_at_ionic_strength, Acid, Composition};
 use crate::error::{Result, SolverError};
+use crate::field::carbonate::carbonate_from_alkalinity;
+use crate::field::seawater::PkModel;
 use crate::field::{basis_mass, ionic_from, FieldSample, FieldSpec, IonicSource};
 use crate::mixture::lookup;
-use crate::seawater::PkModel;
 use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};
 

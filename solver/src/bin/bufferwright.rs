@@ -12,12 +12,12 @@
 //! what-if, field reading, curves); `--table` prints a readable summary.
 //! `--demo` prints the demo design document instead of reading one.
 //! `--co2` puts a CO₂ atmosphere over every workspace of the design that holds
-//! carbonate (`solver::atmosphere::report::with_co2`; refused when none does).
+//! carbonate (`solver::document::gas::with_co2`; refused when none does).
 //! `self-check` runs the reference cases of `solver::selfcheck` (exit 1 if any fails);
 //! `uncertainty` prints the uncertainty budgets of a design (`solver::uncertainty`).
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
 
-use solver::design::{demo_design, parse_design, report, to_json_pretty, Report};
+use solver::document::{demo_design, parse_design, report, to_json_pretty, Report};
 use solver::recipe::{format_mass, format_volume_ml, sig, sig_trim, METER_NOTE};
 use std::io::Read;
 use std::process::ExitCode;
@@ -42,8 +42,10 @@ fn main() -> ExitCode {
         return ExitCode::from(code);
     }
     if args.first().map(String::as_str) == Some("uncertainty") {
-        let (out, err, code) =
-            solver::uncertainty::uncertainty_command(args.get(1..).unwrap_or(&[]), &read_source);
+        let (out, err, code) = solver::cli::uncertainty::uncertainty_command(
+            args.get(1..).unwrap_or(&[]),
+            &read_source,
+        );
         print!("{out}");
         eprint!("{err}");
         return ExitCode::from(code);
@@ -111,7 +113,8 @@ fn main() -> ExitCode {
         }
     };
     if let Some(v) = co2 {
-        use solver::atmosphere::report::{parse_co2, with_co2};
+        use solver::cli::co2::parse_co2;
+        use solver::document::gas::with_co2;
         match parse_co2(&v).and_then(|a| with_co2(&design, &a)) {
             Ok((d, changed)) => {
                 eprintln!("CO₂ atmosphere put over: {}", changed.join(", "));
@@ -147,7 +150,7 @@ fn emit(out: solver::cli::CliOutput) -> ExitCode {
 
 /// Read a file (or stdin for `-`), at most one byte past the log size limit.
 fn read_limited(path: &str) -> Result<Vec<u8>, String> {
-    let limit = solver::csv::MAX_BYTES as u64 + 1;
+    let limit = solver::field::csv::MAX_BYTES as u64 + 1;
     let mut buf = Vec::new();
     let r = if path == "-" {
         std::io::stdin().take(limit).read_to_end(&mut buf)
@@ -280,7 +283,7 @@ fn render_table(r: &Report) -> String {
         Err(e) => out.push_str(&format!("  error: {e}\n")),
     }
     if let Some(g) = &r.gas {
-        out.push_str(&solver::atmosphere::report::gas_table(g));
+        out.push_str(&solver::cli::co2::gas_table(g));
     }
     out
 }

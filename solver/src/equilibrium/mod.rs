@@ -43,11 +43,13 @@
 //! An acid marked [`Acid::open`] is held by a gas instead of weighed in: its
 //! neutral species stays at a fixed concentration and its total follows the
 //! pH (the same balance with the sums of [`open`]); used for CO₂ over a
-//! solution (`crate::atmosphere`).
+//! solution, with the gas in [`gas`].
 
-use crate::activity::{gamma1, ActivityModel, DAVIES_LIMIT};
+pub mod activity;
+
 use crate::error::{Result, SolverError};
 use crate::system::MAX_STEPS;
+use activity::{gamma1, ActivityModel, DAVIES_LIMIT};
 use serde::{Deserialize, Serialize};
 
 const LN10: f64 = std::f64::consts::LN_10;
@@ -547,7 +549,7 @@ fn total_capacity(c: &Composition, ph: f64, ionic: f64, g1: f64) -> Option<f64> 
 ///
 /// ```
 /// use solver::equilibrium::{solve, Composition};
-/// use solver::activity::ActivityModel;
+/// use solver::equilibrium::activity::ActivityModel;
 /// let c = Composition {
 ///     acids: vec![],
 ///     spectator_charge: -1e-8, // Cl⁻ from HCl
@@ -775,6 +777,7 @@ pub fn charge_residual(c: &Composition, ph: f64, ionic_strength: f64) -> f64 {
     evaluate(c, ph, g1).f
 }
 
+pub mod gas;
 pub mod open;
 #[cfg(test)]
 mod tests;

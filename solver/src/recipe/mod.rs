@@ -16,6 +16,7 @@
 //! Parts: [`spec`] (what the user asks for and what comes back), the solving
 //! here, and [`steps`] (the bench steps in words and the number formats they use).
 
+pub mod gas;
 pub mod spec;
 pub mod steps;
 
@@ -23,16 +24,16 @@ pub use spec::*;
 use steps::{bench_steps, steps_text};
 pub use steps::{format_mass, format_volume_ml, sig, sig_trim};
 
-use crate::activity::{ActivityModel, DAVIES_LIMIT};
+use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{solve, solve_addition};
 use crate::error::{clip, in_range, non_negative, Result, SolverError, QUOTE_MAX};
-use crate::formula::molar_mass;
-use crate::library::{counter_charge, find_form};
 use crate::mixture::{
     lookup, prepare, tolerance, Additive, AdditiveSpec, ComponentSpec, MixtureSpec,
 };
+use crate::system::formula::molar_mass;
+use crate::system::library::{counter_charge, find_form};
+use crate::system::thermo::system_pks;
 use crate::system::{AcidSystem, ReagentForm};
-use crate::thermo::system_pks;
 
 struct FormInfo<'a> {
     form: &'a ReagentForm,
@@ -545,7 +546,7 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
 ///
 /// ```
 /// use solver::recipe::{solve_recipe, RecipeSpec, Method};
-/// use solver::activity::ActivityModel;
+/// use solver::equilibrium::activity::ActivityModel;
 /// let spec = RecipeSpec {
 ///     system: "phosphate".into(),
 ///     target_ph: 7.4,
@@ -572,7 +573,7 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
 pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeResult> {
     validate(spec)?;
     if spec.atmosphere.is_some() {
-        return crate::atmosphere::gas_recipe::solve_gas_recipe(spec, custom);
+        return gas::solve_gas_recipe(spec, custom);
     }
     let sys = lookup(&spec.system, custom)?;
     if let Some(t) = spec.prepare_temperature_c {

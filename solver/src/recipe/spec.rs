@@ -1,7 +1,7 @@
 //! What a recipe asks for (method, target, bench options) and what it returns (ingredients, meter reading, concentrate, warnings).
 
 use super::steps::{sig, sig_trim};
-use crate::activity::{ActivityModel, DAVIES_LIMIT};
+use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::Equilibrium;
 use crate::mixture::{Additive, AdditiveSpec, MixtureSpec, Tolerance};
 use serde::{Deserialize, Serialize};
@@ -80,7 +80,7 @@ pub struct RecipeSpec {
     /// carbonate recipe for an incubator): the amount of the weighed
     /// carbonate form becomes the unknown. Absent: the closed recipe.
     #[serde(default, skip_serializing_if = "Option::is_none")]
-    pub atmosphere: Option<crate::atmosphere::Atmosphere>,
+    pub atmosphere: Option<crate::equilibrium::gas::Atmosphere>,
 }
 
 pub(crate) fn default_tolerance() -> f64 {

@@ -13,11 +13,10 @@
 //! pH = pK₁ + log10( [HCO₃⁻] / (K₀ p(CO₂)) ),   amount = [HCO₃⁻] / q
 //! ```
 
-use super::{gas_at, no_carbonate, GasState, CARBONATE};
-use crate::activity::{ActivityModel, DAVIES_LIMIT};
+use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
+use crate::equilibrium::gas::{gas_at, no_carbonate, Atmosphere, GasState, CARBONATE};
 use crate::equilibrium::{solve, solve_addition};
 use crate::error::{Result, SolverError};
-use crate::library::{counter_charge, find_form};
 use crate::mixture::{lookup, prepare, tolerance, ComponentSpec, MixtureSpec};
 use crate::recipe::spec::{CONCENTRATE_MAX_M, METER_NOTE};
 use crate::recipe::steps::sig_fixed;
@@ -25,8 +24,9 @@ use crate::recipe::{
     format_mass, sig, sig_trim, Estimate, Ingredient, MeterReading, Method, RecipeResult,
     RecipeSpec, RecipeWarning,
 };
+use crate::system::library::{counter_charge, find_form};
+use crate::system::thermo::system_pks;
 use crate::system::AcidSystem;
-use crate::thermo::system_pks;
 
 fn infeasible(field: &str, reason: String) -> SolverError {
     SolverError::Infeasible {
@@ -37,7 +37,7 @@ fn infeasible(field: &str, reason: String) -> SolverError {
 
 /// How the gas reads in a step: `5 % CO₂` or `420 µatm CO₂`, with a
 /// pressure other than standard.
-pub fn gas_words(g: &GasState, a: &super::Atmosphere) -> String {
+pub fn gas_words(g: &GasState, a: &Atmosphere) -> String {
     let co2 = match a.co2_percent {
         Some(x) => format!("{} % CO₂ (humidified)", sig_trim(x, 3)),
         None => format!("{} µatm CO₂", sig_trim(g.co2_uatm, 4)),
@@ -224,7 +224,7 @@ fn gas_steps(
     spec: &RecipeSpec,
     ing: &[Ingredient],
     gas: &GasState,
-    atm: &super::Atmosphere,
+    atm: &Atmosphere,
     meter: &MeterReading,
 ) -> Vec<String> {
     let v_ml = spec.volume_l * 1000.0;

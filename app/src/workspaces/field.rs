@@ -107,6 +107,10 @@ pub fn FieldWorkspace() -> impl IntoView {
     let spec = Memo::new(move |_| design.with(|d| d.field.clone()));
     let custom = Memo::new(move |_| design.with(|d| d.systems()));
     let result = Memo::new(move |_| spec.with(|s| custom.with(|c| field_reading(s, c))));
+    // The sample with its gas: None without an atmosphere.
+    let gas = Memo::new(move |_| {
+        spec.with(|s| custom.with(|c| solver::atmosphere::field::field_gas(s, c).transpose()))
+    });
     let pending = Memo::new(move |_| !app.pending_in("field-").is_empty());
     let readonly = move || app.view.with(|v| v.readonly);
     let last_total = StoredValue::new(spec.with_untracked(|s| s.total.unwrap_or(1.0)));
@@ -373,10 +377,18 @@ pub fn FieldWorkspace() -> impl IntoView {
                     {ionic_field}
                     <AlkalinityInputs spec=spec result=result />
                     <LimitInputs spec=spec result=result />
+                    <crate::workspaces::gas::GasInput
+                        prefix="field"
+                        value=Signal::derive(move || spec.with(|s| s.atmosphere))
+                        on_value=Callback::new(move |a| design.update(|d| d.field.atmosphere = a))
+                        error=Signal::derive(move || gas.with(|g| g.as_ref().and_then(|g| g.as_ref().err().cloned())))
+                        hint="The sample's pH once it has equilibrated with this gas, and the CO₂ it would lose or gain (carbonate with an alkalinity)."
+                    />
                 </div>
                 <div class="results">
                     <FieldResultView spec=spec result=result pending=pending />
                     <crate::reagents::UserReagentNote systems=Signal::derive(move || spec.with(|s| vec![s.system.clone()])) />
+                    <crate::workspaces::gas::FieldGasLines result=Signal::derive(move || gas.get()) />
                     {move || (!pending.get()).then(|| view! { <plot::FractionPlot spec=spec custom=custom result=result /> })}
                     <CautionPanel items=cautions testid="field-cautions" />
                 </div>

@@ -225,11 +225,19 @@ pub fn FlaskWorkspace() -> impl IntoView {
                         })
                     />
                 </div>
+                <crate::workspaces::gas::GasInput
+                    prefix="mixture"
+                    value=Signal::derive(move || spec.with(|s| s.atmosphere))
+                    on_value=Callback::new(move |a| design.update(|d| d.mixture.atmosphere = a))
+                    error=Signal::derive(move || result.with(|r| r.as_ref().err().cloned()))
+                    hint="The flask has equilibrated with this gas: its dissolved CO₂ is fixed and the carbonate follows. It must list the carbonate system (0 M for plain water)."
+                />
             </div>
             <div class="results">
                 <MixtureResultView result=result pending=pending />
                 <crate::reagents::UserReagentNote systems=Signal::derive(move || design.with(|d| d.mixture.components.iter().map(|c| c.system.clone()).collect::<Vec<_>>())) />
                 <WhatIfPanel wi=wi whatif=whatif pending=Signal::derive(move || pending.get() || pending_wi.get()) />
+                <crate::workspaces::gas::GasPanel prefix="mixture" mixture=Signal::derive(move || (!pending.get()).then(|| spec.get())) custom=custom target=Signal::derive(|| None) />
                 <CautionPanel items=cautions testid="mixture-cautions" />
             </div>
         </div>

@@ -4,5 +4,6 @@
 
 pub mod field;
 pub mod flask;
+pub mod gas;
 pub mod recipe;
 pub mod species;

@@ -206,6 +206,13 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     error=err_for("tolerance_ph")
                 />
             </details>
+            <crate::workspaces::gas::GasInput
+                prefix="recipe"
+                value=Signal::derive(move || spec.with(|s| s.atmosphere))
+                on_value=Callback::new(move |a| design.update(|d| d.recipe.atmosphere = a))
+                error=Signal::derive(move || result.with(|r| r.as_ref().err().cloned()))
+                hint="For a carbonate medium in an incubator: choose Carbonate, weigh one form (NaHCO₃ or Na₂CO₃, the titrate method's form); the amount is what gives the target once equilibrated with this gas."
+            />
             <crate::widgets::uncertainty::UncertaintyFields volume_l=Signal::derive(move || spec.with(|s| s.volume_l)) />
         </div>
     };
@@ -230,6 +237,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
             <div class="results">
                 <RecipeResultView spec=spec custom=custom result=result pending=pending />
                 <crate::reagents::UserReagentNote systems=Signal::derive(move || spec.with(|s| vec![s.system.clone()])) />
+                <crate::workspaces::gas::GasPanel prefix="recipe" mixture=Signal::derive(move || result.with(|r| r.as_ref().ok().map(|r| r.mixture.clone()))) custom=custom target=Signal::derive(move || Some(spec.with(|s| s.target_ph))) />
                 <CautionPanel items=cautions testid="recipe-cautions" />
             </div>
         </div>

@@ -237,7 +237,7 @@ pub fn FlaskWorkspace() -> impl IntoView {
                 <MixtureResultView result=result pending=pending />
                 <crate::reagents::UserReagentNote systems=Signal::derive(move || design.with(|d| d.mixture.components.iter().map(|c| c.system.clone()).collect::<Vec<_>>())) />
                 <WhatIfPanel wi=wi whatif=whatif pending=Signal::derive(move || pending.get() || pending_wi.get()) />
-                <crate::workspaces::gas::GasPanel prefix="mixture" mixture=Signal::derive(move || (!pending.get()).then(|| spec.get())) custom=custom target=Signal::derive(|| None) />
+                <crate::workspaces::gas::GasPanel prefix="mixture" mixture=Signal::derive(move || (!pending.get() && result.with(Result::is_ok)).then(|| spec.get())) custom=custom target=Signal::derive(|| None) />
                 <CautionPanel items=cautions testid="mixture-cautions" />
             </div>
         </div>

@@ -6,13 +6,7 @@
 //! system settle and reads what is on screen. Expected numbers come from the
 //! solver called directly, formatted by the same helpers the page uses.
 #![cfg(target_arch = "wasm32")]
-#![allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic,
-    missing_docs
-)]
+#![allow(missing_docs, reason = "wasm-bindgen-test makes undocumented items")]
 
 use app::reagents::model::EditorModel;
 use app::reagents::ReagentEditor;

@@ -4,12 +4,7 @@
 //! `AppState` (demo design), acts the way a browser does and reads the page.
 //! Expected numbers come from the solver called directly.
 #![cfg(target_arch = "wasm32")]
-#![allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    missing_docs
-)]
+#![allow(missing_docs, reason = "wasm-bindgen-test makes undocumented items")]
 
 use app::checks::EngineCheck;
 use app::state::AppState;

@@ -6,12 +6,7 @@
 //! system settle and reads what is on screen. Expected numbers come from the
 //! solver called directly, formatted by the same helpers the page uses.
 #![cfg(target_arch = "wasm32")]
-#![allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    missing_docs
-)]
+#![allow(missing_docs)]
 
 use app::shell::Shell;
 use app::state::AppState;
@@ -42,7 +37,7 @@ async fn recipe_demo_predicts_target_ph_and_weighs_two_salts() {
     let first = &expected.ingredients[0];
     assert_eq!(
         text(&root, "recipe-ingredient-0-amount"),
-        Some(solver::recipe::format_mass(first.grams.unwrap()))
+        Some(solver::fmt::format_mass(first.grams.unwrap()))
     );
     assert!(text(&root, "recipe-ingredient-1-amount").is_some());
     assert!(text(&root, "recipe-steps").unwrap().contains("Weigh"));

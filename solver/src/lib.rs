@@ -12,6 +12,8 @@ pub mod document;
 pub mod equilibrium;
 pub mod error;
 pub mod field;
+pub mod fmt;
+pub mod limits;
 pub mod mixture;
 pub mod order;
 pub mod recipe;

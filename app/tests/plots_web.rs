@@ -4,7 +4,12 @@
 //! and a minimal copy of the page's canvas rule (width 100 %, fixed height),
 //! since the test page has no stylesheet.
 #![cfg(target_arch = "wasm32")]
-#![allow(missing_docs, reason = "wasm-bindgen-test makes undocumented items")]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    missing_docs
+)]
 
 use app::state::AppState;
 use app::workspaces::species::SpeciesWorkspace;

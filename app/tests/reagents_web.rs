@@ -6,7 +6,13 @@
 //! system settle and reads what is on screen. Expected numbers come from the
 //! solver called directly, formatted by the same helpers the page uses.
 #![cfg(target_arch = "wasm32")]
-#![allow(missing_docs, reason = "wasm-bindgen-test makes undocumented items")]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    clippy::panic,
+    missing_docs
+)]
 
 use app::reagents::model::EditorModel;
 use app::reagents::ReagentEditor;

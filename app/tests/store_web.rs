@@ -2,7 +2,13 @@
 //! (quota errors mapped to `StoreError::Full`, nothing half-written), and the designs panel
 //! mounted with `store::init` (save lists the design under its own key).
 #![cfg(target_arch = "wasm32")]
-#![allow(missing_docs, reason = "wasm-bindgen-test makes undocumented items")]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    clippy::panic,
+    missing_docs
+)]
 
 use app::designs::panel::{DesignsPanel, StorageAlert};
 use app::designs::{

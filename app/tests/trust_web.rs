@@ -4,7 +4,12 @@
 //! `AppState` (demo design), acts the way a browser does and reads the page.
 //! Expected numbers come from the solver called directly.
 #![cfg(target_arch = "wasm32")]
-#![allow(missing_docs, reason = "wasm-bindgen-test makes undocumented items")]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    missing_docs
+)]
 
 use app::checks::EngineCheck;
 use app::state::AppState;

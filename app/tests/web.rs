@@ -6,7 +6,12 @@
 //! system settle and reads what is on screen. Expected numbers come from the
 //! solver called directly, formatted by the same helpers the page uses.
 #![cfg(target_arch = "wasm32")]
-#![allow(missing_docs)]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    missing_docs
+)]
 
 use app::shell::Shell;
 use app::state::AppState;

@@ -1,8 +1,5 @@
 //! The component tests' shared harness: mount a view with a fresh `AppState`, let Leptos and the browser settle, find, type, choose and click the way a browser does.
-#![allow(
-    dead_code,
-    reason = "shared helpers: each test binary uses some of them"
-)]
+#![allow(dead_code, clippy::unwrap_used, clippy::expect_used, clippy::panic)]
 
 use app::state::AppState;
 use leptos::prelude::*;

@@ -6,6 +6,7 @@
 //! `field` (readings of natural waters); `atmosphere` (one solution under several gases: room
 //! air, another CO₂ %, a field sample brought to the air); `uncertainty`; `document` (the design file, reagent files, the report);
 //! `selfcheck`; `cli` (the commands without their IO); `workloads` (bench inputs).
+#![doc = include_str!("../README.md")]
 #![forbid(unsafe_code)]
 
 pub mod atmosphere;
@@ -14,6 +15,8 @@ pub mod document;
 pub mod equilibrium;
 pub mod error;
 pub mod field;
+pub mod fmt;
+pub mod limits;
 pub mod mixture;
 pub mod order;
 pub mod recipe;

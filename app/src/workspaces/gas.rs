@@ -13,21 +13,9 @@ use solver::mixture::MixtureSpec;
 use solver::system::AcidSystem;
 use solver::SolverError;
 
-const PERCENT: Rule = Rule {
-    min: 0.0,
-    max: 100.0,
-    range_msg: "CO₂ must be between 0 and 100 %.",
-};
-const UATM: Rule = Rule {
-    min: 0.0,
-    max: 1.0e6,
-    range_msg: "At most 1 000 000 µatm (1 atm).",
-};
-const KPA: Rule = Rule {
-    min: 20.0,
-    max: 300.0,
-    range_msg: "The pressure must be between 20 and 300 kPa.",
-};
+const PERCENT: Rule = solver::limits::CO2_PERCENT;
+const UATM: Rule = solver::limits::CO2_UATM;
+const KPA: Rule = solver::limits::PRESSURE_KPA;
 /// The other CO₂ percentage tried when the design names none.
 const OTHER_PERCENT: f64 = 10.0;
 /// The plot's highest CO₂ %.

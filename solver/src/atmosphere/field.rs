@@ -19,8 +19,9 @@ use crate::equilibrium::{open::system_total, solve_at_ionic_strength, Acid, Comp
 use crate::error::{Result, SolverError};
 use crate::field::carbonate::carbonate_from_alkalinity;
 use crate::field::seawater::PkModel;
-use crate::field::{basis_mass, ionic_from, FieldSample, FieldSpec, IonicSource};
+use crate::field::{ionic_from, FieldSample, FieldSpec, IonicSource};
 use crate::mixture::lookup;
+use crate::system::formula::basis_mass;
 use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};
 

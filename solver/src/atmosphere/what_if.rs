@@ -49,11 +49,11 @@ fn ph_under(mix: &MixtureSpec, custom: &[AcidSystem], a: Atmosphere, guess: f64)
 pub fn gas_what_if(mix: &MixtureSpec, custom: &[AcidSystem], w: &WhatIf) -> Result<GasWhatIf> {
     let own = atmosphere_of(mix)?;
     let room = match w.room_co2_uatm {
-        Some(u) => in_range("what_if.room_co2_uatm", u, 0.0, 1e6)?,
+        Some(u) => crate::limits::ROOM_CO2_UATM.check_path(u)?,
         None => ROOM_AIR_UATM,
     };
     let other = match w.co2_percent {
-        Some(x) => Some(in_range("what_if.co2_percent", x, 0.0, 100.0)?),
+        Some(x) => Some(crate::limits::WHAT_IF_CO2_PERCENT.check_path(x)?),
         None => None,
     };
     let ph = ph_under(mix, custom, own, f64::NAN)?;

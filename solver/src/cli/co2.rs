@@ -17,7 +17,7 @@ pub fn parse_co2(text: &str) -> Result<Atmosphere> {
         field: "--co2".into(),
         reason: format!(
             "{} is not a CO₂ figure: write a percentage (5%) or a partial pressure (420uatm)",
-            crate::error::quote(t)
+            crate::fmt::quote(t)
         ),
     };
     if let Some(v) = t.strip_suffix('%').and_then(num) {
@@ -35,7 +35,7 @@ pub fn parse_co2(text: &str) -> Result<Atmosphere> {
 
 /// The gas part of a report as text, for the command line's `--table`.
 pub fn gas_table(g: &GasReport) -> String {
-    use crate::recipe::{sig, sig_trim};
+    use crate::fmt::{sig, sig_trim};
     let mut out = String::from("\n== CO₂ atmosphere\n");
     let parts = |out: &mut String, label: &str, p: &GasParts| {
         match &p.what_if {

@@ -1,17 +1,16 @@
 //! A design's CO₂ atmospheres: their checks when a document is read, their part of the report, and a gas put over a whole design.
 
 use super::design::Design;
-use super::reagent::map_field;
 use crate::atmosphere::field::{field_gas, validate_field_gas, FieldGas};
 use crate::atmosphere::what_if::{co2_curve, gas_what_if, Co2Curve, GasWhatIf};
 use crate::equilibrium::gas::{gas_at, no_carbonate, validate, Atmosphere, CARBONATE};
-use crate::error::{in_range, Result, SolverError};
+use crate::error::{Result, SolverError};
 use crate::mixture::{lookup, MixtureSpec};
 use crate::system::AcidSystem;
 use serde::Serialize;
 
 fn under(prefix: &str) -> impl Fn(SolverError) -> SolverError + '_ {
-    move |e| map_field(e, |f| format!("{prefix}.{f}"))
+    move |e: SolverError| e.map_field(|f| format!("{prefix}.{f}"))
 }
 
 /// The atmosphere's own fields and the temperature its constants need.
@@ -46,10 +45,10 @@ pub fn validate_design_gas(d: &Design, custom: &[AcidSystem]) -> Result<()> {
     }
     validate_field_gas(&d.field, custom).map_err(under("field"))?;
     if let Some(u) = d.what_if.room_co2_uatm {
-        in_range("what_if.room_co2_uatm", u, 0.0, 1e6)?;
+        crate::limits::ROOM_CO2_UATM.check_path(u)?;
     }
     if let Some(x) = d.what_if.co2_percent {
-        in_range("what_if.co2_percent", x, 0.0, 100.0)?;
+        crate::limits::WHAT_IF_CO2_PERCENT.check_path(x)?;
     }
     Ok(())
 }
@@ -145,7 +144,7 @@ pub fn gas_report(
 /// [`SolverError::Infeasible`] on `--co2` when no workspace holds carbonate
 /// (none is added); the design's own checks with the gas in place.
 pub fn with_co2(d: &Design, a: &Atmosphere) -> Result<(Design, Vec<&'static str>)> {
-    validate(a).map_err(|e| map_field(e, |_| "--co2".into()))?;
+    validate(a).map_err(|e| e.map_field(|_| "--co2".into()))?;
     let systems = d.systems();
     let custom = &systems;
     let mut out = d.clone();

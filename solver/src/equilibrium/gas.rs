@@ -36,20 +36,20 @@
 //! carbonate is refused rather than adding carbonate silently.
 
 use super::Acid;
-use crate::error::{finite, in_range, Result, SolverError};
+use crate::error::{finite, Result, SolverError};
 use crate::water::KELVIN;
 use serde::{Deserialize, Serialize};
 
 /// Standard atmosphere, kPa: the default total pressure.
 pub const STANDARD_KPA: f64 = 101.325;
-/// Lowest total pressure accepted, kPa (about 5 500 m altitude is 50 kPa).
-pub const PRESSURE_MIN_KPA: f64 = 20.0;
+/// Lowest total pressure accepted, kPa (about 5 500 m altitude is 50 kPa; [`crate::limits::PRESSURE_KPA`]).
+pub const PRESSURE_MIN_KPA: f64 = crate::limits::PRESSURE_KPA.min;
 /// Highest total pressure accepted, kPa (ideal-gas Henry's law beyond a few atm is rough).
-pub const PRESSURE_MAX_KPA: f64 = 300.0;
+pub const PRESSURE_MAX_KPA: f64 = crate::limits::PRESSURE_KPA.max;
 /// Lowest temperature of the gas constants, °C (Weiss 1974 fitted from −1 °C; the water model starts at 0).
-pub const T_MIN_C: f64 = 0.0;
+pub const T_MIN_C: f64 = crate::limits::GAS_TEMPERATURE_C.min;
 /// Highest temperature of the gas constants, °C (the end of the Weiss 1974 fit).
-pub const T_MAX_C: f64 = 40.0;
+pub const T_MAX_C: f64 = crate::limits::GAS_TEMPERATURE_C.max;
 /// Room air, µatm of CO₂ (common practice: about 420 µatm in the mid-2020s;
 /// indoor air is often higher, so the user's figure wins).
 pub const ROOM_AIR_UATM: f64 = 420.0;
@@ -148,17 +148,12 @@ fn bad(field: &str, reason: impl Into<String>) -> SolverError {
 /// the partial pressure exceeds the total pressure.
 pub fn validate(a: &Atmosphere) -> Result<()> {
     let p = match a.pressure_kpa {
-        Some(p) => in_range(
-            "atmosphere.pressure_kpa",
-            p,
-            PRESSURE_MIN_KPA,
-            PRESSURE_MAX_KPA,
-        )?,
+        Some(p) => crate::limits::PRESSURE_KPA.check_as("atmosphere.pressure_kpa", p)?,
         None => STANDARD_KPA,
     };
     match (a.co2_percent, a.co2_uatm) {
         (Some(x), None) => {
-            in_range("atmosphere.co2_percent", x, 0.0, 100.0)?;
+            crate::limits::CO2_PERCENT.check_as("atmosphere.co2_percent", x)?;
         }
         (None, Some(u)) => {
             let u = finite("atmosphere.co2_uatm", u)?;
@@ -219,7 +214,7 @@ pub fn validate(a: &Atmosphere) -> Result<()> {
 /// ```
 pub fn gas_at(a: &Atmosphere, t_c: f64, salinity: f64) -> Result<GasState> {
     validate(a)?;
-    let t = in_range("temperature_c", t_c, T_MIN_C, T_MAX_C)?;
+    let t = crate::limits::GAS_TEMPERATURE_C.check_as("temperature_c", t_c)?;
     let p_kpa = a.pressure_kpa.unwrap_or(STANDARD_KPA);
     let p_atm = p_kpa / STANDARD_KPA;
     let (pco2_atm, vapour_atm) = match (a.co2_percent, a.co2_uatm) {

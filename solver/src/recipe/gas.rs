@@ -17,12 +17,11 @@ use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::gas::{gas_at, no_carbonate, Atmosphere, GasState, CARBONATE};
 use crate::equilibrium::{solve, solve_addition};
 use crate::error::{Result, SolverError};
+use crate::fmt::{format_mass, sig, sig_fixed, sig_trim};
 use crate::mixture::{lookup, prepare, tolerance, ComponentSpec, MixtureSpec};
 use crate::recipe::spec::{CONCENTRATE_MAX_M, METER_NOTE};
-use crate::recipe::steps::sig_fixed;
 use crate::recipe::{
-    format_mass, sig, sig_trim, Estimate, Ingredient, MeterReading, Method, RecipeResult,
-    RecipeSpec, RecipeWarning,
+    Estimate, Ingredient, MeterReading, Method, RecipeResult, RecipeSpec, RecipeWarning,
 };
 use crate::system::library::{counter_charge, find_form};
 use crate::system::thermo::system_pks;

@@ -36,18 +36,37 @@ pub mod embed;
 pub mod index;
 pub mod kv;
 pub mod panel;
+pub mod reasons;
 pub mod recovery;
 mod session;
 pub mod share;
 pub mod transfer;
 
-pub use conflicts::*;
-pub use drafts::*;
-pub use index::*;
-pub use kv::*;
-pub use recovery::*;
+pub use conflicts::{
+    copy_name, duplicate_design, external_change, freshness, save_design, External, Freshness,
+    SaveOutcome, SaveTarget,
+};
+pub use drafts::{
+    alive_key, choose_tab_id, closed_drafts, draft_key, draft_text, draft_worth_keeping,
+    holds_work, list_set_aside, load_draft, load_stored, mark_alive, mark_closed, migrate_legacy,
+    new_tab_id, parse_draft, parse_stored, set_aside, set_aside_key, stored_text, tab_alive,
+    ClosedDraft, Draft, DraftFile, SetAside, StoredDraft, ALIVE_EVERY_MS, ALIVE_PREFIX,
+    ALIVE_STALE_MS, LEGACY_DRAFT_KEY, LEGACY_PREVIOUS_KEY, MAX_SET_ASIDE, SET_ASIDE_PREFIX,
+    TAB_DRAFT_PREFIX, TAB_ID_KEY,
+};
+pub use index::{
+    clean_name, delete_design, design_key, new_id, put, quarantine_key, read_design, rename_design,
+    same_content, scan, summary, undo_delete, EntryKind, Quarantined, Scan, Summary, INDEX_KEY,
+    MAX_NAME_CHARS, PREFIX, QUARANTINE_PREFIX,
+};
+pub use kv::{KvStore, LocalStore, MemStore, StoreError};
+pub use reasons::{plain_json_reason, plain_reason};
+pub use recovery::{damaged_reason, list_recovery, RecoveryItem, RecoveryKind};
 pub use session::{download, init};
-pub use transfer::*;
+pub use transfer::{
+    export_many, export_one, file_name, import_designs, parse_import, ImportReport,
+    COLLECTION_FORMAT, FILE_EXTENSION, MAX_IMPORT_BYTES,
+};
 
 use crate::state::AppState;
 use leptos::prelude::*;

@@ -1,9 +1,22 @@
 //! Start-up and this tab's session: tab id and sign of life, autosave to this tab's draft, share links that set work aside, Recovery actions, changes made by other tabs.
 
+use super::conflicts::{external_change, External};
+use super::drafts::{
+    choose_tab_id, closed_drafts, draft_key, draft_worth_keeping, holds_work, load_stored,
+    mark_alive, mark_closed, migrate_legacy, new_tab_id, parse_stored, set_aside, stored_text,
+    Draft, StoredDraft, ALIVE_EVERY_MS, ALIVE_PREFIX, SET_ASIDE_PREFIX, TAB_DRAFT_PREFIX,
+    TAB_ID_KEY,
+};
 use super::embed::{parse_query, UrlOptions};
-use super::*;
+use super::index::{design_key, read_design, same_content, INDEX_KEY, PREFIX, QUARANTINE_PREFIX};
+use super::kv::{KvStore, LocalStore, StoreError};
+use super::transfer::{export_one, file_name, import_designs};
+use super::{local_when, now_ms, Keeping, NoticeAction, NoticeKind, OpenRef, Store};
 use crate::designs::share;
+use crate::state::AppState;
 use crate::state::ViewOptions;
+use leptos::prelude::*;
+use solver::document::Design;
 
 impl Store {
     /// Load a draft, re-linking it to its saved design when that still matches.

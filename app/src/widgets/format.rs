@@ -137,6 +137,56 @@ pub const TDS: Rule = Rule {
     range_msg: "At most 100 000 mg/L.",
 };
 
+/// Practical salinity, PSU.
+pub const SALINITY: Rule = Rule {
+    min: 0.0,
+    max: 50.0,
+    range_msg: "Salinity must be between 0 and 50 (PSU).",
+};
+/// Alkalinity (mg/L as CaCO₃ or meq/L).
+pub const ALKALINITY: Rule = Rule {
+    min: 0.0,
+    max: 10_000.0,
+    range_msg: "That alkalinity is beyond the model's range.",
+};
+/// A user's limit (above zero).
+pub const LIMIT_VALUE: Rule = Rule {
+    min: 1e-12,
+    max: 1e6,
+    range_msg: "A limit must be above zero and at most 1 000 000.",
+};
+
+/// Ranges of the user's ± figures (the solver's `UncertaintyInputs::validate`): balance, mg.
+pub const BALANCE: Rule = Rule {
+    min: 0.0,
+    max: 10_000.0,
+    range_msg: "Balance readability must be between 0 and 10 000 mg.",
+};
+/// Flask tolerance, mL.
+pub const FLASK: Rule = Rule {
+    min: 0.0,
+    max: 100.0,
+    range_msg: "The flask tolerance must be between 0 and 100 mL.",
+};
+/// Thermometer, K.
+pub const TEMP_PM: Rule = Rule {
+    min: 0.0,
+    max: 10.0,
+    range_msg: "The temperature figure must be between 0 and 10 K.",
+};
+/// Stock strength, %.
+pub const PERCENT: Rule = Rule {
+    min: 0.0,
+    max: 50.0,
+    range_msg: "Between 0 and 50 %.",
+};
+/// pH meter, pH.
+pub const METER: Rule = Rule {
+    min: 0.0,
+    max: 2.0,
+    range_msg: "The meter figure must be between 0 and 2 pH.",
+};
+
 /// At most this many characters of a bad value are quoted back in a message.
 pub const QUOTE_CHARS: usize = 60;
 

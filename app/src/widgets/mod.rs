@@ -3,6 +3,9 @@
 
 pub mod answer;
 pub mod cautions;
+pub mod field;
 pub mod format;
 pub mod inputs;
+mod roundtrip;
+pub mod rows;
 pub mod uncertainty;

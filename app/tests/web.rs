@@ -20,7 +20,7 @@ use app::workspaces::field::FieldWorkspace;
 use app::workspaces::flask::FlaskWorkspace;
 use app::workspaces::recipe::RecipeWorkspace;
 use leptos::prelude::*;
-use solver::design::demo_design;
+use solver::document::demo_design;
 use wasm_bindgen::JsCast;
 use wasm_bindgen_test::*;
 use web_sys::HtmlInputElement;
@@ -42,7 +42,7 @@ async fn recipe_demo_predicts_target_ph_and_weighs_two_salts() {
     let first = &expected.ingredients[0];
     assert_eq!(
         text(&root, "recipe-ingredient-0-amount"),
-        Some(solver::recipe::format_mass(first.grams.unwrap()))
+        Some(solver::fmt::format_mass(first.grams.unwrap()))
     );
     assert!(text(&root, "recipe-ingredient-1-amount").is_some());
     assert!(text(&root, "recipe-steps").unwrap().contains("Weigh"));

@@ -1,14 +1,15 @@
 //! What is in the flask: mixture specifications, their solution, speciation, curves and what-ifs.
 
-use crate::activity::{gamma1, gamma_z, ActivityModel};
+use crate::equilibrium::activity::{gamma1, gamma_z, ActivityModel};
 use crate::equilibrium::{
     capacity_with_gamma, fractions_into, solve, solve_addition, solve_hinted, Acid, Composition,
     Equilibrium,
 };
 use crate::error::{in_range, non_negative, Result, SolverError};
-use crate::library::{counter_charge, find_form, find_system};
+use crate::limits::{DILUTION_FACTOR, WHAT_IF_TEMPERATURE_C};
+use crate::system::library::{counter_charge, find_form, find_system};
+use crate::system::thermo::system_pks;
 use crate::system::{AcidSystem, Ion, MAX_STEPS};
-use crate::thermo::system_pks;
 use crate::water::{debye_huckel_a, pkw};
 use serde::{Deserialize, Serialize};
 
@@ -214,7 +215,7 @@ fn ion_index(ion: Ion) -> usize {
 /// Field-named errors for negative or non-finite amounts, unknown systems or
 /// forms, and temperatures outside the data's range.
 pub fn prepare(spec: &MixtureSpec, custom: &[AcidSystem]) -> Result<Prepared> {
-    let t = in_range("temperature_c", spec.temperature_c, 0.0, 60.0)?;
+    let t = crate::limits::MIXTURE_TEMPERATURE_C.check(spec.temperature_c)?;
     let pkw = pkw(t)?;
     let a_dh = debye_huckel_a(t)?;
     let mut ions = [0.0; 3];
@@ -373,7 +374,7 @@ impl Prepared {
 ///
 /// ```
 /// use solver::mixture::{solve_mixture, MixtureSpec, ComponentSpec};
-/// use solver::activity::ActivityModel;
+/// use solver::equilibrium::activity::ActivityModel;
 /// // IUPAC primary standard: 0.025 KH2PO4 + 0.025 Na2HPO4, pH(S) 6.865 at 25 °C.
 /// let spec = MixtureSpec {
 ///     temperature_c: 25.0,
@@ -447,10 +448,10 @@ pub struct WhatIfResult {
 /// Field-named errors (`what_if.dilution_factor` must be ≥ 1, amounts ≥ 0,
 /// temperature in range) and solver failures.
 pub fn what_if(spec: &MixtureSpec, custom: &[AcidSystem], w: &WhatIf) -> Result<WhatIfResult> {
-    let f = in_range("what_if.dilution_factor", w.dilution_factor, 1.0, 1e9)?;
+    let f = DILUTION_FACTOR.check_as(DILUTION_FACTOR.path, w.dilution_factor)?;
     let acid = non_negative("what_if.add_acid_m", w.add_acid_m)?;
     let base = non_negative("what_if.add_base_m", w.add_base_m)?;
-    let t = in_range("what_if.temperature_c", w.temperature_c, 0.0, 60.0)?;
+    let t = WHAT_IF_TEMPERATURE_C.check_as(WHAT_IF_TEMPERATURE_C.path, w.temperature_c)?;
     let p = prepare(spec, custom)?;
     let eq = p.solve()?;
     let mut diluted = spec.clone();

@@ -13,9 +13,9 @@
 
 use crate::error::{Result, SolverError};
 use crate::field::{field_reading, FieldSpec};
-use crate::formula::molar_mass;
 use crate::mixture::{solve_mixture, MixtureSpec};
 use crate::recipe::{solve_recipe, RecipeSpec};
+use crate::system::formula::molar_mass;
 use crate::water::{pkw, KELVIN};
 use serde::{Deserialize, Serialize};
 use serde_json::{json, Value};
@@ -124,7 +124,10 @@ fn mixture(t_c: f64, parts: &[(&str, &str, f64)]) -> Value {
 }
 
 /// The six IUPAC/NBS standard solutions: (id stem, description, parts).
-#[allow(clippy::type_complexity)]
+#[expect(
+    clippy::type_complexity,
+    reason = "a literal table of (id, description, parts); a named type would be used once"
+)]
 fn standards() -> Vec<(
     &'static str,
     &'static str,
@@ -207,7 +210,6 @@ fn fmt_t(t: f64) -> String {
 
 /// The reference cases, in display order. One list for the page, the CLI
 /// and the tests.
-#[allow(clippy::too_many_lines)]
 pub fn cases() -> Vec<Case> {
     let mut v = Vec::new();
     for (stem, desc, parts) in standards() {
@@ -418,7 +420,7 @@ fn field(system: &str, ph: f64, t_c: f64) -> Value {
 }
 
 fn from_json<T: serde::de::DeserializeOwned>(id: &str, v: &Value) -> Result<T> {
-    crate::docpath::from_value(v).map_err(|e| SolverError::Document {
+    crate::document::docpath::from_value(v).map_err(|e| SolverError::Document {
         field: format!("self_check.{id}"),
         reason: e.to_string(),
     })

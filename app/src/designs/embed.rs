@@ -6,7 +6,7 @@
 
 use crate::state::use_app;
 use leptos::prelude::*;
-use solver::design::Workspace;
+use solver::document::Workspace;
 
 /// Styles of the embed bar (inline styles are allowed by the page's CSP).
 const EMBED_CSS: &str =
@@ -146,12 +146,6 @@ pub fn EmbedBar() -> impl IntoView {
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::*;
 

@@ -4,7 +4,7 @@ use super::conflicts::{save_design, SaveOutcome, SaveTarget};
 use super::kv::{KvStore, StoreError};
 use super::recovery::plain_reason;
 use serde::{Deserialize, Serialize};
-use solver::design::{parse_design, to_json, Design};
+use solver::document::{parse_design, to_json, Design};
 
 /// Prefix of every key this page writes.
 pub const PREFIX: &str = "bufferwright.";
@@ -451,12 +451,6 @@ pub fn duplicate_design(
 // ---------------------------------------------------------------------------
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::super::testkit::{named, saved};
     use super::*;

@@ -3,7 +3,7 @@
 use super::drafts::{closed_drafts, list_set_aside, parse_stored, StoredDraft};
 use super::index::{EntryKind, Quarantined, QUARANTINE_PREFIX};
 use super::kv::{KvStore, StoreError};
-use solver::design::parse_design;
+use solver::document::parse_design;
 use solver::error::SolverError;
 
 fn between(text: &str, open: char, close: char) -> Option<&str> {
@@ -230,12 +230,6 @@ fn item(key: String, kind: RecoveryKind, s: &StoredDraft, why: String) -> Recove
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::super::drafts::{
         draft_key, set_aside, stored_text, Draft, StoredDraft, SET_ASIDE_PREFIX,
@@ -265,7 +259,7 @@ mod tests {
         let r = plain_reason(&parse_design("nonsense").unwrap_err());
         assert!(r.contains("not well-formed"), "{r}");
         let mut v: serde_json::Value =
-            serde_json::from_str(&solver::design::to_json(&named("A", 7.0))).unwrap();
+            serde_json::from_str(&solver::document::to_json(&named("A", 7.0))).unwrap();
         v["recipe"]["target_ph"] = serde_json::json!("seven");
         let r = plain_reason(&parse_design(&v.to_string()).unwrap_err());
         assert!(

@@ -3,7 +3,7 @@
 //! amount), and the plausibility check ("check the unit"). [`crate::widgets::inputs::NumberField`]
 //! is the one component that applies them; the round-trip tests drive the same functions.
 
-use crate::widgets::format::{self, fmt_input, fmt_sig, parse_number_in, Rule, Unit};
+use crate::widgets::format::{fmt_input, fmt_sig, parse_number_in, Rule, Unit};
 
 /// One unit a field can be shown in: its key (saved or remembered), its label, and the factor to
 /// the field's base (value in base = shown number × factor).
@@ -45,41 +45,12 @@ pub fn convert_text(text: &str, comma: bool, from: f64, to: f64) -> Option<Strin
 }
 
 /// The limit of the field at document path `path` (`recipe.target_ph`,
-/// `recipe.salts[].conc_m`, `field.limit.value`): one lookup for every field of the page. The
-/// solver's rulebook (`solver::limits`) replaces this table when it lands.
+/// `recipe.salts[].conc_m`, `field.limit.value`): the solver's rulebook
+/// ([`solver::limits::find`]), one lookup for every field of the page, so the page and the
+/// document reader refuse the same values. A path the rulebook does not hold (none of the page's;
+/// see the test) falls back to the amount rule (0 to 5 M).
 pub fn limit_for(path: &str) -> Rule {
-    use format::*;
-    match path {
-        "recipe.target_ph" | "field.ph" => PH,
-        "recipe.temperature_c"
-        | "recipe.prepare_temperature_c"
-        | "mixture.temperature_c"
-        | "what_if.temperature_c"
-        | "field.temperature_c" => TEMPERATURE,
-        "recipe.total_conc_m" => BUFFER_CONC,
-        "recipe.volume_l" => VOLUME,
-        "recipe.concentrate_factor" => CONCENTRATE,
-        "recipe.tolerance_ph" => TOLERANCE,
-        "recipe.method.titrant_m" | "recipe.method.acid_stock_m" | "recipe.method.base_stock_m" => {
-            STOCK
-        }
-        "what_if.dilution_factor" => DILUTION,
-        "field.total" => FIELD_TOTAL,
-        "field.ionic.ionic_strength" => IONIC,
-        "field.ionic.us_cm" => CONDUCTIVITY,
-        "field.ionic.mg_l" => TDS,
-        "field.ionic.psu" => SALINITY,
-        "field.alkalinity.value" => ALKALINITY,
-        "field.limit.value" => LIMIT_VALUE,
-        "uncertainty.balance_mg" => BALANCE,
-        "uncertainty.flask_ml" => FLASK,
-        "uncertainty.temperature_k" => TEMP_PM,
-        "uncertainty.stock_percent" => PERCENT,
-        "uncertainty.ph_meter" => METER,
-        // Row amounts (`recipe.salts[].conc_m`, `mixture.components[].conc_m`,
-        // `mixture.additives[].conc_m`) and the what-if additions.
-        _ => AMOUNT,
-    }
+    solver::limits::find(path).unwrap_or(solver::limits::COMPONENT_CONC_M)
 }
 
 /// Where numbers of a quantity usually lie (base unit), for the "check the unit" note.
@@ -121,7 +92,6 @@ pub fn unit_check(shown: f64, unit: usize, units: &[UnitOpt], p: Plausible) -> O
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use crate::widgets::format::{CONC_UNITS, VOLUME_UNITS};
@@ -150,14 +120,63 @@ mod tests {
         assert_eq!(view_units(CONC_UNITS).len(), 3);
     }
 
+    /// Every document path a `NumberField` of the page names (`path=` in the workspaces).
+    pub(crate) const PAGE_PATHS: &[&str] = &[
+        "recipe.target_ph",
+        "recipe.temperature_c",
+        "recipe.prepare_temperature_c",
+        "recipe.total_conc_m",
+        "recipe.volume_l",
+        "recipe.concentrate_factor",
+        "recipe.tolerance_ph",
+        "recipe.method.titrant_m",
+        "recipe.method.acid_stock_m",
+        "recipe.method.base_stock_m",
+        "recipe.salts[].conc_m",
+        "mixture.temperature_c",
+        "mixture.components[].conc_m",
+        "mixture.additives[].conc_m",
+        "what_if.dilution_factor",
+        "what_if.add_acid_m",
+        "what_if.add_base_m",
+        "what_if.temperature_c",
+        "field.ph",
+        "field.temperature_c",
+        "field.total",
+        "field.ionic.ionic_strength",
+        "field.ionic.us_cm",
+        "field.ionic.mg_l",
+        "field.ionic.psu",
+        "field.alkalinity.value",
+        "field.limit.value",
+        "uncertainty.balance_mg",
+        "uncertainty.flask_ml",
+        "uncertainty.temperature_k",
+        "uncertainty.stock_percent",
+        "uncertainty.ph_meter",
+    ];
+
     #[test]
-    fn every_path_has_its_limit() {
-        assert_eq!(limit_for("recipe.target_ph"), format::PH);
-        assert_eq!(limit_for("recipe.salts[].conc_m"), format::AMOUNT);
-        assert_eq!(limit_for("field.limit.value"), format::LIMIT_VALUE);
-        assert_eq!(limit_for("field.alkalinity.value"), format::ALKALINITY);
-        assert_eq!(limit_for("field.ionic.psu"), format::SALINITY);
-        assert_eq!(limit_for("uncertainty.ph_meter"), format::METER);
+    fn every_path_of_the_page_is_in_the_solvers_rulebook() {
+        for p in PAGE_PATHS {
+            let l =
+                solver::limits::find(p).unwrap_or_else(|| panic!("{p} is not in solver::limits"));
+            assert_eq!(limit_for(p), l);
+        }
+        // And every path= in the workspaces is one of them.
+        for src in [
+            include_str!("../workspaces/recipe/mod.rs"),
+            include_str!("../workspaces/recipe/salts.rs"),
+            include_str!("../workspaces/flask.rs"),
+            include_str!("../workspaces/field.rs"),
+            include_str!("../workspaces/field/extras.rs"),
+            include_str!("uncertainty.rs"),
+        ] {
+            for part in src.split("path=\"").skip(1) {
+                let p = part.split('"').next().unwrap_or_default();
+                assert!(PAGE_PATHS.contains(&p), "{p}");
+            }
+        }
     }
 
     #[test]

@@ -9,3 +9,6 @@ pub mod inputs;
 mod roundtrip;
 pub mod rows;
 pub mod uncertainty;
+
+#[cfg(test)]
+mod tests;

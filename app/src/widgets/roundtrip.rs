@@ -28,9 +28,9 @@ use crate::workspaces::field::{
     change_system, set_total_kind, total_unit_from_key, total_unit_key, total_units,
 };
 use crate::workspaces::recipe::{add_salt, remove_salt};
-use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
-use solver::design::{demo_design, parse_design, to_json, Design, Workspace};
-use solver::field_limit::{Limit, LimitUnit};
+use solver::document::{demo_design, parse_design, to_json, Design, Workspace};
+use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
+use solver::field::limit::{Limit, LimitUnit};
 use solver::mixture::{Additive, AdditiveSpec, ComponentSpec};
 use std::collections::BTreeMap;
 use std::rc::Rc;

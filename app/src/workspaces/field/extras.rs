@@ -9,9 +9,10 @@ use crate::widgets::field::{Plausible, UnitOpt};
 use crate::widgets::format::{error_field, error_message, fmt_ph, fmt_sig};
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, StoredUnits};
 use leptos::prelude::*;
-use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
-use solver::field::{basis_mass, target_species, FieldResult, FieldSpec, FieldSpecies};
-use solver::field_limit::{Limit, LimitResult, LimitUnit};
+use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
+use solver::field::limit::{Limit, LimitResult, LimitUnit};
+use solver::field::{target_species, FieldResult, FieldSpec, FieldSpecies};
+use solver::system::formula::basis_mass;
 use solver::SolverError;
 
 /// Limit units that fit a system, in display order.
@@ -313,7 +314,7 @@ pub fn LimitVerdict(limit: LimitResult) -> impl IntoView {
 
 /// Carbonate system from the alkalinity: DIC, free CO₂, HCO₃⁻, CO₃²⁻.
 #[component]
-pub fn CarbonateFacts(carbonate: solver::carbonate_field::CarbonateResult) -> impl IntoView {
+pub fn CarbonateFacts(carbonate: solver::field::carbonate::CarbonateResult) -> impl IntoView {
     let c = carbonate;
     view! {
         <dl class="facts carbonate-facts" data-testid="field-carbonate">

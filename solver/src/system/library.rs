@@ -6,14 +6,14 @@
 //! system's `source`), or from a system-specific published formula
 //! ([`PkFormula`]). For a formula step, `pk25` is the formula's own value at
 //! 298.15 K, so the two never disagree. Molar masses are never typed: they
-//! are computed from each form's `formula` (see [`crate::formula`]).
+//! are computed from each form's `formula` (see [`crate::system::formula`]).
 
 use std::sync::OnceLock;
 
 use crate::error::Result;
-use crate::formula::molar_mass;
-use crate::system::{AcidSystem, Hazard, Ion, PkFormula, ReagentForm, Step, TempModel};
-use crate::thermo::THETA;
+use crate::system::acid::{AcidSystem, Hazard, Ion, PkFormula, ReagentForm, Step, TempModel};
+use crate::system::formula::molar_mass;
+use crate::system::thermo::THETA;
 
 const GOLDBERG: &str = "Goldberg, Kishore & Lennen (2002) J. Phys. Chem. Ref. Data 31, 231 \
      (pK, ΔrH°, ΔrCp°; values from memory)";
@@ -23,7 +23,7 @@ const GOLDBERG: &str = "Goldberg, Kishore & Lennen (2002) J. Phys. Chem. Ref. Da
 /// # Example
 ///
 /// ```
-/// let lib = solver::library::library();
+/// let lib = solver::system::library::library();
 /// assert!(lib.iter().any(|s| s.id == "phosphate"));
 /// ```
 pub fn library() -> &'static [AcidSystem] {
@@ -103,7 +103,10 @@ const NA: Ion = Ion::Na;
 const K: Ion = Ion::K;
 const CL: Ion = Ion::Cl;
 
-#[allow(clippy::too_many_arguments)]
+#[expect(
+    clippy::too_many_arguments,
+    reason = "one argument per column of the library table"
+)]
 fn system(
     id: &str,
     name: &str,
@@ -172,7 +175,6 @@ fn goldberg_plus(extra: &str) -> String {
 
 // ---------------------------------------------------------------- the data
 
-#[allow(clippy::too_many_lines)]
 fn build() -> Vec<AcidSystem> {
     let mut v = Vec::with_capacity(25);
 
@@ -782,16 +784,10 @@ fn build() -> Vec<AcidSystem> {
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::*;
+    use crate::system::thermo::{system_pks, validate_system};
     use crate::system::MAX_STEPS;
-    use crate::thermo::{system_pks, validate_system};
 
     const IDS: [&str; 25] = [
         "acetate",

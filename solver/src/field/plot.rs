@@ -1,7 +1,9 @@
 //! Plot data for a field reading: the share of the form that matters against pH, at the sample temperature and 5 °C either side.
 
+use super::ionic::ionic_from;
+use super::reading::FieldSpec;
+use super::sample::{target_species, FieldSample};
 use crate::error::{in_range, Result, SolverError};
-use crate::field::{ionic_from, target_species, FieldSample, FieldSpec};
 use crate::mixture::lookup;
 use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};
@@ -53,7 +55,7 @@ pub struct FractionCurves {
 ///
 /// ```
 /// use solver::field::{FieldSpec, IonicSource, TotalUnit};
-/// use solver::field_plot::fraction_curves;
+/// use solver::field::plot::fraction_curves;
 /// let spec = FieldSpec { system: "ammonium".into(), ph: 8.0, temperature_c: 20.0,
 ///     total: None, total_unit: TotalUnit::MgPerLAs, ionic: IonicSource::Zero,
 ///     alkalinity: None, limit: None };

@@ -61,7 +61,7 @@ pub fn atomic_weight(symbol: &str) -> Option<f64> {
 /// # Example
 ///
 /// ```
-/// # use solver::formula::molar_mass;
+/// # use solver::system::formula::molar_mass;
 /// let m = molar_mass("NaH2PO4·H2O")?;
 /// assert!((m - 137.991).abs() < 0.001);
 /// # Ok::<(), solver::SolverError>(())

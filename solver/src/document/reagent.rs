@@ -2,15 +2,15 @@
 //! sees, the standalone reagent file, and the per-field checks a reagent editor shows.
 //!
 //! One mechanism checks everything: [`validate_user_system`] is
-//! [`crate::thermo::validate_system`] plus the one rule it leaves out (a form's counter-ions
+//! [`crate::system::thermo::validate_system`] plus the one rule it leaves out (a form's counter-ions
 //! must leave the system in a charge its species can carry). Added forms, reagent files and
 //! the editor's per-field messages all run it, on the system or on parts of it.
 
 use crate::error::{clip, quote, Result, SolverError, QUOTE_MAX};
-use crate::library::{counter_charge, find_system};
 use crate::mixture::lookup;
+use crate::system::library::{counter_charge, find_system};
+use crate::system::thermo::validate_system;
 use crate::system::{AcidSystem, CustomForm, ReagentForm, Step, TempModel};
-use crate::thermo::validate_system;
 use serde::{Deserialize, Serialize};
 
 /// Version of the standalone reagent file ([`ReagentFile::bufferwright_reagent`]).
@@ -237,8 +237,8 @@ fn file_err(field: &str, reason: impl Into<String>) -> SolverError {
 /// # Example
 ///
 /// ```
-/// use solver::reagent::{parse_reagent, reagent_to_json, Reagent};
-/// let lib = solver::library::find_system("acetate").cloned().ok_or(solver::SolverError::Unknown {
+/// use solver::document::reagent::{parse_reagent, reagent_to_json, Reagent};
+/// let lib = solver::system::library::find_system("acetate").cloned().ok_or(solver::SolverError::Unknown {
 ///     kind: "system".into(), name: "acetate".into() })?;
 /// let r = Reagent::System(solver::system::AcidSystem { id: "my_acetate".into(), ..lib });
 /// assert_eq!(parse_reagent(&reagent_to_json(&r))?, r);
@@ -275,10 +275,10 @@ pub fn parse_reagent(text: &str) -> Result<Reagent> {
             ))
         }
     }
-    let file: ReagentFile = crate::docpath::from_value(&value)
-        .map_err(|e| crate::design::serde_err(&e.path(), &e.message))?;
+    let file: ReagentFile = crate::document::docpath::from_value(&value)
+        .map_err(|e| crate::document::design::serde_err(&e.path(), &e.message))?;
     let back = serde_json::to_value(&file).unwrap_or(serde_json::Value::Null);
-    if let Some(field) = crate::design::extra_tagged_key(&value, &back, "") {
+    if let Some(field) = crate::document::design::extra_tagged_key(&value, &back, "") {
         return Err(file_err(
             &field,
             "unknown field (this kind takes no such key; check the spelling)",

@@ -9,7 +9,7 @@ export const WEBKIT_DRIVER = process.env.WEBKIT_DRIVER || '/usr/bin/WebKitWebDri
 export const MINIBROWSER =
   process.env.MINIBROWSER || '/usr/lib/x86_64-linux-gnu/webkit2gtk-4.1/MiniBrowser';
 const ELEMENT = 'element-6066-11e4-a52e-4f735466cecf';
-const KEYS = { Tab: '\uE004', Enter: '\uE007', Backspace: '\uE003', Control: '\uE009', Null: '\uE000' };
+const KEYS = { Tab: '\uE004', Enter: '\uE007', Backspace: '\uE003', Control: '\uE009' };
 
 /** A free loopback port (asked of the system, then released). */
 function freePort() {
@@ -79,13 +79,19 @@ export async function startWebKitDriver({ scale = 1, attempts = 3 } = {}) {
       scale,
       log: () => log,
       async close() {
-        try {
-          process.kill(-child.pid, 'SIGTERM');
-        } catch {
-          /* already gone */
-        }
+        process.off('exit', kill);
+        kill();
       },
     };
+    // Detached processes outlive a test process that is cut short: end them on exit too.
+    function kill() {
+      try {
+        process.kill(-child.pid, 'SIGTERM');
+      } catch {
+        /* already gone */
+      }
+    }
+    process.on('exit', kill);
     const deadline = Date.now() + 60_000;
     let ready = false;
     while (Date.now() < deadline && child.exitCode === null) {
@@ -138,6 +144,10 @@ export async function webkitSession(driver, { width, height, attempts = 3 }) {
     const v = await s('POST', '/element', { using: 'css selector', value: selector });
     return v[ELEMENT];
   };
+  const keyActions = async (actions) => {
+    await s('POST', '/actions', { actions: [{ type: 'key', id: 'keyboard', actions }] });
+    await s('DELETE', '/actions');
+  };
   /** Run `fn(...args)` in the page; promises are awaited; the result comes back as JSON. */
   const evaluate = async (fn, ...args) => {
     const script =
@@ -161,18 +171,20 @@ export async function webkitSession(driver, { width, height, attempts = 3 }) {
     async click(selector) {
       await s('POST', `/element/${await find(selector)}/click`, {});
     },
-    /** Focus the field, select what is there (Ctrl+A) and type `text` key by key. */
+    /**
+     * Focus the field, select what is there (Ctrl+A) and type `text` key by key, all as key
+     * actions (WebKitWebDriver drops a whole "send keys" text that holds a modifier).
+     */
     async type(selector, text) {
       const el = await find(selector);
       await s('POST', `/element/${el}/click`, {});
-      await s('POST', `/element/${el}/value`, { text: `${KEYS.Control}a${KEYS.Null}${text}` });
+      const keys = [{ type: 'keyDown', value: KEYS.Control }, { type: 'keyDown', value: 'a' }, { type: 'keyUp', value: 'a' }, { type: 'keyUp', value: KEYS.Control }];
+      for (const ch of text) keys.push({ type: 'keyDown', value: ch }, { type: 'keyUp', value: ch });
+      await keyActions(keys);
     },
     async press(key) {
       const value = KEYS[key] || key;
-      await s('POST', '/actions', {
-        actions: [{ type: 'key', id: 'keyboard', actions: [{ type: 'keyDown', value }, { type: 'keyUp', value }] }],
-      });
-      await s('DELETE', '/actions');
+      await keyActions([{ type: 'keyDown', value }, { type: 'keyUp', value }]);
     },
     async screenshot() {
       return Buffer.from(await s('GET', '/screenshot'), 'base64');

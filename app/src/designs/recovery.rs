@@ -230,12 +230,6 @@ fn item(key: String, kind: RecoveryKind, s: &StoredDraft, why: String) -> Recove
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::super::drafts::{
         draft_key, set_aside, stored_text, Draft, StoredDraft, SET_ASIDE_PREFIX,

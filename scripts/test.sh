@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Command two: the whole check, as CI runs it (.ci/run execs this).
 #   setup -> fmt -> clippy (native, wasm) -> cargo test (native) -> browser tests (wasm) ->
-#   trunk release build -> single-file build -> e2e (node --test tests/e2e/)
+#   trunk release build -> single-file build -> e2e (node --test tests/e2e/, Chromium) ->
+#   cross-engine journeys (node --test tests/engines/, in Chromium, Firefox and WebKit)
 # Every step runs even if an earlier one failed (steps that need the build fail fast without it).
 # The last line is "N passed, N failed" counting steps; exit status is non-zero on any failure.
 set -uo pipefail
@@ -70,6 +71,27 @@ e2e() {
   node --test --test-concurrency=1 tests/e2e/
 }
 
+# The journeys of tests/engines/ once per engine (BW_ENGINES picks it), one engine after another:
+# each run prints its time, so a slow engine shows. Engine start-up is retried inside the layer;
+# assertions never are.
+engines() {
+  have_dist || return 1
+  [[ -f dist-single/bufferwright.html ]] || { echo "no single-file build"; return 1; }
+  local e t0 rc=0 times=()
+  for e in chromium firefox webkit; do
+    printf -- '--- %s ---\n' "$e"
+    t0=$SECONDS
+    if ! BW_ENGINES="$e" node --test --test-concurrency=1 tests/engines/; then
+      rc=1
+      times+=("$e FAILED ($((SECONDS - t0))s)")
+    else
+      times+=("$e $((SECONDS - t0))s")
+    fi
+  done
+  echo "cross-engine times: ${times[*]}"
+  return $rc
+}
+
 step "cargo fmt --check" cargo fmt --all --check
 step "clippy (native)" cargo clippy --workspace --all-targets -- -D warnings
 step "clippy (wasm32, app)" cargo clippy -p app --target wasm32-unknown-unknown -- -D warnings
@@ -78,6 +100,7 @@ step "browser tests (wasm-bindgen-test in Chromium)" wasm_tests
 step "trunk build --release" build_trunk
 step "single-file build + sizes" single_file
 step "e2e (node --test tests/e2e/)" e2e
+step "cross-engine journeys (tests/engines/: Chromium, Firefox, WebKit)" engines
 
 printf '\n==================== summary ====================\n'
 printf '%s\n' "${report[@]}"

@@ -107,9 +107,7 @@ pub fn Shell() -> impl IntoView {
                 <Show when=move || app.painted.get()>
                     <crate::checks::EngineCheck />
                 </Show>
-                <p class="offline-note">
-                    "Runs entirely in this browser and works offline; nothing you enter leaves the device."
-                </p>
+                <crate::offline::OfflineNote />
             </footer>
         </div>
     }

@@ -75,11 +75,13 @@ impl RowLists {
 }
 
 /// The keys of list `name` as a `Memo`, for a keyed `<For>`: follows the
-/// list's length and a design opened from outside.
-pub fn keyed(name: &'static str, len: Memo<usize>) -> Memo<Vec<u64>> {
-    let app = crate::state::use_app();
-    let rows = app.rows;
-    let rev = app.revision;
+/// list's length and a design opened from outside (`rev`, the page's design revision).
+pub fn keyed(
+    name: &'static str,
+    len: Memo<usize>,
+    rows: StoredValue<RowLists>,
+    rev: RwSignal<u64>,
+) -> Memo<Vec<u64>> {
     Memo::new(move |_| {
         rev.track();
         let n = len.get();

@@ -122,8 +122,8 @@ pub fn FlaskWorkspace() -> impl IntoView {
     let n_comp = Memo::new(move |_| spec.with(|s| s.components.len()));
     let n_add = Memo::new(move |_| spec.with(|s| s.additives.len()));
     // Rows are keyed by a stable id, never by position (see `widgets::rows`).
-    let comp_keys = rows::keyed(COMP_PREFIX, n_comp);
-    let add_keys = rows::keyed(ADD_PREFIX, n_add);
+    let comp_keys = rows::keyed(COMP_PREFIX, n_comp, app.rows, app.revision);
+    let add_keys = rows::keyed(ADD_PREFIX, n_add, app.rows, app.revision);
     let readonly = move || app.view.with(|v| v.readonly);
 
     let err_for = move |path: &'static str| -> Signal<Option<String>> {

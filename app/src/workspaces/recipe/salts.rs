@@ -124,7 +124,7 @@ pub(crate) fn SaltRows(
     let design = app.design;
     let readonly = move || app.view.with(|v| v.readonly);
     let count = Memo::new(move |_| spec.with(|s| s.salts.len()));
-    let keys = crate::widgets::rows::keyed(SALT_PREFIX, count);
+    let keys = crate::widgets::rows::keyed(SALT_PREFIX, count, app.rows, app.revision);
     let can_add = Memo::new(move |_| spec.with(|s| next_salt(&s.salts).is_some()));
     let on_add = move |_| {
         design.update(|d| {

@@ -73,22 +73,13 @@ export function journey(title, fn, { timeout = 240_000, only, options } = {}) {
   }
 }
 
-/** Serve dist/ on a free loopback port; close() also cuts kept-alive connections. */
+/** Serve dist/ on a free loopback port (close() also cuts kept-alive connections). */
 export async function serveDist() {
   assert.ok(existsSync(join(DIST, 'index.html')), `${DIST}/index.html missing: run scripts/build.sh first`);
-  const srv = await startServer({
+  return startServer({
     root: DIST,
     aliases: { '/embed-example.html': join(ROOT, 'docs', 'embed-example.html') },
   });
-  let closed = false;
-  const close = () => {
-    if (closed) return Promise.resolve();
-    closed = true;
-    const done = new Promise((ok) => srv.server.close(() => ok()));
-    srv.server.closeAllConnections();
-    return done;
-  };
-  return { ...srv, close };
 }
 
 /** Poll `fn(...args)` in the page until it returns something truthy; returns that value. */

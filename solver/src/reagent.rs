@@ -7,9 +7,10 @@
 //! the editor's per-field messages all run it, on the system or on parts of it.
 
 use crate::error::{clip, quote, Result, SolverError, QUOTE_MAX};
+use crate::formula::element_count;
 use crate::library::{counter_charge, find_system};
 use crate::mixture::lookup;
-use crate::system::{AcidSystem, CustomForm, ReagentForm, Step, TempModel};
+use crate::system::{AcidSystem, CustomForm, Ion, ReagentForm, Step, TempModel};
 use crate::thermo::validate_system;
 use serde::{Deserialize, Serialize};
 
@@ -100,15 +101,72 @@ fn check_form_charges(sys: &AcidSystem, from: usize) -> Result<()> {
     Ok(())
 }
 
+/// Each form from index `from` on must declare the spectator ions its formula holds: as
+/// many Na⁺ and K⁺ per formula unit as the formula has Na and K atoms (a sodium salt
+/// declared without its Na⁺ would be taken for the free acid), and no more Cl⁻ than the
+/// formula has Cl atoms (a system's own species may hold chlorine, as HOCl does, so
+/// fewer is allowed). A formula that cannot be read is left to [`validate_system`].
+fn check_form_formulas(sys: &AcidSystem, from: usize) -> Result<()> {
+    for (j, form) in sys.forms.iter().enumerate().skip(from) {
+        for ion in Ion::ALL {
+            let element = ion_element(ion);
+            let Ok(atoms) = element_count(&form.formula, element) else {
+                continue;
+            };
+            let declared: f64 = form
+                .counter_ions
+                .iter()
+                .filter(|(i, _)| *i == ion)
+                .fold(0.0, |sum, &(_, n)| sum + n);
+            let fits = match ion {
+                Ion::Cl => declared <= atoms + 1e-9,
+                Ion::Na | Ion::K => (declared - atoms).abs() <= 1e-9,
+            };
+            if !fits {
+                let formula = quote(&form.formula);
+                let symbol = ion.symbol();
+                return Err(SolverError::Document {
+                    field: format!("system.forms[{j}].counter_ions"),
+                    reason: if atoms > declared {
+                        format!(
+                            "the formula {formula} holds {atoms} {element} per formula unit, \
+                             but the counter-ions declare {declared} {symbol}: declare \
+                             {atoms} {symbol} (a salt of the system), or correct the formula"
+                        )
+                    } else {
+                        format!(
+                            "the counter-ions declare {declared} {symbol} per formula unit, \
+                             but the formula {formula} holds {atoms} {element}: correct \
+                             the counter-ions or the formula"
+                        )
+                    },
+                });
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The element symbol of a spectator ion (`Na`, `K`, `Cl`).
+fn ion_element(ion: Ion) -> &'static str {
+    match ion {
+        Ion::Na => "Na",
+        Ion::K => "K",
+        Ion::Cl => "Cl",
+    }
+}
+
 /// Check a user-defined system: everything [`validate_system`] checks (fields
-/// named `system.…`), then each form's counter-ions against the charges the
-/// system's species can carry (`system.forms[j].counter_ions`).
+/// named `system.…`), then each form's counter-ions against its formula (the Na and
+/// K atoms it holds are declared, no more Cl⁻ than it holds) and against the charges
+/// the system's species can carry (`system.forms[j].counter_ions`).
 ///
 /// # Errors
 ///
 /// The first problem found, naming its field.
 pub fn validate_user_system(sys: &AcidSystem) -> Result<()> {
     validate_system(sys)?;
+    check_form_formulas(sys, 0)?;
     check_form_charges(sys, 0)
 }
 
@@ -140,6 +198,7 @@ pub fn validate_custom_forms(forms: &[CustomForm], systems: &[AcidSystem]) -> Re
         probe.forms.push(cf.form.clone());
         let own = format!("system.forms[{j}]");
         validate_system(&probe)
+            .and_then(|()| check_form_formulas(&probe, j))
             .and_then(|()| check_form_charges(&probe, j))
             .map_err(|e| {
                 map_field(e, |f| match f.strip_prefix(own.as_str()) {

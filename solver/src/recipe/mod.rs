@@ -430,11 +430,18 @@ fn finish(
                 x * amt,
                 *titrant_m,
             );
-            if check && t.ml.unwrap_or(0.0) > v * 1000.0 {
+            let t_ml = t.ml.unwrap_or(0.0);
+            if check && steps::dissolving_ml(v * 1000.0, t_ml).is_none() {
                 return Err(SolverError::Infeasible {
                     field: "method.titrant_m".into(),
-                    reason: "the titrant is too dilute: it would need more than the final volume"
-                        .into(),
+                    reason: format!(
+                        "the titrant is too dilute: {} of it leaves too little of the {} mL \
+                         for dissolving the solids; use a stronger titrant (about {} M or \
+                         more) or a smaller batch or concentrate",
+                        format_volume_ml(t_ml),
+                        sig(v * 1000.0, 4),
+                        sig_trim(steps::titrant_that_fits(v * 1000.0, t_ml, *titrant_m), 2)
+                    ),
                 });
             }
             ing.push(t);

@@ -61,11 +61,12 @@ pub(crate) fn dissolving_ml(v_ml: f64, titrant_ml: f64) -> Option<f64> {
         return Some(usual);
     }
     let room = v_ml * (1.0 - MAKE_UP_SHARE) - titrant_ml;
-    if !(room >= v_ml * DISSOLVE_MIN_SHARE) {
+    if !(room > 0.0) {
         return None;
     }
     let step = 10f64.powf(room.log10().floor() - 1.0);
-    Some((room / step).floor() * step)
+    let d = (room / step).floor() * step;
+    (d >= v_ml * DISSOLVE_MIN_SHARE).then_some(d)
 }
 
 /// The titrant concentration at which the usual dissolving volume fits beside it, rounded

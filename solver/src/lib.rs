@@ -20,6 +20,7 @@ pub mod mixture;
 pub mod order;
 pub mod reagent;
 pub mod recipe;
+pub mod salvage;
 pub mod seawater;
 pub mod selfcheck;
 pub mod system;

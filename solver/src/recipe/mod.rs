@@ -224,8 +224,11 @@ pub fn validate_salts(salts: &[AdditiveSpec]) -> Result<()> {
             return Err(SolverError::Infeasible {
                 field: format!("salts[{i}]"),
                 reason: format!(
-                    "{} is listed twice (also salts[{j}]): merge them into one entry",
-                    s.additive.formula()
+                    "{} is listed twice (rows {} and {}): a salt listed twice is refused, \
+                     not merged; change or remove one of the two rows",
+                    s.additive.formula(),
+                    j + 1,
+                    i + 1
                 ),
             });
         }

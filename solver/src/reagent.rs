@@ -147,6 +147,43 @@ fn check_form_formulas(sys: &AcidSystem, from: usize) -> Result<()> {
     Ok(())
 }
 
+/// Longest name a user's system or form may have, characters.
+pub const NAME_MAX: usize = 80;
+
+/// A user's name: at most [`NAME_MAX`] characters.
+fn check_name(field: String, name: &str) -> Result<()> {
+    let n = name.chars().count();
+    if n > NAME_MAX {
+        return Err(SolverError::Document {
+            field,
+            reason: format!("the name is {n} characters long: at most {NAME_MAX}"),
+        });
+    }
+    Ok(())
+}
+
+/// A user's system is named by its own name: not too long, and not the name of a library
+/// system (it would print as that system).
+fn check_system_name(sys: &AcidSystem) -> Result<()> {
+    check_name("system.name".into(), &sys.name)?;
+    let name = sys.name.trim();
+    if let Some(lib) = crate::library::library()
+        .iter()
+        .find(|l| l.id != sys.id && l.name.trim().eq_ignore_ascii_case(name))
+    {
+        return Err(SolverError::Document {
+            field: "system.name".into(),
+            reason: format!(
+                "{} is the name of a library system: give your reagent a name of its own \
+                 (for example {})",
+                quote(&lib.name),
+                quote(&format!("{} (my own)", lib.name))
+            ),
+        });
+    }
+    Ok(())
+}
+
 /// The element symbol of a spectator ion (`Na`, `K`, `Cl`).
 fn ion_element(ion: Ion) -> &'static str {
     match ion {
@@ -166,6 +203,10 @@ fn ion_element(ion: Ion) -> &'static str {
 /// The first problem found, naming its field.
 pub fn validate_user_system(sys: &AcidSystem) -> Result<()> {
     validate_system(sys)?;
+    check_system_name(sys)?;
+    for (j, f) in sys.forms.iter().enumerate() {
+        check_name(format!("system.forms[{j}].name"), &f.name)?;
+    }
     check_form_formulas(sys, 0)?;
     check_form_charges(sys, 0)
 }
@@ -198,6 +239,7 @@ pub fn validate_custom_forms(forms: &[CustomForm], systems: &[AcidSystem]) -> Re
         probe.forms.push(cf.form.clone());
         let own = format!("system.forms[{j}]");
         validate_system(&probe)
+            .and_then(|()| check_name(format!("system.forms[{j}].name"), &cf.form.name))
             .and_then(|()| check_form_formulas(&probe, j))
             .and_then(|()| check_form_charges(&probe, j))
             .map_err(|e| {

@@ -622,3 +622,45 @@ fn a_form_must_declare_the_spectator_ions_its_formula_holds() {
     let hocl = find_system("hypochlorous").unwrap();
     validate_user_system(hocl).unwrap();
 }
+
+#[test]
+fn names_and_temperature_ranges_are_refused_in_plain_words() {
+    let mut sys = copy_of("acetate");
+    // A temperature range given the wrong way round names both ends.
+    sys.t_min_c = 60.0;
+    sys.t_max_c = 0.0;
+    let e = validate_user_system(&sys).unwrap_err().to_string();
+    assert!(
+        e.starts_with("system.t_max_c") && e.contains("(0 °C) must be above the lowest (60 °C)"),
+        "{e}"
+    );
+    sys.t_min_c = 10.0;
+    sys.t_max_c = 40.0;
+    validate_user_system(&sys).unwrap();
+    // A library system's name, in any case, is refused; a name of its own passes.
+    sys.name = " phosphate ".into();
+    let e = validate_user_system(&sys).unwrap_err().to_string();
+    assert!(
+        e.starts_with("system.name") && e.contains("library system"),
+        "{e}"
+    );
+    sys.name = "Phosphate (my own)".into();
+    validate_user_system(&sys).unwrap();
+    // Names are capped at 80 characters (system and form).
+    sys.name = "x".repeat(81);
+    assert!(validate_user_system(&sys)
+        .unwrap_err()
+        .to_string()
+        .starts_with("system.name"));
+    sys.name = "x".repeat(80);
+    validate_user_system(&sys).unwrap();
+    sys.forms[0].name = "y".repeat(5000);
+    let e = validate_user_system(&sys).unwrap_err().to_string();
+    assert!(
+        e.starts_with("system.forms[0].name") && e.contains("at most 80"),
+        "{e}"
+    );
+    let mut cf = k_hepes();
+    cf.form.name = "z".repeat(81);
+    assert!(validate_custom_forms(&[cf], &[]).is_err());
+}

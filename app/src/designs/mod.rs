@@ -30,6 +30,7 @@
 //! [`transfer`] (import/export), `session` (start-up, autosave, share links),
 //! [`panel`] (the designs panel), [`embed`] (URL options and the embed bar).
 
+pub mod address;
 pub mod conflicts;
 pub mod drafts;
 pub mod embed;
@@ -37,8 +38,10 @@ pub mod index;
 pub mod kv;
 pub mod panel;
 pub mod recovery;
+pub mod rules;
 mod session;
 pub mod share;
+pub mod side;
 pub mod transfer;
 
 pub use conflicts::*;
@@ -144,6 +147,9 @@ pub struct Store {
     /// The design opened from a share link, while unchanged.
     link_design: StoredValue<Option<Design>>,
     next_notice: StoredValue<u64>,
+    /// The address the page is served from, as the user gave it (links and QR codes
+    /// start with it); `None`: the page's own address ([`address`]).
+    pub page_address: RwSignal<Option<String>>,
 }
 
 /// Whether this tab's unsaved work is kept automatically.
@@ -155,6 +161,9 @@ pub enum Keeping {
     Failing(String),
     /// This view never keeps changes (embed, read-only).
     Off,
+    /// The working design is one the page's reader would refuse (the reason, in plain
+    /// words): it is not written, and the last readable version stays kept.
+    Held(String),
 }
 
 pub(crate) fn now_ms() -> f64 {
@@ -190,6 +199,7 @@ impl Store {
             tab: StoredValue::new(String::new()),
             link_design: StoredValue::new(None),
             next_notice: StoredValue::new(1),
+            page_address: RwSignal::new(if ephemeral { None } else { address::load() }),
         }
     }
 
@@ -255,9 +265,7 @@ impl Store {
     pub(crate) fn report_quarantine(&self, q: &[Quarantined]) {
         for item in q {
             let place = match &item.moved_to {
-                Some(k) => format!(
-                    "It was kept aside unchanged under the storage key “{k}” (see Recovery below)."
-                ),
+                Some(_) => "It was kept aside unchanged (listed under Recovery below).".to_string(),
                 None => "Storage is too full to move it aside; it was left in place and skipped."
                     .to_string(),
             };
@@ -339,6 +347,10 @@ impl Store {
     pub fn save(&self, as_new: bool) {
         if let Some(why) = crate::state::unsaved_reason(&self.state) {
             self.notify(NoticeKind::Error, why, None);
+            return;
+        }
+        if let Some(why) = self.state.design.with_untracked(rules::document_problem) {
+            self.notify(NoticeKind::Error, rules::refusal("saved", &why), None);
             return;
         }
         let Some(mut kv) = self.kv() else {
@@ -750,6 +762,9 @@ pub fn status_line(open: Option<&OpenRef>, dirty: bool, keeping: &Keeping) -> St
             "{what} NOT kept automatically right now ({why}): save, or export it to a file, before closing this tab."
         ),
         Keeping::Off => "This view does not keep changes.".to_string(),
+        Keeping::Held(why) => format!(
+            "The latest change is NOT kept ({why}); the version before it is. Correct the marked field to keep your work again."
+        ),
     }
     };
     match open {

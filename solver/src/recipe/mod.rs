@@ -172,8 +172,11 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
     // the salts (the forms and titrant are checked once the recipe is known).
     let n = spec.concentrate_factor;
     if spec.total_conc_m * n > CONCENTRATE_MAX_M {
-        let what = format!("{} (buffer total)", clip(&spec.system, QUOTE_MAX));
-        return Err(too_concentrated(n, &what, spec.total_conc_m * n));
+        return Err(too_concentrated(
+            n,
+            "the buffer (all its forms together)",
+            spec.total_conc_m * n,
+        ));
     }
     for s in &spec.salts {
         if s.conc_m * n > CONCENTRATE_MAX_M {
@@ -495,13 +498,17 @@ fn concentrate_of(
     let too_much = |what: &str, c: f64| too_concentrated(factor, what, c);
     let total = spec.total_conc_m * factor;
     if total > CONCENTRATE_MAX_M {
-        let what = format!("{} (buffer total)", clip(&sys.name, QUOTE_MAX));
+        let what = format!("{} (all its forms together)", clip(&sys.name, QUOTE_MAX));
         return Err(too_much(&what, total));
     }
     for c in &mut m.components {
         c.conc_m *= factor;
         if c.conc_m > CONCENTRATE_MAX_M {
-            let what = c.form.as_deref().unwrap_or(c.system.as_str());
+            let what = c
+                .form
+                .as_deref()
+                .and_then(|f| find_form(sys, f))
+                .map_or(sys.name.as_str(), |f| f.name.as_str());
             return Err(too_much(&clip(what, QUOTE_MAX), c.conc_m));
         }
     }

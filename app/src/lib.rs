@@ -2,7 +2,7 @@
 //! entirely in the browser.
 //!
 //! How data flows: the user types into a workspace's inputs; valid values are
-//! written into one [`solver::design::Design`] held in [`state::AppState`]
+//! written into one [`solver::document::Design`] held in [`state::AppState`]
 //! (typed text that is not a value yet stays with its field and marks it
 //! pending); each workspace derives its results with a `Memo` over the solver;
 //! views and canvas plots show those results. Storage, share links and embeds

@@ -14,7 +14,7 @@ use crate::workspaces::flask::FlaskWorkspace;
 use crate::workspaces::recipe::RecipeWorkspace;
 use crate::workspaces::species::SpeciesWorkspace;
 use leptos::prelude::*;
-use solver::design::Workspace;
+use solver::document::Workspace;
 
 /// The four workspaces in tab order: (workspace, short key, tab text).
 pub const TABS: [(Workspace, &str, &str); 4] = [

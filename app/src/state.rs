@@ -1,7 +1,7 @@
 //! Shared page state: the current design (single source of truth for inputs) and view options.
 
 use leptos::prelude::*;
-use solver::design::{demo_design, Design, Workspace};
+use solver::document::{demo_design, Design, Workspace};
 use std::collections::{BTreeMap, BTreeSet};
 
 /// How the page is shown (from URL parameters).

@@ -14,7 +14,7 @@
 use app::state::AppState;
 use app::workspaces::species::SpeciesWorkspace;
 use leptos::prelude::*;
-use solver::design::PlotSource;
+use solver::document::PlotSource;
 use wasm_bindgen::JsCast;
 use wasm_bindgen_test::*;
 use web_sys::{Element, HtmlCanvasElement, HtmlElement};

@@ -164,5 +164,5 @@ async fn species_names_follow_the_charge_and_a_valid_system_goes_into_the_design
     assert_eq!(s.species, vec!["HA⁺".to_string(), "B".to_string()]);
     assert_eq!(s.z0, 1);
     // The design with it is a valid document.
-    solver::design::parse_design(&solver::design::to_json(&d)).unwrap();
+    solver::document::parse_design(&solver::document::to_json(&d)).unwrap();
 }

@@ -17,7 +17,7 @@ use app::designs::{
 };
 use app::state::AppState;
 use leptos::prelude::*;
-use solver::design::demo_design;
+use solver::document::demo_design;
 use wasm_bindgen::JsCast;
 use wasm_bindgen_test::*;
 use web_sys::HtmlElement;

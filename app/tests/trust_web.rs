@@ -17,7 +17,7 @@ use app::widgets::uncertainty::ph_with_u;
 use app::workspaces::flask::FlaskWorkspace;
 use app::workspaces::recipe::RecipeWorkspace;
 use leptos::prelude::*;
-use solver::design::demo_design;
+use solver::document::demo_design;
 use wasm_bindgen_test::*;
 
 wasm_bindgen_test_configure!(run_in_browser);

@@ -20,7 +20,7 @@ use app::workspaces::field::FieldWorkspace;
 use app::workspaces::flask::FlaskWorkspace;
 use app::workspaces::recipe::RecipeWorkspace;
 use leptos::prelude::*;
-use solver::design::demo_design;
+use solver::document::demo_design;
 use wasm_bindgen::JsCast;
 use wasm_bindgen_test::*;
 use web_sys::HtmlInputElement;

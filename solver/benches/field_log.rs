@@ -2,10 +2,10 @@
 #![allow(clippy::unwrap_used, clippy::expect_used, missing_docs)]
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
+use solver::field::grid::{species_grid, GridSpec, Quantity};
+use solver::field::limit::{Limit, LimitUnit};
+use solver::field::log::{run_log, LogOptions, LogPlan};
 use solver::field::{IonicSource, TotalUnit};
-use solver::field_limit::{Limit, LimitUnit};
-use solver::field_log::{run_log, LogOptions, LogPlan};
-use solver::grid::{species_grid, GridSpec, Quantity};
 
 /// An invented logger export: 10,000 rows of pH, temperature, TAN, conductivity.
 fn log_text(rows: usize) -> String {

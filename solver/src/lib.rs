@@ -1,30 +1,22 @@
 //! Bufferwright solver: exact acid–base equilibrium for buffer design.
+//!
+//! The rooms, bottom to top: `error`, `order`, `water` (leaf physics); `system` (what an acid
+//! system is, the library, formulas, pK(T), checks of user-made systems); `equilibrium` (charge
+//! balance, capacity, the activity models); `mixture`; `recipe`; `field` (readings of natural
+//! waters); `uncertainty`; `document` (the design file, reagent files, the report);
+//! `selfcheck`; `cli` (the commands without their IO); `workloads` (bench inputs).
 #![forbid(unsafe_code)]
 
-pub mod activity;
-pub mod carbonate_field;
 pub mod cli;
-pub mod csv;
-pub mod design;
-pub mod docpath;
+pub mod document;
 pub mod equilibrium;
 pub mod error;
 pub mod field;
-pub mod field_limit;
-pub mod field_log;
-pub mod field_plot;
-pub mod formula;
-pub mod grid;
-pub mod library;
 pub mod mixture;
 pub mod order;
-pub mod reagent;
 pub mod recipe;
-pub mod salvage;
-pub mod seawater;
 pub mod selfcheck;
 pub mod system;
-pub mod thermo;
 pub mod uncertainty;
 pub mod water;
 pub mod workloads;

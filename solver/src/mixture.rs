@@ -1,14 +1,14 @@
 //! What is in the flask: mixture specifications, their solution, speciation, curves and what-ifs.
 
-use crate::activity::{gamma1, gamma_z, ActivityModel};
+use crate::equilibrium::activity::{gamma1, gamma_z, ActivityModel};
 use crate::equilibrium::{
     capacity_with_gamma, fractions_into, solve, solve_addition, solve_hinted, Acid, Composition,
     Equilibrium,
 };
 use crate::error::{in_range, non_negative, Result, SolverError};
-use crate::library::{counter_charge, find_form, find_system};
+use crate::system::library::{counter_charge, find_form, find_system};
+use crate::system::thermo::system_pks;
 use crate::system::{AcidSystem, Ion, MAX_STEPS};
-use crate::thermo::system_pks;
 use crate::water::{debye_huckel_a, pkw};
 use serde::{Deserialize, Serialize};
 
@@ -373,7 +373,7 @@ impl Prepared {
 ///
 /// ```
 /// use solver::mixture::{solve_mixture, MixtureSpec, ComponentSpec};
-/// use solver::activity::ActivityModel;
+/// use solver::equilibrium::activity::ActivityModel;
 /// // IUPAC primary standard: 0.025 KH2PO4 + 0.025 Na2HPO4, pH(S) 6.865 at 25 °C.
 /// let spec = MixtureSpec {
 ///     temperature_c: 25.0,

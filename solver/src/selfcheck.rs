@@ -13,9 +13,9 @@
 
 use crate::error::{Result, SolverError};
 use crate::field::{field_reading, FieldSpec};
-use crate::formula::molar_mass;
 use crate::mixture::{solve_mixture, MixtureSpec};
 use crate::recipe::{solve_recipe, RecipeSpec};
+use crate::system::formula::molar_mass;
 use crate::water::{pkw, KELVIN};
 use serde::{Deserialize, Serialize};
 use serde_json::{json, Value};
@@ -418,7 +418,7 @@ fn field(system: &str, ph: f64, t_c: f64) -> Value {
 }
 
 fn from_json<T: serde::de::DeserializeOwned>(id: &str, v: &Value) -> Result<T> {
-    crate::docpath::from_value(v).map_err(|e| SolverError::Document {
+    crate::document::docpath::from_value(v).map_err(|e| SolverError::Document {
         field: format!("self_check.{id}"),
         reason: e.to_string(),
     })

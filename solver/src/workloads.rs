@@ -1,7 +1,7 @@
 //! The benchmark workloads, defined once: the criterion benches (native) and
 //! the page's in-browser timing (`app/src/bench.rs`) time exactly these.
 
-use crate::activity::ActivityModel;
+use crate::equilibrium::activity::ActivityModel;
 use crate::mixture::{Additive, AdditiveSpec, ComponentSpec, MixtureSpec};
 use crate::recipe::{Method, RecipeSpec};
 

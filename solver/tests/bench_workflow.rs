@@ -3,12 +3,12 @@
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 
 use proptest::prelude::*;
-use solver::activity::ActivityModel;
-use solver::library::library;
+use solver::equilibrium::activity::ActivityModel;
 use solver::mixture::{
     solve_mixture, what_if, Additive, AdditiveSpec, ComponentSpec, MixtureSpec, WhatIf,
 };
 use solver::recipe::{solve_recipe, suggest_pair, Method, RecipeSpec, RecipeWarning};
+use solver::system::library::library;
 
 fn spec(system: &str, method: Method, target: f64, t: f64) -> RecipeSpec {
     RecipeSpec {
@@ -335,7 +335,7 @@ fn out_of_range_bench_inputs_are_refused_by_name() {
 
 #[test]
 fn out_of_range_bench_inputs_in_a_document_name_the_path() {
-    use solver::design::{demo_design, parse_design, to_json};
+    use solver::document::{demo_design, parse_design, to_json};
     let mut d = demo_design();
     d.recipe.prepare_temperature_c = Some(75.0);
     let e = parse_design(&to_json(&d)).unwrap_err().to_string();
@@ -356,7 +356,7 @@ fn out_of_range_bench_inputs_in_a_document_name_the_path() {
 
 fn random_recipe(si: usize, offset: f64, t: f64, lc: f64, method: usize) -> Option<RecipeSpec> {
     let sys = &library()[si % library().len()];
-    let pks = solver::thermo::system_pks(sys, t).ok()?;
+    let pks = solver::system::thermo::system_pks(sys, t).ok()?;
     let pk = pks.iter().copied().find(|p| (2.5..11.5).contains(p))?;
     let target = pk + offset;
     let (acid, base) = suggest_pair(&sys.id, target, t, &[]).ok()?;

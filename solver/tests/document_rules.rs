@@ -4,12 +4,12 @@
 //! document taken apart by workspace so one bad part does not cost the others.
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 
-use solver::design::{demo_design, parse_design, to_json};
+use solver::document::salvage::salvage_design;
+use solver::document::{demo_design, parse_design, to_json};
 use solver::field::field_reading;
-use solver::field_limit::{Limit, LimitUnit};
+use solver::field::limit::{Limit, LimitUnit};
 use solver::mixture::{Additive, AdditiveSpec};
 use solver::recipe::solve_recipe;
-use solver::salvage::salvage_design;
 
 #[test]
 fn a_preparation_temperature_outside_the_systems_data_reads_back_and_the_recipe_says_why() {

@@ -8,11 +8,11 @@
     clippy::panic
 )]
 
-use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
-use solver::design::{demo_design, parse_design, to_json};
+use solver::document::{demo_design, parse_design, to_json};
+use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
+use solver::field::limit::{Limit, LimitUnit};
+use solver::field::plot::fraction_curves;
 use solver::field::{field_reading, ionic_from, FieldSpec, IonicSource, TotalUnit};
-use solver::field_limit::{Limit, LimitUnit};
-use solver::field_plot::fraction_curves;
 use solver::SolverError;
 
 fn spec(system: &str, ph: f64, t: f64, total: Option<f64>, ionic: IonicSource) -> FieldSpec {

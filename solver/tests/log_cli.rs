@@ -6,11 +6,11 @@
     clippy::panic
 )]
 
-use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
-use solver::csv::{parse, parse_number};
+use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
+use solver::field::csv::{parse, parse_number};
+use solver::field::limit::{Limit, LimitUnit};
+use solver::field::log::{run_log, LogOptions, LogPlan};
 use solver::field::{field_reading, FieldSpec, IonicSource, TotalUnit};
-use solver::field_limit::{Limit, LimitUnit};
-use solver::field_log::{run_log, LogOptions, LogPlan};
 use std::io::Write;
 use std::process::{Command, Stdio};
 
@@ -237,7 +237,7 @@ fn hostile_files_are_refused_with_a_message() {
     let want = 1.0 / (10f64.powf(0.09018 + 2729.92 / 293.15 - 7.1) + 1.0);
     assert!(close(fr, want), "{fr} vs {want}");
     // Over 50 MB is refused before parsing.
-    let big = vec![b'7'; solver::csv::MAX_BYTES + 1];
+    let big = vec![b'7'; solver::field::csv::MAX_BYTES + 1];
     let e = run_log(&big, &LogOptions::new("ammonium"), &[], None).unwrap_err();
     assert!(e.to_string().contains("50 MB"), "{e}");
 }

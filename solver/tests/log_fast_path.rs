@@ -6,10 +6,10 @@
     clippy::panic
 )]
 
-use solver::carbonate_field::AlkalinityUnit;
+use solver::field::carbonate::AlkalinityUnit;
+use solver::field::limit::{Limit, LimitUnit};
+use solver::field::log::{LogOptions, LogPlan, RowOutcome};
 use solver::field::{IonicSource, TotalUnit};
-use solver::field_limit::{Limit, LimitUnit};
-use solver::field_log::{LogOptions, LogPlan, RowOutcome};
 
 /// pH cells: the edges of 0–14, just outside them, half-typed and bad cells.
 const PH_CELLS: [&str; 16] = [
@@ -77,9 +77,9 @@ fn options(system: &str, limit: Option<Limit>, alkalinity: bool) -> LogOptions {
     o.limit = limit;
     // An alkalinity replaces the total: one of the two columns is left out.
     let unused = if alkalinity {
-        solver::field_log::Role::Total
+        solver::field::log::Role::Total
     } else {
-        solver::field_log::Role::Alkalinity
+        solver::field::log::Role::Alkalinity
     };
     o.mapping.choices = vec![(unused, "none".into())];
     o

@@ -8,7 +8,7 @@
 )]
 
 use serde_json::Value;
-use solver::design::{parse_design, report, to_json, SCHEMA_VERSION};
+use solver::document::{parse_design, report, to_json, SCHEMA_VERSION};
 use solver::mixture::{Additive, AdditiveSpec};
 use solver::recipe::solve_recipe;
 

@@ -3,11 +3,11 @@
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 
 use proptest::prelude::*;
-use solver::activity::ActivityModel;
+use solver::equilibrium::activity::ActivityModel;
 use solver::equilibrium::{capacity_at, charge_residual, solve, solve_at_ionic_strength};
-use solver::library::library;
 use solver::mixture::{prepare, solve_mixture, Additive, AdditiveSpec, ComponentSpec, MixtureSpec};
 use solver::recipe::{solve_recipe, suggest_pair, Method, RecipeSpec};
+use solver::system::library::library;
 
 fn component() -> impl Strategy<Value = ComponentSpec> {
     let n = library().len();
@@ -123,7 +123,7 @@ proptest! {
     fn recipe_round_trips_to_target(si in 0usize..25, offset in -0.8f64..0.8, t in 15.0f64..35.0,
                                    lc in -3.0f64..-1.0, method in 0usize..3) {
         let sys = &library()[si % library().len()];
-        let pks = solver::thermo::system_pks(sys, t).unwrap();
+        let pks = solver::system::thermo::system_pks(sys, t).unwrap();
         // Target near one of the system's usable pKs (2 to 12).
         let Some(pk) = pks.iter().copied().find(|p| (2.5..11.5).contains(p)) else { return Ok(()); };
         let target = pk + offset;

@@ -9,16 +9,16 @@
 )]
 
 use serde_json::{json, Value};
-use solver::design::{demo_design, parse_design, report, to_json, Design};
-use solver::field::{field_reading, IonicSource, TotalUnit};
-use solver::formula::molar_mass;
-use solver::library::{find_system, library};
-use solver::mixture::{prepare, solve_mixture, species_curves, ComponentSpec};
-use solver::reagent::{
+use solver::document::reagent::{
     error_field, parse_reagent, reagent_file_name, reagent_to_json, system_field_problems,
     validate_custom_forms, validate_user_system, Reagent,
 };
+use solver::document::{demo_design, parse_design, report, to_json, Design};
+use solver::field::{field_reading, IonicSource, TotalUnit};
+use solver::mixture::{prepare, solve_mixture, species_curves, ComponentSpec};
 use solver::recipe::{solve_recipe, Method};
+use solver::system::formula::molar_mass;
+use solver::system::library::{find_system, library};
 use solver::system::{AcidSystem, CustomForm, Ion, ReagentForm, Step, TempModel};
 
 /// A user's copy of a library system: same constants and forms, its own id and name.

@@ -6,10 +6,10 @@
     clippy::panic
 )]
 
-use solver::formula::{atomic_weight, molar_mass};
-use solver::library::{find_system, library};
+use solver::system::formula::{atomic_weight, molar_mass};
+use solver::system::library::{find_system, library};
+use solver::system::thermo::{step_pk, system_pks, THETA};
 use solver::system::TempModel;
-use solver::thermo::{step_pk, system_pks, THETA};
 use solver::water::{debye_huckel_a, pkw, pkw_at_density, KELVIN};
 
 fn sys(id: &str) -> &'static solver::system::AcidSystem {
@@ -60,7 +60,7 @@ fn disodium_phosphate_heptahydrate_from_atomic_weights() {
     let got = molar_mass("Na2HPO4·7H2O").unwrap();
     assert!((got - want).abs() < 1e-9, "{got} vs {want}");
     // And the library form uses the same number.
-    let form = solver::library::find_form(sys("phosphate"), "na2hpo4_7h2o").unwrap();
+    let form = solver::system::library::find_form(sys("phosphate"), "na2hpo4_7h2o").unwrap();
     assert!((form.molar_mass().unwrap() - want).abs() < 1e-9);
 }
 

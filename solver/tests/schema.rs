@@ -7,7 +7,7 @@
 )]
 
 use serde_json::{json, Value};
-use solver::design::{demo_design, parse_design, to_json, to_json_pretty};
+use solver::document::{demo_design, parse_design, to_json, to_json_pretty};
 
 fn demo_value() -> Value {
     serde_json::from_str(&to_json(&demo_design())).unwrap()

@@ -8,10 +8,10 @@
     clippy::panic
 )]
 
+use solver::field::grid::{species_grid, GridSpec, Quantity};
+use solver::field::plot::fraction_curves;
+use solver::field::seawater::{pk_ammonium_seawater, PkModel};
 use solver::field::{field_reading, FieldSpec, IonicSource, TotalUnit};
-use solver::field_plot::fraction_curves;
-use solver::grid::{species_grid, GridSpec, Quantity};
-use solver::seawater::{pk_ammonium_seawater, PkModel};
 
 fn reading(ph: f64, t: f64, ionic: IonicSource) -> FieldSpec {
     FieldSpec {

@@ -7,7 +7,7 @@
 //!   I ≈ 0.1. A slip in a constant of 0.02 would still fail.
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 
-use solver::activity::ActivityModel;
+use solver::equilibrium::activity::ActivityModel;
 use solver::mixture::solve_mixture;
 use solver::recipe::{solve_recipe, Method, RecipeSpec};
 

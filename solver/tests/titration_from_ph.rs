@@ -4,7 +4,7 @@
 #![allow(clippy::unwrap_used, clippy::indexing_slicing)]
 
 use proptest::prelude::*;
-use solver::activity::ActivityModel;
+use solver::equilibrium::activity::ActivityModel;
 use solver::mixture::{
     prepare, titration_curve, titration_curve_by_solves, Additive, AdditiveSpec, ComponentSpec,
     MixtureSpec,

@@ -1,10 +1,15 @@
 //! A titrated recipe's liquids fit the flask: the dissolving water and the titrant stay
 //! below the final volume (the dissolving step shrinks, or the recipe is refused with the
 //! titrant that would fit).
-#![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    clippy::panic
+)]
 
 use proptest::prelude::*;
-use solver::activity::ActivityModel;
+use solver::equilibrium::activity::ActivityModel;
 use solver::mixture::Additive;
 use solver::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
 use solver::SolverError;

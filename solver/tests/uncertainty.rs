@@ -314,7 +314,7 @@ fn budget_json_shape_and_table() {
     let s: f64 = u.budget.iter().map(|b| b.u_ph * b.u_ph).sum();
     assert!((u.u95_ph - 2.0 * s.sqrt()).abs() < 1e-15);
     // Every library step has a table entry with a source.
-    for sys in solver::library::library() {
+    for sys in solver::system::library::library() {
         for k in 1..=sys.steps.len() {
             assert!(
                 PK_UNCERTAINTY
@@ -369,9 +369,9 @@ proptest! {
         si in 0usize..25, dpk in -0.8f64..0.8, t in 5.0f64..45.0, c in -3.0f64..-0.7,
         v in 0.001f64..2.0, bal in 0.0f64..100.0, temp in 0.0f64..5.0, ideal in any::<bool>(),
     ) {
-        let lib = solver::library::library();
+        let lib = solver::system::library::library();
         let sys = &lib[si % lib.len()];
-        let Ok(pks) = solver::thermo::system_pks(sys, t) else { return Ok(()) };
+        let Ok(pks) = solver::system::thermo::system_pks(sys, t) else { return Ok(()) };
         let target = (pks[pks.len() / 2] + dpk).clamp(0.5, 13.5);
         let Ok((a, b)) = suggest_pair(&sys.id, target, t, &[]) else { return Ok(()) };
         let spec = recipe(json!({

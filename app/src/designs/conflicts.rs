@@ -2,7 +2,7 @@
 
 use super::index::{clean_name, design_key, ids_for_write, new_id, put, quarantine};
 use super::kv::{KvStore, StoreError};
-use solver::design::{parse_design, Design, SCHEMA_VERSION};
+use solver::document::{parse_design, Design, SCHEMA_VERSION};
 
 /// Where a save goes.
 #[derive(Debug, Clone, PartialEq)]
@@ -134,7 +134,7 @@ pub fn same_content(a: &Design, b: &Design) -> bool {
     let norm = |d: &Design| {
         let mut d = d.clone();
         d.saved_at_ms = 0.0;
-        d.workspace = solver::design::Workspace::default();
+        d.workspace = solver::document::Workspace::default();
         d
     };
     norm(a) == norm(b)
@@ -281,7 +281,7 @@ mod tests {
         let a = named("A", 7.0);
         let mut b = a.clone();
         b.saved_at_ms = 99.0;
-        b.workspace = solver::design::Workspace::Field;
+        b.workspace = solver::document::Workspace::Field;
         assert!(same_content(&a, &b));
         b.recipe.target_ph = 7.1;
         assert!(!same_content(&a, &b));

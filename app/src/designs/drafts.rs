@@ -18,7 +18,7 @@ use super::index::{quarantine, read_design, to_base36, EntryKind, Quarantined};
 use super::kv::{KvStore, StoreError};
 use super::recovery::plain_json_reason;
 use serde::{Deserialize, Serialize};
-use solver::design::{demo_design, parse_design, Design};
+use solver::document::{demo_design, parse_design, Design};
 
 /// Key of the single draft of older pages (migrated on load).
 pub const LEGACY_DRAFT_KEY: &str = "bufferwright.draft";

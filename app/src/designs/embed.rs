@@ -6,7 +6,7 @@
 
 use crate::state::use_app;
 use leptos::prelude::*;
-use solver::design::Workspace;
+use solver::document::Workspace;
 
 /// Styles of the embed bar (inline styles are allowed by the page's CSP).
 const EMBED_CSS: &str =

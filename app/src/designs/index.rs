@@ -4,7 +4,7 @@ use super::conflicts::{save_design, SaveOutcome, SaveTarget};
 use super::kv::{KvStore, StoreError};
 use super::recovery::plain_reason;
 use serde::{Deserialize, Serialize};
-use solver::design::{parse_design, to_json, Design};
+use solver::document::{parse_design, to_json, Design};
 
 /// Prefix of every key this page writes.
 pub const PREFIX: &str = "bufferwright.";

@@ -5,7 +5,7 @@
 //! | key                              | value                                             |
 //! |----------------------------------|---------------------------------------------------|
 //! | `bufferwright.index`             | `{"schema":1,"ids":["k1a2b3",...]}`               |
-//! | `bufferwright.design.<id>`       | one solver design document (`solver::design`)     |
+//! | `bufferwright.design.<id>`       | one solver design document (`solver::document`)     |
 //! | `bufferwright.tabdraft.<tab>`    | one tab's working design + which saved design it edits |
 //! | `bufferwright.alive.<tab>`       | an open tab's last sign of life (removed on close) |
 //! | `bufferwright.setaside.<id>`     | work set aside when a share link replaced it (last ten) |
@@ -54,7 +54,7 @@ pub use transfer::*;
 
 use crate::state::AppState;
 use leptos::prelude::*;
-use solver::design::Design;
+use solver::document::Design;
 
 /// How serious a notice is.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -691,7 +691,7 @@ pub fn format_when(ms: f64, tz_offset_min: f64) -> String {
 pub(crate) mod testkit {
     //! Helpers shared by the native tests of this folder.
     use super::{save_design, MemStore, SaveOutcome, SaveTarget};
-    use solver::design::{demo_design, Design};
+    use solver::document::{demo_design, Design};
 
     /// The demo design under another name and target pH.
     pub fn named(name: &str, ph: f64) -> Design {
@@ -730,7 +730,7 @@ mod tests {
         assert!(!failing.contains(" is kept automatically"), "{failing}");
         let o = OpenRef {
             id: "k1".into(),
-            saved: solver::design::demo_design(),
+            saved: solver::document::demo_design(),
         };
         let s = status_line(Some(&o), true, &Keeping::Failing("x".into()));
         assert!(

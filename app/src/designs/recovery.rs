@@ -3,7 +3,7 @@
 use super::drafts::{closed_drafts, list_set_aside, parse_stored, StoredDraft};
 use super::index::{EntryKind, Quarantined, QUARANTINE_PREFIX};
 use super::kv::{KvStore, StoreError};
-use solver::design::parse_design;
+use solver::document::parse_design;
 use solver::error::SolverError;
 
 fn between(text: &str, open: char, close: char) -> Option<&str> {
@@ -153,7 +153,7 @@ pub fn plain_reason(e: &SolverError) -> String {
                 format!("{}: {reason}", plain_place(field))
             }
         }
-        other => match solver::reagent::error_field(other) {
+        other => match solver::document::reagent::error_field(other) {
             Some(field) => {
                 let text = other.to_string();
                 let reason = text
@@ -335,7 +335,7 @@ mod tests {
         let r = plain_reason(&parse_design("nonsense").unwrap_err());
         assert!(r.contains("not well-formed"), "{r}");
         let mut v: serde_json::Value =
-            serde_json::from_str(&solver::design::to_json(&named("A", 7.0))).unwrap();
+            serde_json::from_str(&solver::document::to_json(&named("A", 7.0))).unwrap();
         v["recipe"]["target_ph"] = serde_json::json!("seven");
         let r = plain_reason(&parse_design(&v.to_string()).unwrap_err());
         assert!(

@@ -2,8 +2,8 @@
 
 use super::drafts::{parse_stored, StoredDraft};
 use super::recovery::plain_reason;
-use solver::design::{parse_design, to_json, Design};
-use solver::salvage::{salvage_design, RefusedPart};
+use solver::document::salvage::{salvage_design, RefusedPart};
+use solver::document::{parse_design, to_json, Design};
 
 /// Why the reader would refuse `d` as stored (in plain words), or `None` when it reads back.
 /// The same text the page writes is read by the same function every later read uses.
@@ -51,7 +51,7 @@ pub fn salvage_notice(refused: &[RefusedPart]) -> String {
 mod tests {
     use super::super::drafts::{stored_text, Draft};
     use super::*;
-    use solver::design::demo_design;
+    use solver::document::demo_design;
     use solver::mixture::{Additive, AdditiveSpec};
 
     #[test]

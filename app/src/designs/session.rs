@@ -276,7 +276,7 @@ impl Store {
             Err(e) => return self.fail(&e),
         };
         if key.starts_with(QUARANTINE_PREFIX) {
-            if let Ok(d) = solver::design::parse_design(&raw) {
+            if let Ok(d) = solver::document::parse_design(&raw) {
                 match import_designs(&mut kv, std::slice::from_ref(&d), now_ms()) {
                     Ok(_) => {
                         let _ = kv.remove(key);
@@ -352,7 +352,7 @@ impl Store {
             let d = s.draft.design;
             return download(&file_name(&d.name), &export_one(&d));
         }
-        if let Ok(d) = solver::design::parse_design(&raw) {
+        if let Ok(d) = solver::document::parse_design(&raw) {
             return download(&file_name(&d.name), &export_one(&d));
         }
         let id: String = key

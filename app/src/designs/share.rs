@@ -9,7 +9,7 @@
 //!
 //! The fragment never reaches a server (browsers do not send it), so a share
 //! link works from `file://`, from any static host and offline. Decoding goes
-//! through [`solver::design::parse_design`], so an old or hand-edited link is
+//! through [`solver::document::parse_design`], so an old or hand-edited link is
 //! migrated and checked field by field like an imported file.
 //!
 //! Invariant: everything here is pure string work; the page glue that reads
@@ -18,7 +18,7 @@
 use base64::engine::general_purpose::{GeneralPurpose, GeneralPurposeConfig, URL_SAFE_NO_PAD};
 use base64::engine::DecodePaddingMode;
 use base64::{alphabet, Engine as _};
-use solver::design::{parse_design, to_json, Design};
+use solver::document::{parse_design, to_json, Design};
 
 /// Fragment parameter of a checked, compressed link (current format).
 pub const FRAGMENT_KEY: &str = "z";
@@ -229,7 +229,7 @@ pub fn page_base(href: &str) -> &str {
 )]
 mod tests {
     use super::*;
-    use solver::design::demo_design;
+    use solver::document::demo_design;
 
     #[test]
     fn crc32_is_the_standard_one() {

@@ -3,7 +3,7 @@
 use super::index::{design_key, ids_for_write, scan, sort_newest_first, to_base36, write_index};
 use super::kv::{KvStore, StoreError};
 use serde::Serialize;
-use solver::design::{parse_design_value, to_json, to_json_pretty, Design};
+use solver::document::{parse_design_value, to_json, to_json_pretty, Design};
 use std::collections::HashSet;
 
 /// `format` value of a file holding several designs.

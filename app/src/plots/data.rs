@@ -5,7 +5,7 @@
 //! comes from [`solver::mixture`]; this module only picks grid points and
 //! formats them.
 
-use solver::design::{Design, PlotSource};
+use solver::document::{Design, PlotSource};
 use solver::mixture::{prepare, species_curves, titration_curve, MixtureSpec};
 use solver::recipe::solve_recipe;
 use solver::system::AcidSystem;
@@ -406,7 +406,7 @@ pub fn added_label(added_mm: f64) -> String {
 #[cfg(test)]
 pub(crate) mod tests {
     use super::*;
-    use solver::design::demo_design;
+    use solver::document::demo_design;
 
     /// The demo design's recipe (phosphate, pH 7.4 at 37 °C) as plot data.
     pub(crate) fn recipe_data() -> PlotData {

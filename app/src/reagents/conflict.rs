@@ -2,8 +2,8 @@
 
 use crate::designs::recovery::plain_reason;
 use crate::widgets::format::fmt_input;
-use solver::design::Design;
-use solver::reagent::Reagent;
+use solver::document::reagent::Reagent;
+use solver::document::Design;
 use solver::system::{AcidSystem, ReagentForm};
 use solver::SolverError;
 
@@ -106,12 +106,12 @@ pub fn plain_file_reason(e: &SolverError) -> String {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used)]
+#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
-    use solver::design::demo_design;
-    use solver::library::find_system;
-    use solver::reagent::parse_reagent;
+    use solver::document::demo_design;
+    use solver::document::reagent::parse_reagent;
+    use solver::system::library::find_system;
 
     fn mine(pk: f64) -> AcidSystem {
         let mut s = find_system("acetate").unwrap().clone();
@@ -144,9 +144,9 @@ mod tests {
             let why = plain_file_reason(&parse_reagent(text).unwrap_err());
             assert!(!why.contains("EOF") && !why.contains("expected"), "{why}");
         }
-        let mut v: serde_json::Value = serde_json::from_str(&solver::reagent::reagent_to_json(
-            &Reagent::System(mine(4.2)),
-        ))
+        let mut v: serde_json::Value = serde_json::from_str(
+            &solver::document::reagent::reagent_to_json(&Reagent::System(mine(4.2))),
+        )
         .unwrap();
         v["reagent"]["system"]["steps"][0]["pk25"] = serde_json::json!("four");
         let why = plain_file_reason(&parse_reagent(&v.to_string()).unwrap_err());

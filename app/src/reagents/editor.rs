@@ -7,9 +7,9 @@ use super::shelf::{put_reagent, read_shelf, remove_reagent, Shelf};
 use crate::designs::kv::LocalStore;
 use crate::state::use_app;
 use leptos::prelude::*;
-use solver::design::Design;
-use solver::library::find_system;
-use solver::reagent::{parse_reagent, reagent_file_name, reagent_to_json, Reagent};
+use solver::document::reagent::{parse_reagent, reagent_file_name, reagent_to_json, Reagent};
+use solver::document::Design;
+use solver::system::library::find_system;
 use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 

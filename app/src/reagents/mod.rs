@@ -1,7 +1,7 @@
 //! The user's own reagents in the page: the editor (a new acid system, or shelf forms added to
 //! one), its plain-Rust model, the per-browser reagent shelf, and the notes result panels show.
 //!
-//! Everything is judged by the solver (`solver::reagent`): the editor never checks a value
+//! Everything is judged by the solver (`solver::document::reagent`): the editor never checks a value
 //! the solver would not. A reagent goes into the design (`custom_systems`, `custom_forms`), so
 //! it travels with exports and share links; the shelf only makes it easy to reuse.
 

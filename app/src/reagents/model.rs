@@ -2,14 +2,16 @@
 //! forms it builds, and each field's message from the solver's own checks.
 //!
 //! Numbers are read with the page's strict parser ([`parse_number`]); everything else is
-//! judged by `solver::reagent` (`system_field_problems` for a new system,
+//! judged by `solver::document::reagent` (`system_field_problems` for a new system,
 //! `validate_custom_forms` for forms added to an existing one), whose field paths
 //! (`system.steps[1].pk25`) are turned into this editor's field keys (`rg-step-1-pk`).
 
 use crate::widgets::format::{fmt_input, parse_number};
-use solver::formula::molar_mass;
-use solver::library::{find_system, library};
-use solver::reagent::{error_field, system_field_problems, validate_custom_forms, Reagent};
+use solver::document::reagent::{
+    error_field, system_field_problems, validate_custom_forms, Reagent,
+};
+use solver::system::formula::molar_mass;
+use solver::system::library::{find_system, library};
 use solver::system::{AcidSystem, CustomForm, Ion, ReagentForm, Step, TempModel, MAX_STEPS};
 use solver::SolverError;
 use std::collections::BTreeMap;

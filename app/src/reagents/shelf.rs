@@ -7,7 +7,7 @@
 //! place, storage errors returned to the caller to show.
 
 use crate::designs::kv::{KvStore, StoreError};
-use solver::reagent::{parse_reagent, reagent_to_json, Reagent};
+use solver::document::reagent::{parse_reagent, reagent_to_json, Reagent};
 
 /// Prefix of the shelf's keys.
 pub const SHELF_PREFIX: &str = "bufferwright.reagent.";
@@ -94,7 +94,7 @@ pub fn remove_reagent(kv: &mut dyn KvStore, id: &str) -> Result<(), StoreError> 
 mod tests {
     use super::*;
     use crate::designs::kv::MemStore;
-    use solver::library::find_system;
+    use solver::system::library::find_system;
     use solver::system::AcidSystem;
 
     fn mine() -> Reagent {

@@ -225,7 +225,7 @@ pub fn ModelNote() -> impl IntoView {
 #[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
-    use solver::library::find_system;
+    use solver::system::library::find_system;
 
     #[test]
     fn strong_reagents_and_hazards() {

@@ -446,7 +446,9 @@ pub fn pretty_formula(text: &str) -> String {
 fn pretty_word(word: &str) -> String {
     const SUB: [char; 10] = ['₀', '₁', '₂', '₃', '₄', '₅', '₆', '₇', '₈', '₉'];
     let core = word.trim_end_matches(['.', ',', ';', ':']);
-    if !word.chars().any(|c| c.is_ascii_digit()) || solver::formula::molar_mass(core).is_err() {
+    if !word.chars().any(|c| c.is_ascii_digit())
+        || solver::system::formula::molar_mass(core).is_err()
+    {
         return word.to_string();
     }
     let mut out = String::with_capacity(word.len() + 8);

@@ -9,9 +9,9 @@
 use crate::state::use_app;
 use crate::widgets::format::{best_unit, check_in, fmt_input, uses_decimal_comma, Rule, Unit};
 use leptos::prelude::*;
-use solver::library::library;
+use solver::system::library::library;
+use solver::system::thermo::system_pks;
 use solver::system::AcidSystem;
-use solver::thermo::system_pks;
 
 /// A labelled number input with optional unit picker and an inline message.
 ///
@@ -339,7 +339,7 @@ pub fn all_systems(custom: &[AcidSystem]) -> Vec<AcidSystem> {
 /// How a picker marks the user's own reagents: a system of the user's, or a
 /// library system with shelf forms the user added; `None` for a plain library system.
 pub fn user_mark(sys: &AcidSystem) -> Option<&'static str> {
-    match solver::library::find_system(&sys.id) {
+    match solver::system::library::find_system(&sys.id) {
         None => Some("your reagent"),
         Some(lib) if lib != sys => Some("with your shelf forms"),
         Some(_) => None,
@@ -370,7 +370,7 @@ pub fn SystemPicker(
     let app = use_app();
     let readonly = move || app.view.with(|v| v.readonly);
     let query = RwSignal::new(String::new());
-    let custom = Memo::new(move |_| app.design.with(solver::design::Design::systems));
+    let custom = Memo::new(move |_| app.design.with(solver::document::Design::systems));
     let shown = Memo::new(move |_| {
         let t = temperature.get();
         let q = query.get();
@@ -470,7 +470,7 @@ pub fn SystemPicker(
 #[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
-    use solver::library::find_system;
+    use solver::system::library::find_system;
 
     #[test]
     fn search_by_name_formula_species_or_ph() {

@@ -162,7 +162,7 @@ fn inputs_and_custom() -> (
     let design = app.design;
     (
         Memo::new(move |_| design.with(|d| d.uncertainty.clone())),
-        Memo::new(move |_| design.with(solver::design::Design::systems)),
+        Memo::new(move |_| design.with(solver::document::Design::systems)),
     )
 }
 
@@ -388,7 +388,7 @@ pub fn UncertaintyFields(
 #[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
-    use solver::design::demo_design;
+    use solver::document::demo_design;
     use solver::recipe::solve_recipe;
 
     #[test]

@@ -24,7 +24,7 @@ use extras::{
     LimitVerdict, SALINITY,
 };
 use leptos::prelude::*;
-use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
+use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
 use solver::field::{
     field_reading, reporting_basis, target_species, FieldResult, FieldSpec, IonicSource, TotalUnit,
 };

@@ -12,14 +12,14 @@ use crate::widgets::format::{
 };
 use crate::widgets::inputs::{all_systems, system_label, Choice, ChoiceOption, NumberField};
 use leptos::prelude::*;
-use solver::activity::ActivityModel;
-use solver::design::PlotSource;
+use solver::document::PlotSource;
+use solver::equilibrium::activity::ActivityModel;
 use solver::equilibrium::Warning;
-use solver::library::find_form;
 use solver::mixture::{
     lookup, solve_mixture, what_if, Additive, AdditiveSpec, ComponentSpec, MixtureResult,
     MixtureSpec, WhatIf, WhatIfResult,
 };
+use solver::system::library::find_form;
 use solver::system::{AcidSystem, ReagentForm};
 use solver::SolverError;
 
@@ -492,7 +492,7 @@ fn MixtureResultView(
     let plot_here = move |_| {
         app.design.update(|d| {
             d.plot_source = PlotSource::Mixture;
-            d.workspace = solver::design::Workspace::Species;
+            d.workspace = solver::document::Workspace::Species;
         });
     };
     let body = move || {

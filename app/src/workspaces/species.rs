@@ -10,7 +10,7 @@ use crate::plots::data::{self, added_label, conc_text, short, sig, PlotData, Qua
 use crate::plots::draw::{self, Frame};
 use crate::state::use_app;
 use leptos::prelude::*;
-use solver::design::PlotSource;
+use solver::document::PlotSource;
 
 /// Where the pointer (or the arrow keys) last put the cursor.
 #[derive(Debug, Clone, Copy, PartialEq)]

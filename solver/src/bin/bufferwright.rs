@@ -15,7 +15,7 @@
 //! `uncertainty` prints the uncertainty budgets of a design (`solver::uncertainty`).
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
 
-use solver::design::{demo_design, parse_design, report, to_json_pretty, Report};
+use solver::document::{demo_design, parse_design, report, to_json_pretty, Report};
 use solver::recipe::{format_mass, format_volume_ml, sig, sig_trim, METER_NOTE};
 use std::io::Read;
 use std::process::ExitCode;
@@ -40,8 +40,10 @@ fn main() -> ExitCode {
         return ExitCode::from(code);
     }
     if args.first().map(String::as_str) == Some("uncertainty") {
-        let (out, err, code) =
-            solver::uncertainty::uncertainty_command(args.get(1..).unwrap_or(&[]), &read_source);
+        let (out, err, code) = solver::cli::uncertainty::uncertainty_command(
+            args.get(1..).unwrap_or(&[]),
+            &read_source,
+        );
         print!("{out}");
         eprint!("{err}");
         return ExitCode::from(code);
@@ -122,7 +124,7 @@ fn emit(out: solver::cli::CliOutput) -> ExitCode {
 
 /// Read a file (or stdin for `-`), at most one byte past the log size limit.
 fn read_limited(path: &str) -> Result<Vec<u8>, String> {
-    let limit = solver::csv::MAX_BYTES as u64 + 1;
+    let limit = solver::field::csv::MAX_BYTES as u64 + 1;
     let mut buf = Vec::new();
     let r = if path == "-" {
         std::io::stdin().take(limit).read_to_end(&mut buf)

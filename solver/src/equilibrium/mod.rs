@@ -40,9 +40,11 @@
 //! bisection-safeguarded Newton in pH nested in a fixed-point loop on I takes
 //! over. Nothing in the iteration allocates.
 
-use crate::activity::{gamma1, ActivityModel, DAVIES_LIMIT};
+pub mod activity;
+
 use crate::error::{Result, SolverError};
 use crate::system::MAX_STEPS;
+use activity::{gamma1, ActivityModel, DAVIES_LIMIT};
 use serde::{Deserialize, Serialize};
 
 const LN10: f64 = std::f64::consts::LN_10;
@@ -498,7 +500,7 @@ fn total_capacity(c: &Composition, ph: f64, ionic: f64, g1: f64) -> Option<f64> 
 ///
 /// ```
 /// use solver::equilibrium::{solve, Composition};
-/// use solver::activity::ActivityModel;
+/// use solver::equilibrium::activity::ActivityModel;
 /// let c = Composition {
 ///     acids: vec![],
 ///     spectator_charge: -1e-8, // Cl⁻ from HCl

@@ -23,16 +23,16 @@ pub use spec::*;
 use steps::{bench_steps, steps_text};
 pub use steps::{format_mass, format_volume_ml, sig, sig_trim};
 
-use crate::activity::{ActivityModel, DAVIES_LIMIT};
+use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{solve, solve_addition};
 use crate::error::{clip, in_range, non_negative, Result, SolverError, QUOTE_MAX};
-use crate::formula::molar_mass;
-use crate::library::{counter_charge, find_form};
 use crate::mixture::{
     lookup, prepare, tolerance, Additive, AdditiveSpec, ComponentSpec, MixtureSpec,
 };
+use crate::system::formula::molar_mass;
+use crate::system::library::{counter_charge, find_form};
+use crate::system::thermo::system_pks;
 use crate::system::{AcidSystem, ReagentForm};
-use crate::thermo::system_pks;
 
 struct FormInfo<'a> {
     form: &'a ReagentForm,
@@ -561,7 +561,7 @@ fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
 ///
 /// ```
 /// use solver::recipe::{solve_recipe, RecipeSpec, Method};
-/// use solver::activity::ActivityModel;
+/// use solver::equilibrium::activity::ActivityModel;
 /// let spec = RecipeSpec {
 ///     system: "phosphate".into(),
 ///     target_ph: 7.4,

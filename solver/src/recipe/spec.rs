@@ -1,7 +1,7 @@
 //! What a recipe asks for (method, target, bench options) and what it returns (ingredients, meter reading, concentrate, warnings).
 
 use super::steps::{sig, sig_trim};
-use crate::activity::{ActivityModel, DAVIES_LIMIT};
+use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::Equilibrium;
 use crate::mixture::{Additive, AdditiveSpec, MixtureSpec, Tolerance};
 use serde::{Deserialize, Serialize};

@@ -61,7 +61,7 @@ pub(crate) fn dissolving_ml(v_ml: f64, titrant_ml: f64) -> Option<f64> {
         return Some(usual);
     }
     let room = v_ml * (1.0 - MAKE_UP_SHARE) - titrant_ml;
-    if !(room > 0.0) {
+    if room.is_nan() || room <= 0.0 {
         return None;
     }
     let step = 10f64.powf(room.log10().floor() - 1.0);

@@ -4,12 +4,12 @@ use super::{
     pk_uncertainty, suggested_flask_ml, suggested_pour_ml, BudgetRow, Distribution, Uncertainty,
     UncertaintyInputs, UncertaintyWarning, COVERAGE_FACTOR, DEFAULT_U_PK, SQRT3,
 };
-use crate::activity::ActivityModel;
+use crate::equilibrium::activity::ActivityModel;
 use crate::equilibrium::solve;
 use crate::error::{in_range, Result};
-use crate::library::find_form;
 use crate::mixture::{lookup, prepare, MixtureSpec};
 use crate::recipe::{RecipeResult, RecipeSpec};
+use crate::system::library::find_form;
 use crate::system::AcidSystem;
 
 #[derive(Debug, Clone)]

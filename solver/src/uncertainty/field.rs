@@ -1,7 +1,7 @@
 //! Uncertainty of each species fraction of a field reading, from the pH meter, the temperature and the pK data.
 
 use super::{pk_uncertainty, UncertaintyInputs, COVERAGE_FACTOR, DEFAULT_U_PK, SQRT3};
-use crate::activity::ActivityModel;
+use crate::equilibrium::activity::ActivityModel;
 use crate::error::Result;
 use crate::field::{field_reading, FieldResult, FieldSpec};
 use crate::mixture::{lookup, prepare, MixtureSpec};

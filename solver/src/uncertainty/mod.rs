@@ -33,14 +33,12 @@
 //! checks the first-order result where the model is not linear.
 
 mod budget;
-mod cli;
 mod field;
 mod inputs;
 mod monte_carlo;
 mod pk;
 
 pub use budget::{mixture_uncertainty, recipe_uncertainty};
-pub use cli::{budget_text, uncertainty_command};
 pub use field::{field_uncertainty, FieldUncertainty, FractionBudgetRow, SpeciesUncertainty};
 pub use inputs::{
     suggested_flask_ml, suggested_pour_ml, UncertaintyInputs, FLASK_CLASS_A, PIPETTE_CLASS_A,
@@ -48,8 +46,6 @@ pub use inputs::{
 pub use monte_carlo::{mixture_monte_carlo, recipe_monte_carlo, MonteCarlo};
 pub use pk::{pk_uncertainty, PkUncertainty, DEFAULT_U_PK, PK_UNCERTAINTY};
 
-use crate::error::SolverError;
-use crate::field::field_reading;
 use serde::{Deserialize, Serialize};
 
 /// Coverage factor for the expanded uncertainty (about 95 %).
@@ -170,41 +166,4 @@ pub struct Uncertainty {
     pub warnings: Vec<UncertaintyWarning>,
     /// The warnings as text, same order.
     pub notes: Vec<String>,
-}
-
-// ------------------------------------------------------------ whole design
-
-/// Uncertainty of every part of a design that has one; each part is a
-/// result or the error message for that part.
-#[derive(Debug, Clone, Serialize)]
-pub struct DesignUncertainty {
-    /// Inputs used.
-    pub inputs: UncertaintyInputs,
-    /// Recipe pH.
-    pub recipe: std::result::Result<Uncertainty, String>,
-    /// Mixture (flask) pH, with the recipe's tolerance window for warnings.
-    pub mixture: std::result::Result<Uncertainty, String>,
-    /// Field reading fractions.
-    pub field: std::result::Result<FieldUncertainty, String>,
-}
-
-/// Uncertainty of the recipe, mixture and field reading of a design.
-pub fn design_uncertainty(
-    d: &crate::design::Design,
-    inputs: &UncertaintyInputs,
-) -> DesignUncertainty {
-    let systems = d.systems();
-    let custom = &systems;
-    let s = |e: SolverError| e.to_string();
-    let recipe = crate::recipe::solve_recipe(&d.recipe, custom)
-        .and_then(|r| recipe_uncertainty(&d.recipe, &r, inputs, custom));
-    let mixture = mixture_uncertainty(&d.mixture, inputs, custom, Some(d.recipe.tolerance_ph));
-    let field = field_reading(&d.field, custom)
-        .and_then(|r| field_uncertainty(&d.field, &r, inputs, custom));
-    DesignUncertainty {
-        inputs: inputs.clone(),
-        recipe: recipe.map_err(s),
-        mixture: mixture.map_err(s),
-        field: field.map_err(s),
-    }
 }

@@ -152,10 +152,10 @@ fn several_systems_get_labelled_entries_and_per_system_pks() {
         conc_m,
     };
     let src = super::super::data::Source {
-        kind: solver::design::PlotSource::Mixture,
+        kind: solver::document::PlotSource::Mixture,
         mixture: MixtureSpec {
             temperature_c: 25.0,
-            activity: solver::activity::ActivityModel::Davies,
+            activity: solver::equilibrium::activity::ActivityModel::Davies,
             components: vec![comp("citrate", 0.02), comp("acetate", 0.03)],
             additives: vec![],
         },

@@ -8,9 +8,9 @@ use crate::state::use_app;
 use crate::widgets::format::{error_field, error_message, fmt_ph, fmt_sig, Rule};
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField};
 use leptos::prelude::*;
-use solver::carbonate_field::{Alkalinity, AlkalinityUnit};
+use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
+use solver::field::limit::{Limit, LimitResult, LimitUnit};
 use solver::field::{target_species, FieldResult, FieldSpec, FieldSpecies};
-use solver::field_limit::{Limit, LimitResult, LimitUnit};
 use solver::SolverError;
 
 /// Practical salinity, PSU.
@@ -258,7 +258,7 @@ pub fn LimitVerdict(limit: LimitResult) -> impl IntoView {
 
 /// Carbonate system from the alkalinity: DIC, free CO₂, HCO₃⁻, CO₃²⁻.
 #[component]
-pub fn CarbonateFacts(carbonate: solver::carbonate_field::CarbonateResult) -> impl IntoView {
+pub fn CarbonateFacts(carbonate: solver::field::carbonate::CarbonateResult) -> impl IntoView {
     let c = carbonate;
     view! {
         <dl class="facts carbonate-facts" data-testid="field-carbonate">

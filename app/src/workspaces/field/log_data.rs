@@ -1,6 +1,6 @@
 //! A day's log, the pure part: column roles for the mapping table, overrides, and the running summary built chunk by chunk.
 
-use solver::field_log::{Columns, LogPlan, Role, RowOutcome};
+use solver::field::log::{Columns, LogPlan, Role, RowOutcome};
 
 /// Rows shown from the start of the log.
 pub const FIRST_ROWS: usize = 20;
@@ -217,8 +217,8 @@ pub fn append_csv(out: &mut String, chunk_csv: &str) {
 )]
 mod tests {
     use super::*;
-    use solver::field_limit::{Limit, LimitUnit};
-    use solver::field_log::LogOptions;
+    use solver::field::limit::{Limit, LimitUnit};
+    use solver::field::log::LogOptions;
 
     fn plan(text: &str, mapping: Vec<(Role, String)>) -> Option<LogPlan> {
         let mut o = LogOptions::new("ammonium");

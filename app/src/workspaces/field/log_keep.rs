@@ -3,7 +3,7 @@
 use crate::designs::side::DAY_LOG;
 use crate::designs::use_store;
 use serde::{Deserialize, Serialize};
-use solver::field_log::Role;
+use solver::field::log::Role;
 use std::cell::RefCell;
 
 /// Largest log text kept across a reload (characters): browser storage is small and

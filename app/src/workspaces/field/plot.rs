@@ -5,8 +5,8 @@ use crate::plots::canvas::{CanvasArea, PlotCanvas};
 use crate::plots::draw::{self, Frame};
 use crate::plots::field::{draw_fraction, fraction_summary, FractionView};
 use leptos::prelude::*;
+use solver::field::plot::fraction_curves;
 use solver::field::{FieldResult, FieldSpec};
-use solver::field_plot::fraction_curves;
 use solver::system::AcidSystem;
 use solver::SolverError;
 
@@ -154,8 +154,8 @@ pub fn FractionPlot(
 )]
 mod tests {
     use super::*;
+    use solver::field::limit::{Limit, LimitUnit};
     use solver::field::{field_reading, IonicSource, TotalUnit};
-    use solver::field_limit::{Limit, LimitUnit};
 
     #[test]
     fn ammonia_view_has_three_temperatures_and_the_limit() {

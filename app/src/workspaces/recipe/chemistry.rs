@@ -10,7 +10,7 @@ use crate::plots::data::{self, short, sig, PlotData, Source};
 use crate::plots::draw::{self, Marks};
 use crate::workspaces::species::DataTable;
 use leptos::prelude::*;
-use solver::design::PlotSource;
+use solver::document::PlotSource;
 use solver::recipe::{RecipeResult, RecipeSpec};
 use solver::system::AcidSystem;
 use solver::SolverError;
@@ -151,7 +151,7 @@ pub(crate) fn RecipeChemistry(
 #[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
-    use solver::design::demo_design;
+    use solver::document::demo_design;
     use solver::recipe::solve_recipe;
 
     #[test]

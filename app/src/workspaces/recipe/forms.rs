@@ -3,9 +3,9 @@
 //! pK keeping the user's hydrate and counter-ion.
 
 use crate::widgets::format::pretty_formula;
-use solver::library::find_form;
 use solver::mixture::{lookup, Additive};
 use solver::recipe::{form_level, suggest_pair, Method, RecipeSpec};
+use solver::system::library::find_form;
 use solver::system::AcidSystem;
 
 /// Short key of a method (`two_forms`, `titrate`, `two_stocks`).

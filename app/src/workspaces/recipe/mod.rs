@@ -33,7 +33,7 @@ use crate::widgets::format::{
 };
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
 use leptos::prelude::*;
-use solver::activity::ActivityModel;
+use solver::equilibrium::activity::ActivityModel;
 use solver::mixture::{lookup, Additive};
 use solver::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
 use solver::system::AcidSystem;

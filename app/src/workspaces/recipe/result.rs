@@ -7,7 +7,7 @@ use crate::widgets::format::{
     error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_input, fmt_ph, fmt_sig, pretty_formula,
 };
 use leptos::prelude::*;
-use solver::activity::ActivityModel;
+use solver::equilibrium::activity::ActivityModel;
 use solver::equilibrium::Warning;
 use solver::mixture::{lookup, Additive};
 use solver::recipe::{

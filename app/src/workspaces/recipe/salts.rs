@@ -230,7 +230,7 @@ fn SaltRow(
 #[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
-    use solver::design::demo_design;
+    use solver::document::demo_design;
     use solver::recipe::solve_recipe;
 
     fn spec_with(salts: Vec<AdditiveSpec>) -> RecipeSpec {

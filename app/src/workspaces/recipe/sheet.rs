@@ -303,7 +303,7 @@ mod tests {
 
     #[test]
     fn a_real_share_link_fits_and_an_oversized_text_is_refused() {
-        let d = solver::design::demo_design();
+        let d = solver::document::demo_design();
         let link = share_url("https://example.org/bufferwright/", &d);
         let q = qr_svg(&link).unwrap();
         assert!(q.size <= 177 + 8, "a QR code is at most version 40");

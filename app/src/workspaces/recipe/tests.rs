@@ -7,10 +7,10 @@
 )]
 use super::*;
 use crate::widgets::cautions::Caution;
-use solver::design::demo_design;
-use solver::library::find_form;
+use solver::document::demo_design;
 use solver::mixture::lookup;
 use solver::recipe::solve_recipe;
+use solver::system::library::find_form;
 
 fn forms(spec: &RecipeSpec) -> (String, String) {
     match &spec.method {

@@ -1,13 +1,13 @@
 //! pH × temperature tables of one species' fraction or concentration, as CSV, Markdown or a standalone HTML page.
 
 use crate::error::{in_range, Result, SolverError};
+use crate::field::log::ascii_name;
+use crate::field::seawater::{outside_note, seawater_note, PkModel};
 use crate::field::{
     ionic_from, reporting_bases, target_species, total_to_molar, FieldSample, IonicSource,
     TotalUnit,
 };
-use crate::field_log::ascii_name;
 use crate::mixture::lookup;
-use crate::seawater::{outside_note, seawater_note, PkModel};
 use crate::system::{AcidSystem, Hazard};
 use serde::{Deserialize, Serialize};
 
@@ -84,7 +84,7 @@ pub struct Grid {
 /// # Example
 ///
 /// ```
-/// # use solver::grid::parse_axis;
+/// # use solver::field::grid::parse_axis;
 /// assert_eq!(parse_axis("ph", "6:7:0.5")?, vec![6.0, 6.5, 7.0]);
 /// assert_eq!(parse_axis("ph", "7.2")?, vec![7.2]);
 /// assert!(parse_axis("ph", "9:6:1").is_err());
@@ -216,7 +216,7 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
             let m = total_to_molar(&sys.id, t, spec.total_unit)?;
             match reporting_bases(&sys.id).first() {
                 Some((b, f)) => (
-                    m * crate::formula::molar_mass(f)? * 1000.0,
+                    m * crate::system::formula::molar_mass(f)? * 1000.0,
                     format!("mg/L as {b}"),
                 ),
                 None => (m * 1000.0, "mmol/L".to_string()),
@@ -253,7 +253,7 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
             warnings.push(outside_note(psu, t));
         }
     }
-    if ionic > crate::activity::DAVIES_LIMIT && !columns.iter().all(sea) {
+    if ionic > crate::equilibrium::activity::DAVIES_LIMIT && !columns.iter().all(sea) {
         warnings.push(crate::field::beyond_davies_warning(ionic));
     }
     Ok(Grid {
@@ -270,26 +270,26 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
 }
 
 fn cell(v: f64) -> String {
-    crate::csv::format_number(v, false)
+    crate::field::csv::format_number(v, false)
 }
 
 fn axis(v: f64) -> String {
-    crate::csv::format_number(v, false)
+    crate::field::csv::format_number(v, false)
 }
 
 /// The grid as CSV: first column pH, one column per temperature.
 pub fn render_csv(g: &Grid) -> String {
-    let sep = crate::csv::Separator::Comma;
+    let sep = crate::field::csv::Separator::Comma;
     let mut out = String::new();
     let head: Vec<String> = std::iter::once("pH".to_string())
         .chain(g.temperatures_c.iter().map(|t| format!("{} °C", axis(*t))))
         .collect();
-    crate::csv::push_row(&mut out, head.iter().map(String::as_str), sep);
+    crate::field::csv::push_row(&mut out, head.iter().map(String::as_str), sep);
     for (p, row) in g.ph.iter().zip(&g.values) {
         let cells: Vec<String> = std::iter::once(axis(*p))
             .chain(row.iter().map(|v| cell(*v)))
             .collect();
-        crate::csv::push_row(&mut out, cells.iter().map(String::as_str), sep);
+        crate::field::csv::push_row(&mut out, cells.iter().map(String::as_str), sep);
     }
     out
 }

@@ -13,7 +13,7 @@
 
 use crate::error::{finite, Result, SolverError};
 use crate::field::{target_species, FieldSample};
-use crate::formula::molar_mass;
+use crate::system::formula::molar_mass;
 use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};
 

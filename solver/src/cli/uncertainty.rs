@@ -1,6 +1,7 @@
 //! The `bufferwright uncertainty` command without its IO, and the plain-text budget it prints.
 
-use super::{design_uncertainty, Uncertainty, UncertaintyInputs};
+use crate::document::report::design_uncertainty;
+use crate::uncertainty::{Uncertainty, UncertaintyInputs};
 
 /// Plain-text budget of one pH uncertainty (for the command line).
 pub fn budget_text(title: &str, u: &Uncertainty) -> String {
@@ -66,7 +67,7 @@ pub fn uncertainty_command(
         Ok(t) => t,
         Err(e) => return (String::new(), format!("{e}\n"), 1),
     };
-    let design = match crate::design::parse_design(&text) {
+    let design = match crate::document::design::parse_design(&text) {
         Ok(d) => d,
         Err(e) => return (String::new(), format!("invalid design: {e}\n"), 1),
     };

@@ -2,16 +2,16 @@
 //! sees, the standalone reagent file, and the per-field checks a reagent editor shows.
 //!
 //! One mechanism checks everything: [`validate_user_system`] is
-//! [`crate::thermo::validate_system`] plus the one rule it leaves out (a form's counter-ions
+//! [`crate::system::thermo::validate_system`] plus the one rule it leaves out (a form's counter-ions
 //! must leave the system in a charge its species can carry). Added forms, reagent files and
 //! the editor's per-field messages all run it, on the system or on parts of it.
 
 use crate::error::{clip, quote, Result, SolverError, QUOTE_MAX};
-use crate::formula::element_count;
-use crate::library::{counter_charge, find_system};
 use crate::mixture::lookup;
+use crate::system::formula::element_count;
+use crate::system::library::{counter_charge, find_system};
+use crate::system::thermo::validate_system;
 use crate::system::{AcidSystem, CustomForm, Ion, ReagentForm, Step, TempModel};
-use crate::thermo::validate_system;
 use serde::{Deserialize, Serialize};
 
 /// Version of the standalone reagent file ([`ReagentFile::bufferwright_reagent`]).
@@ -167,7 +167,7 @@ fn check_name(field: String, name: &str) -> Result<()> {
 fn check_system_name(sys: &AcidSystem) -> Result<()> {
     check_name("system.name".into(), &sys.name)?;
     let name = sys.name.trim();
-    if let Some(lib) = crate::library::library()
+    if let Some(lib) = crate::system::library::library()
         .iter()
         .find(|l| l.id != sys.id && l.name.trim().eq_ignore_ascii_case(name))
     {
@@ -338,10 +338,11 @@ fn file_err(field: &str, reason: impl Into<String>) -> SolverError {
 /// # Example
 ///
 /// ```
-/// use solver::reagent::{parse_reagent, reagent_to_json, Reagent};
-/// let lib = solver::library::find_system("acetate").cloned().ok_or(solver::SolverError::Unknown {
+/// use solver::document::reagent::{parse_reagent, reagent_to_json, Reagent};
+/// let lib = solver::system::library::find_system("acetate").cloned().ok_or(solver::SolverError::Unknown {
 ///     kind: "system".into(), name: "acetate".into() })?;
-/// let r = Reagent::System(solver::system::AcidSystem { id: "my_acetate".into(), ..lib });
+/// let r = Reagent::System(solver::system::AcidSystem {
+///     id: "my_acetate".into(), name: "My acetate".into(), ..lib });
 /// assert_eq!(parse_reagent(&reagent_to_json(&r))?, r);
 /// assert!(parse_reagent("{\"bufferwright_reagent\": 1}").is_err());
 /// # Ok::<(), solver::SolverError>(())
@@ -376,10 +377,10 @@ pub fn parse_reagent(text: &str) -> Result<Reagent> {
             ))
         }
     }
-    let file: ReagentFile = crate::docpath::from_value(&value)
-        .map_err(|e| crate::design::serde_err(&e.path(), &e.message))?;
+    let file: ReagentFile = crate::document::docpath::from_value(&value)
+        .map_err(|e| crate::document::design::serde_err(&e.path(), &e.message))?;
     let back = serde_json::to_value(&file).unwrap_or(serde_json::Value::Null);
-    if let Some(field) = crate::design::extra_tagged_key(&value, &back, "") {
+    if let Some(field) = crate::document::design::extra_tagged_key(&value, &back, "") {
         return Err(file_err(
             &field,
             "unknown field (this kind takes no such key; check the spelling)",

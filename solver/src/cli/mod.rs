@@ -1,4 +1,4 @@
-//! The `log` and `grid` subcommands of the command-line entry, as pure functions: arguments (and file bytes) in, output text and exit code out.
+//! The commands of the command-line entry as pure functions, arguments (and file bytes) in, output text and exit code out: `log` and `grid` here, `uncertainty` in [`uncertainty`].
 //!
 //! ```text
 //! bufferwright log --system ID [options] FILE.csv|-
@@ -9,14 +9,16 @@
 //! the file was read but some rows could not be computed (they are in the
 //! output with their reason in the `error` column and listed on stderr).
 
-use crate::carbonate_field::AlkalinityUnit;
-use crate::csv::{Separator, MAX_BYTES};
-use crate::field::{IonicSource, TotalUnit};
-use crate::field_limit::{Limit, LimitUnit};
-use crate::field_log::{run_log, LogOptions, Role};
-use crate::grid::{
+pub mod uncertainty;
+
+use crate::field::carbonate::AlkalinityUnit;
+use crate::field::csv::{Separator, MAX_BYTES};
+use crate::field::grid::{
     parse_axis, render_csv, render_html, render_md, species_grid, GridSpec, Quantity,
 };
+use crate::field::limit::{Limit, LimitUnit};
+use crate::field::log::{run_log, LogOptions, Role};
+use crate::field::{IonicSource, TotalUnit};
 use crate::mixture::lookup;
 
 /// What a subcommand prints and returns.
@@ -277,7 +279,7 @@ pub fn log_command(
                 stderr.push_str(&format!("line {line}: {e}\n"));
             }
             if let Ok(sys) = lookup(&system, &[]) {
-                for c in crate::grid::cautions_for(&sys.hazards) {
+                for c in crate::field::grid::cautions_for(&sys.hazards) {
                     stderr.push_str(&format!("caution: {c}\n"));
                 }
             }

@@ -23,7 +23,7 @@
 //! | H₂S first step | ln K = 225.8375 − 13275.324/T − 34.64354·ln T | Millero (1988), freshwater |
 
 use crate::error::{finite, in_range, Result, SolverError};
-use crate::formula::molar_mass;
+use crate::system::formula::molar_mass;
 use crate::system::{AcidSystem, PkFormula, Step, TempModel, MAX_STEPS};
 use crate::water::{KELVIN, T_MAX_C, T_MIN_C};
 
@@ -151,7 +151,7 @@ pub fn step_pk(step: &Step, t_c: f64) -> f64 {
 /// # Example
 ///
 /// ```
-/// # use solver::{library::find_system, thermo::system_pks};
+/// # use solver::system::{library::find_system, thermo::system_pks};
 /// let tris = find_system("tris").ok_or(solver::SolverError::Unknown {
 ///     kind: "system".into(), name: "tris".into() })?;
 /// let pk = system_pks(tris, 37.0)?;

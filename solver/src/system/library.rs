@@ -6,14 +6,14 @@
 //! system's `source`), or from a system-specific published formula
 //! ([`PkFormula`]). For a formula step, `pk25` is the formula's own value at
 //! 298.15 K, so the two never disagree. Molar masses are never typed: they
-//! are computed from each form's `formula` (see [`crate::formula`]).
+//! are computed from each form's `formula` (see [`crate::system::formula`]).
 
 use std::sync::OnceLock;
 
 use crate::error::Result;
-use crate::formula::molar_mass;
+use crate::system::formula::molar_mass;
+use crate::system::thermo::THETA;
 use crate::system::{AcidSystem, Hazard, Ion, PkFormula, ReagentForm, Step, TempModel};
-use crate::thermo::THETA;
 
 const GOLDBERG: &str = "Goldberg, Kishore & Lennen (2002) J. Phys. Chem. Ref. Data 31, 231 \
      (pK, ΔrH°, ΔrCp°; values from memory)";
@@ -23,7 +23,7 @@ const GOLDBERG: &str = "Goldberg, Kishore & Lennen (2002) J. Phys. Chem. Ref. Da
 /// # Example
 ///
 /// ```
-/// let lib = solver::library::library();
+/// let lib = solver::system::library::library();
 /// assert!(lib.iter().any(|s| s.id == "phosphate"));
 /// ```
 pub fn library() -> &'static [AcidSystem] {
@@ -790,8 +790,8 @@ fn build() -> Vec<AcidSystem> {
 )]
 mod tests {
     use super::*;
+    use crate::system::thermo::{system_pks, validate_system};
     use crate::system::MAX_STEPS;
-    use crate::thermo::{system_pks, validate_system};
 
     const IDS: [&str; 25] = [
         "acetate",

@@ -44,7 +44,7 @@ pub fn davies_bracket(ionic_strength: f64) -> f64 {
 /// # Example
 ///
 /// ```
-/// use solver::activity::{gamma1, ActivityModel};
+/// use solver::equilibrium::activity::{gamma1, ActivityModel};
 /// // A = 0.5085 at 25 °C; I = 0.1 → log γ = −0.5085 × 0.2103 = −0.1069
 /// let g = gamma1(ActivityModel::Davies, 0.5085, 0.1);
 /// assert!((g.log10() + 0.1069).abs() < 1e-4);

@@ -21,7 +21,7 @@
 
 use crate::error::{non_negative, Result, SolverError};
 use crate::field::FieldSample;
-use crate::formula::molar_mass;
+use crate::system::formula::molar_mass;
 use serde::{Deserialize, Serialize};
 
 /// Unit of a measured alkalinity.
@@ -129,7 +129,7 @@ pub const MAX_DIC_M: f64 = 1.0;
 ///
 /// ```
 /// use solver::field::FieldSample;
-/// use solver::carbonate_field::carbonate_from_alkalinity;
+/// use solver::field::carbonate::carbonate_from_alkalinity;
 /// let s = FieldSample::new("carbonate", 25.0, 0.0, &[])?;
 /// // 2 meq/L at pH 8.3: nearly all bicarbonate, DIC close to 2 mmol/L.
 /// let c = carbonate_from_alkalinity(&s, 8.3, 0.002)?;

@@ -22,16 +22,16 @@
 //! The work can be done in chunks ([`LogPlan::compute`] over a range of rows)
 //! so the page can show progress.
 
-use crate::carbonate_field::{Alkalinity, AlkalinityUnit};
-use crate::csv::{
+use crate::error::{Result, SolverError};
+use crate::field::carbonate::{Alkalinity, AlkalinityUnit};
+use crate::field::csv::{
     decode, parse, parse_number, push_field, push_row, write_number, Separator, Table,
 };
-use crate::error::{Result, SolverError};
+use crate::field::limit::Limit;
 use crate::field::{
     field_reading, field_reading_cached, reporting_bases, target_species, FieldCache, FieldResult,
     FieldSpec, IonicSource, TotalUnit,
 };
-use crate::field_limit::Limit;
 use crate::mixture::lookup;
 use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};

@@ -53,7 +53,7 @@ pub struct FractionCurves {
 ///
 /// ```
 /// use solver::field::{FieldSpec, IonicSource, TotalUnit};
-/// use solver::field_plot::fraction_curves;
+/// use solver::field::plot::fraction_curves;
 /// let spec = FieldSpec { system: "ammonium".into(), ph: 8.0, temperature_c: 20.0,
 ///     total: None, total_unit: TotalUnit::MgPerLAs, ionic: IonicSource::Zero,
 ///     alkalinity: None, limit: None };

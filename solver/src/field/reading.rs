@@ -23,28 +23,28 @@
 //! ```
 //!
 //! For ammonia with a salinity, the seawater model of Clegg & Whitfield
-//! (1995) gives the constant ([`crate::seawater`], total pH scale, salinity
+//! (1995) gives the constant ([`crate::field::seawater`], total pH scale, salinity
 //! 0–40, −2 to 40 °C); the result names the model used ([`PkModel`]). Every
 //! other system, and ammonia outside that range, uses the Davies equation at
 //! the salinity's ionic strength; past the Davies range ([`DAVIES_LIMIT`])
 //! the result carries a warning that the value is indicative.
 //!
 //! Optional parts of a reading: an alkalinity for the carbonate system
-//! ([`crate::carbonate_field`]), and a user's limit for the form that
-//! matters ([`crate::field_limit`]). No regulatory number is built in.
+//! ([`crate::field::carbonate`]), and a user's limit for the form that
+//! matters ([`crate::field::limit`]). No regulatory number is built in.
 
-use crate::activity::{ActivityModel, DAVIES_LIMIT};
-use crate::carbonate_field::{carbonate_from_alkalinity, Alkalinity, CarbonateResult};
+use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{fractions_into, Acid};
 use crate::error::{in_range, non_negative, Result, SolverError};
-use crate::field_limit::{evaluate_limit, validate_limit, Limit, LimitResult};
-use crate::formula::molar_mass;
-use crate::mixture::lookup;
-use crate::seawater::{
+use crate::field::carbonate::{carbonate_from_alkalinity, Alkalinity, CarbonateResult};
+use crate::field::limit::{evaluate_limit, validate_limit, Limit, LimitResult};
+use crate::field::seawater::{
     outside_note, pk_ammonium_seawater, seawater_note, seawater_use, PkModel, SeawaterUse,
 };
+use crate::mixture::lookup;
+use crate::system::formula::molar_mass;
+use crate::system::thermo::system_pks;
 use crate::system::{AcidSystem, Hazard, MAX_STEPS};
-use crate::thermo::system_pks;
 use crate::water::{debye_huckel_a, pkw};
 use serde::{Deserialize, Serialize};
 
@@ -214,7 +214,7 @@ pub fn reporting_basis(system_id: &str) -> (&'static str, &'static str) {
 /// chlorine). The first entry is the basis of `total` in mg/L. Note that
 /// "carbonate as CaCO₃" here is on this molar basis; an *alkalinity* as
 /// CaCO₃ is on the equivalent basis (50.04 g/eq), see
-/// [`crate::carbonate_field`].
+/// [`crate::field::carbonate`].
 pub fn reporting_bases(system_id: &str) -> &'static [(&'static str, &'static str)] {
     match system_id {
         "ammonium" => &[("N", "N"), ("NH₃", "NH3")],
@@ -439,7 +439,11 @@ impl AtTemperature {
             acid: self.acid,
             kw: self.kw,
             a_dh: self.a_dh,
-            gamma1: crate::activity::gamma1(ActivityModel::Davies, self.a_dh, ionic_strength),
+            gamma1: crate::equilibrium::activity::gamma1(
+                ActivityModel::Davies,
+                self.a_dh,
+                ionic_strength,
+            ),
             ionic_strength,
             model: PkModel::Davies,
         }

@@ -119,7 +119,7 @@ pub fn seawater_use(system_id: &str, source: &IonicSource, temperature_c: f64) -
 /// At S = 0 it is the thermodynamic pK of the fit (9.2446 at 25 °C):
 ///
 /// ```
-/// # use solver::seawater::pk_ammonium_seawater;
+/// # use solver::field::seawater::pk_ammonium_seawater;
 /// assert!((pk_ammonium_seawater(25.0, 0.0) - 9.244605).abs() < 1e-9);
 /// ```
 pub fn pk_ammonium_seawater(temperature_c: f64, salinity: f64) -> f64 {

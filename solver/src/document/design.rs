@@ -4,17 +4,14 @@
 //! links and read by the command-line entry. [`parse_design`] migrates older
 //! schema versions, then checks every field and names the first bad one.
 
-use crate::activity::ActivityModel;
-use crate::error::{clip, in_range, shorten_quoted, Result, SolverError, QUOTE_MAX};
-use crate::field::{field_reading, FieldResult, FieldSpec, IonicSource, TotalUnit};
-use crate::library::find_form;
-use crate::mixture::{
-    lookup, prepare, solve_mixture, species_curves, titration_curve, what_if, Additive,
-    AdditiveSpec, ComponentSpec, MixtureResult, MixtureSpec, SpeciesCurves, TitrationCurve, WhatIf,
-    WhatIfResult,
+use crate::document::reagent::{
+    reroot, systems_with_forms, validate_custom_forms, validate_user_system,
 };
-use crate::reagent::{reroot, systems_with_forms, validate_custom_forms, validate_user_system};
-use crate::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
+use crate::error::{clip, in_range, shorten_quoted, Result, SolverError, QUOTE_MAX};
+use crate::field::FieldSpec;
+use crate::mixture::{lookup, MixtureSpec, WhatIf};
+use crate::recipe::{Method, RecipeSpec};
+use crate::system::library::find_form;
 use crate::system::{AcidSystem, CustomForm};
 use crate::uncertainty::UncertaintyInputs;
 use serde::{Deserialize, Serialize};
@@ -154,7 +151,7 @@ fn migrate_1_to_2(value: &mut serde_json::Value) {
 /// # Example
 ///
 /// ```
-/// use solver::design::{demo_design, parse_design, to_json};
+/// use solver::document::{demo_design, parse_design, to_json};
 /// let d = demo_design();
 /// let back = parse_design(&to_json(&d))?;
 /// assert_eq!(back, d);
@@ -177,8 +174,8 @@ pub fn parse_design(text: &str) -> Result<Design> {
 /// As [`parse_design`], except that the text is already JSON.
 pub fn parse_design_value(value: serde_json::Value) -> Result<Design> {
     let value = migrate(value)?;
-    let design: Design =
-        crate::docpath::from_value(&value).map_err(|e| serde_err(&e.path(), &e.message))?;
+    let design: Design = crate::document::docpath::from_value(&value)
+        .map_err(|e| serde_err(&e.path(), &e.message))?;
     let back = serde_json::to_value(&design).unwrap_or(serde_json::Value::Null);
     if let Some(field) = extra_tagged_key(&value, &back, "") {
         return Err(doc_err(
@@ -258,7 +255,7 @@ pub(crate) fn extra_tagged_key(
 }
 
 fn prefixed(prefix: &str, e: SolverError) -> SolverError {
-    crate::reagent::map_field(e, |f| format!("{prefix}.{f}"))
+    crate::document::reagent::map_field(e, |f| format!("{prefix}.{f}"))
 }
 
 /// Check every field a user can enter, without solving anything.
@@ -381,137 +378,11 @@ pub fn to_json_pretty(d: &Design) -> String {
     serde_json::to_string_pretty(d).unwrap_or_default()
 }
 
-/// The demo design loaded on first visit: a fish-hatchery lab's morning.
-///
-/// Invented scenario, for the demo only: the hatchery's lab makes 500 mL of
-/// 50 mM phosphate, pH 7.40 at 37 °C, for an enzyme assay, made and checked
-/// at the 22 °C bench; the mixture
-/// workspace holds a Tris/NaCl wash it keeps at room temperature; the field
-/// workspace holds this morning's reading from rearing tank 3.
-pub fn demo_design() -> Design {
-    Design {
-        schema: SCHEMA_VERSION,
-        name: "Hatchery lab — assay buffer".into(),
-        saved_at_ms: 0.0,
-        workspace: Workspace::Recipe,
-        recipe: RecipeSpec {
-            system: "phosphate".into(),
-            target_ph: 7.4,
-            temperature_c: 37.0,
-            total_conc_m: 0.05,
-            volume_l: 0.5,
-            salts: vec![],
-            activity: ActivityModel::Davies,
-            method: Method::TwoForms {
-                acid_form: "nah2po4_h2o".into(),
-                base_form: "na2hpo4_7h2o".into(),
-            },
-            tolerance_ph: 0.05,
-            // Made and checked at the bench, used in the 37 °C assay.
-            prepare_temperature_c: Some(22.0),
-            concentrate_factor: 1.0,
-        },
-        mixture: MixtureSpec {
-            temperature_c: 20.0,
-            activity: ActivityModel::Davies,
-            components: vec![
-                ComponentSpec {
-                    system: "tris".into(),
-                    form: Some("tris_base".into()),
-                    conc_m: 0.02,
-                },
-                ComponentSpec {
-                    system: "tris".into(),
-                    form: Some("tris_hcl".into()),
-                    conc_m: 0.03,
-                },
-            ],
-            additives: vec![AdditiveSpec {
-                additive: Additive::Nacl,
-                conc_m: 0.15,
-            }],
-        },
-        what_if: WhatIf::default(),
-        field: FieldSpec {
-            system: "ammonium".into(),
-            ph: 8.1,
-            temperature_c: 18.5,
-            total: Some(0.8),
-            total_unit: TotalUnit::MgPerLAs,
-            ionic: IonicSource::Conductivity { us_cm: 450.0 },
-            alkalinity: None,
-            limit: None,
-        },
-        plot_source: PlotSource::Recipe,
-        custom_systems: vec![],
-        custom_forms: vec![],
-        uncertainty: UncertaintyInputs::default(),
-    }
-}
-
-/// Everything the command-line entry reports for a design; each part is
-/// either a result or the error message for that part.
-#[derive(Debug, Clone, Serialize)]
-pub struct Report {
-    /// Design name.
-    pub name: String,
-    /// Recipe result.
-    pub recipe: std::result::Result<RecipeResult, String>,
-    /// Mixture result.
-    pub mixture: std::result::Result<MixtureResult, String>,
-    /// What-if result.
-    pub what_if: std::result::Result<WhatIfResult, String>,
-    /// Field reading.
-    pub field: std::result::Result<FieldResult, String>,
-    /// Species and capacity curves of the plotted composition (61 points, pH 0–14... coarse).
-    pub curves: std::result::Result<SpeciesCurves, String>,
-    /// Titration curve of the plotted composition.
-    pub titration: std::result::Result<TitrationCurve, String>,
-}
-
-/// Compute every part of a design.
-pub fn report(d: &Design) -> Report {
-    let systems = d.systems();
-    let custom = &systems;
-    let recipe = solve_recipe(&d.recipe, custom);
-    let plotted = match (d.plot_source, &recipe) {
-        (PlotSource::Recipe, Ok(r)) => r.mixture.clone(),
-        _ => d.mixture.clone(),
-    };
-    let curves = prepare(&plotted, custom).and_then(|p| {
-        let eq = p.solve()?;
-        species_curves(&p, eq.ionic_strength, 0.0, 14.0, 57)
-    });
-    let titration = prepare(&plotted, custom).and_then(|p| {
-        let c: f64 = p.composition.acids.iter().map(|a| a.total).sum();
-        let span = (c * 2.0).max(0.001);
-        titration_curve(&p, span, span, 41)
-    });
-    let s = |e: SolverError| e.to_string();
-    Report {
-        name: d.name.clone(),
-        recipe: recipe.map_err(s),
-        mixture: solve_mixture(&d.mixture, custom).map_err(s),
-        what_if: what_if(&d.mixture, custom, &d.what_if).map_err(s),
-        field: field_reading(&d.field, custom).map_err(s),
-        curves: curves.map_err(s),
-        titration: titration.map_err(s),
-    }
-}
-
 #[cfg(test)]
 #[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn demo_round_trips_and_reports() {
-        let d = demo_design();
-        assert_eq!(parse_design(&to_json_pretty(&d)).unwrap(), d);
-        let r = report(&d);
-        assert!(r.recipe.is_ok() && r.mixture.is_ok() && r.field.is_ok());
-        assert!(r.what_if.is_ok() && r.curves.is_ok() && r.titration.is_ok());
-    }
+    use crate::document::report::demo_design;
 
     #[test]
     fn future_and_missing_schema_are_refused() {

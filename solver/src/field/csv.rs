@@ -229,7 +229,7 @@ fn is_decimal_comma_number(s: &str) -> bool {
 /// # Example
 ///
 /// ```
-/// use solver::csv::{parse, Separator};
+/// use solver::field::csv::{parse, Separator};
 /// let t = parse("Zeit;pH;Temp °C\n08:00;7,85;12,5\n", None)?;
 /// assert_eq!(t.separator, Separator::Semicolon);
 /// assert!(t.decimal_comma);

@@ -61,7 +61,7 @@ pub fn atomic_weight(symbol: &str) -> Option<f64> {
 /// # Example
 ///
 /// ```
-/// # use solver::formula::molar_mass;
+/// # use solver::system::formula::molar_mass;
 /// let m = molar_mass("NaH2PO4·H2O")?;
 /// assert!((m - 137.991).abs() < 0.001);
 /// # Ok::<(), solver::SolverError>(())
@@ -80,7 +80,7 @@ pub fn molar_mass(formula: &str) -> Result<f64> {
 /// # Example
 ///
 /// ```
-/// # use solver::formula::element_count;
+/// # use solver::system::formula::element_count;
 /// assert_eq!(element_count("C7H5NaO2", "Na")?, 1.0);
 /// assert_eq!(element_count("(NH4)2SO4", "H")?, 8.0);
 /// # Ok::<(), solver::SolverError>(())

@@ -2,7 +2,8 @@
 //! workspace, each part the reader accepts is kept (over the demo design), and each part it
 //! refuses is named with the reason, so one unreadable workspace does not cost the others.
 
-use crate::design::{demo_design, migrate, parse_design_value, Design};
+use super::design::{migrate, parse_design_value, Design};
+use super::report::demo_design;
 use crate::error::SolverError;
 use serde_json::{Map, Value};
 
@@ -45,8 +46,8 @@ pub struct Salvaged {
 /// # Example
 ///
 /// ```
-/// use solver::design::{demo_design, to_json};
-/// use solver::salvage::salvage_design;
+/// use solver::document::{demo_design, to_json};
+/// use solver::document::salvage::salvage_design;
 /// let mut d = demo_design();
 /// d.field.ph = 6.5;
 /// let text = to_json(&d).replace("\"target_ph\":7.4", "\"target_ph\":15.0");

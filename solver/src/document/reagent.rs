@@ -207,8 +207,8 @@ pub fn validate_user_system(sys: &AcidSystem) -> Result<()> {
     for (j, f) in sys.forms.iter().enumerate() {
         check_name(format!("system.forms[{j}].name"), &f.name)?;
     }
-    check_form_formulas(sys, 0)?;
-    check_form_charges(sys, 0)
+    check_form_charges(sys, 0)?;
+    check_form_formulas(sys, 0)
 }
 
 /// Check added shelf forms against the systems they extend (the design's
@@ -240,8 +240,8 @@ pub fn validate_custom_forms(forms: &[CustomForm], systems: &[AcidSystem]) -> Re
         let own = format!("system.forms[{j}]");
         validate_system(&probe)
             .and_then(|()| check_name(format!("system.forms[{j}].name"), &cf.form.name))
-            .and_then(|()| check_form_formulas(&probe, j))
             .and_then(|()| check_form_charges(&probe, j))
+            .and_then(|()| check_form_formulas(&probe, j))
             .map_err(|e| {
                 map_field(e, |f| match f.strip_prefix(own.as_str()) {
                     Some(rest) => format!("{root}.form{rest}"),

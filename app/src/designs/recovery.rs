@@ -147,6 +147,12 @@ pub fn plain_reason(e: &SolverError) -> String {
                 } else {
                     plain_serde(reason, "")
                 }
+            } else if reason.starts_with("unknown field") {
+                // The field already ends with the unknown key.
+                format!(
+                    "{}: an entry this page does not know (unknown field: check the spelling)",
+                    plain_place(field)
+                )
             } else if reason.contains('`') || reason.starts_with("invalid") {
                 plain_serde(reason, field)
             } else {

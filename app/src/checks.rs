@@ -246,7 +246,6 @@ pub fn EngineCheck() -> impl IntoView {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use solver::selfcheck::Status;

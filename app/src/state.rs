@@ -271,7 +271,6 @@ pub fn use_app() -> AppState {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
 

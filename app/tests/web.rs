@@ -42,7 +42,7 @@ async fn recipe_demo_predicts_target_ph_and_weighs_two_salts() {
     let first = &expected.ingredients[0];
     assert_eq!(
         text(&root, "recipe-ingredient-0-amount"),
-        Some(solver::recipe::format_mass(first.grams.unwrap()))
+        Some(solver::fmt::format_mass(first.grams.unwrap()))
     );
     assert!(text(&root, "recipe-ingredient-1-amount").is_some());
     assert!(text(&root, "recipe-steps").unwrap().contains("Weigh"));

@@ -1,5 +1,10 @@
 //! Criterion benchmarks of the engine: one solve, curves, titration, recipe inversion.
-#![allow(clippy::unwrap_used, clippy::expect_used, missing_docs)]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    missing_docs,
+    reason = "a benchmark binary: set-up failures should stop it, and criterion macros make undocumented items"
+)]
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use solver::mixture::{prepare, species_curves, titration_curve};

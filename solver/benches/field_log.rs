@@ -1,5 +1,10 @@
 //! Criterion benchmarks of field logs: 10,000 rows read, computed and written (and the compute step by both paths); one grid.
-#![allow(clippy::unwrap_used, clippy::expect_used, missing_docs)]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    missing_docs,
+    reason = "a benchmark binary: set-up failures should stop it, and criterion macros make undocumented items"
+)]
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use solver::field::grid::{species_grid, GridSpec, Quantity};

@@ -1,5 +1,6 @@
 //! Error type of the solver: every variant names the offending field and value.
 
+use crate::fmt::{clip, quote, QUOTE_MAX};
 use std::fmt;
 
 /// Everything that can go wrong in the solver.
@@ -36,6 +37,15 @@ pub enum SolverError {
     /// A name that refers to nothing known (system, reagent form, ion...).
     Unknown {
         /// What kind of thing was looked up (`system`, `form`, ...).
+        kind: String,
+        /// The name given.
+        name: String,
+    },
+    /// A field names a choice that does not exist (a reagent form not in the system).
+    UnknownChoice {
+        /// Field path of the choice (`recipe.method.acid_form`).
+        field: String,
+        /// What kind of thing was looked up (`form`).
         kind: String,
         /// The name given.
         name: String,
@@ -93,6 +103,13 @@ impl fmt::Display for SolverError {
             Self::Unknown { kind, name } => {
                 write!(f, "unknown {} {}", shorten_quoted(kind), quote(name))
             }
+            Self::UnknownChoice { field, kind, name } => write!(
+                f,
+                "unknown {} ({}) {}",
+                shorten_quoted(kind),
+                path(field),
+                quote(name)
+            ),
             Self::BadFormula { formula, position } => {
                 write!(
                     f,
@@ -117,37 +134,80 @@ impl fmt::Display for SolverError {
     }
 }
 
-impl std::error::Error for SolverError {}
+impl SolverError {
+    /// The field path the error names, if it names one (`recipe.volume_l`, `salts[0].conc_m`).
+    ///
+    /// ```
+    /// use solver::limits::VOLUME_L;
+    /// let e = VOLUME_L.check(0.0).unwrap_err();
+    /// assert_eq!(e.field(), Some("volume_l"));
+    /// ```
+    pub fn field(&self) -> Option<&str> {
+        match self {
+            Self::NotFinite { field }
+            | Self::Negative { field, .. }
+            | Self::OutOfRange { field, .. }
+            | Self::Infeasible { field, .. }
+            | Self::Document { field, .. }
+            | Self::UnknownChoice { field, .. } => Some(field),
+            _ => None,
+        }
+    }
 
-/// Most characters of a user's value that a message quotes.
-pub const QUOTE_MAX: usize = 60;
+    /// The same error with its field path rewritten by `f`.
+    pub fn map_field(self, f: impl Fn(&str) -> String) -> Self {
+        match self {
+            Self::NotFinite { field } => Self::NotFinite { field: f(&field) },
+            Self::Negative { field, value } => Self::Negative {
+                field: f(&field),
+                value,
+            },
+            Self::OutOfRange {
+                field,
+                value,
+                min,
+                max,
+            } => Self::OutOfRange {
+                field: f(&field),
+                value,
+                min,
+                max,
+            },
+            Self::Infeasible { field, reason } => Self::Infeasible {
+                field: f(&field),
+                reason,
+            },
+            Self::Document { field, reason } => Self::Document {
+                field: f(&field),
+                reason,
+            },
+            Self::UnknownChoice { field, kind, name } => Self::UnknownChoice {
+                field: f(&field),
+                kind,
+                name,
+            },
+            other => other,
+        }
+    }
+
+    /// Replace the leading `from` of the field path by `to` (`system.steps[1]` →
+    /// `custom_systems[0].steps[1]` with `from = "system"`, `to = "custom_systems[0]"`); a
+    /// path that does not start with `from` is put under `to`.
+    pub fn reroot(self, from: &str, to: &str) -> Self {
+        self.map_field(|f| match f.strip_prefix(from) {
+            Some(rest) if rest.is_empty() || rest.starts_with(['.', '[']) => format!("{to}{rest}"),
+            _ => format!("{to}.{f}"),
+        })
+    }
+}
+
+impl std::error::Error for SolverError {}
 
 /// Most characters of a field path that a message shows.
 const PATH_MAX: usize = 120;
 
 /// Most characters of a reason that a message shows.
 const REASON_MAX: usize = 300;
-
-/// `s` cut to at most `max` characters, with an ellipsis when it was cut.
-pub fn clip(s: &str, max: usize) -> String {
-    match s.char_indices().nth(max) {
-        Some((cut, _)) => format!("{}…", &s[..cut]),
-        None => s.to_string(),
-    }
-}
-
-/// A value the user gave, for a message: in double quotes, at most
-/// [`QUOTE_MAX`] characters, with an ellipsis when it was cut.
-///
-/// ```
-/// let long = "x".repeat(10_000);
-/// let q = solver::error::quote(&long);
-/// assert!(q.chars().count() < 70 && q.ends_with("…\""));
-/// assert_eq!(solver::error::quote("tris"), "\"tris\"");
-/// ```
-pub fn quote(s: &str) -> String {
-    format!("\"{}\"", clip(s, QUOTE_MAX))
-}
 
 fn path(field: &str) -> String {
     clip(field, PATH_MAX)

@@ -5,6 +5,7 @@
 //! balance, capacity, the activity models); `mixture`; `recipe`; `field` (readings of natural
 //! waters); `uncertainty`; `document` (the design file, reagent files, the report);
 //! `selfcheck`; `cli` (the commands without their IO); `workloads` (bench inputs).
+#![doc = include_str!("../README.md")]
 #![forbid(unsafe_code)]
 
 pub mod cli;
@@ -12,6 +13,8 @@ pub mod document;
 pub mod equilibrium;
 pub mod error;
 pub mod field;
+pub mod fmt;
+pub mod limits;
 pub mod mixture;
 pub mod order;
 pub mod recipe;

@@ -6,6 +6,7 @@ use crate::equilibrium::{
     Equilibrium,
 };
 use crate::error::{in_range, non_negative, Result, SolverError};
+use crate::limits::{DILUTION_FACTOR, WHAT_IF_TEMPERATURE_C};
 use crate::system::library::{counter_charge, find_form, find_system};
 use crate::system::thermo::system_pks;
 use crate::system::{AcidSystem, Ion, MAX_STEPS};
@@ -214,7 +215,7 @@ fn ion_index(ion: Ion) -> usize {
 /// Field-named errors for negative or non-finite amounts, unknown systems or
 /// forms, and temperatures outside the data's range.
 pub fn prepare(spec: &MixtureSpec, custom: &[AcidSystem]) -> Result<Prepared> {
-    let t = in_range("temperature_c", spec.temperature_c, 0.0, 60.0)?;
+    let t = crate::limits::MIXTURE_TEMPERATURE_C.check(spec.temperature_c)?;
     let pkw = pkw(t)?;
     let a_dh = debye_huckel_a(t)?;
     let mut ions = [0.0; 3];
@@ -447,10 +448,10 @@ pub struct WhatIfResult {
 /// Field-named errors (`what_if.dilution_factor` must be ≥ 1, amounts ≥ 0,
 /// temperature in range) and solver failures.
 pub fn what_if(spec: &MixtureSpec, custom: &[AcidSystem], w: &WhatIf) -> Result<WhatIfResult> {
-    let f = in_range("what_if.dilution_factor", w.dilution_factor, 1.0, 1e9)?;
+    let f = DILUTION_FACTOR.check_as(DILUTION_FACTOR.path, w.dilution_factor)?;
     let acid = non_negative("what_if.add_acid_m", w.add_acid_m)?;
     let base = non_negative("what_if.add_base_m", w.add_base_m)?;
-    let t = in_range("what_if.temperature_c", w.temperature_c, 0.0, 60.0)?;
+    let t = WHAT_IF_TEMPERATURE_C.check_as(WHAT_IF_TEMPERATURE_C.path, w.temperature_c)?;
     let p = prepare(spec, custom)?;
     let eq = p.solve()?;
     let mut diluted = spec.clone();

@@ -38,7 +38,6 @@ pub fn sort_by<T>(v: &mut [T], cmp: impl Fn(&T, &T) -> Ordering) {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use proptest::prelude::*;

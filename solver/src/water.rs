@@ -215,12 +215,6 @@ fn end_tangent(h0: f64, h1: f64, d0: f64, d1: f64) -> f64 {
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::*;
     use crate::SolverError;

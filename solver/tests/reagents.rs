@@ -10,7 +10,7 @@
 
 use serde_json::{json, Value};
 use solver::document::reagent::{
-    error_field, parse_reagent, reagent_file_name, reagent_to_json, system_field_problems,
+    parse_reagent, reagent_file_name, reagent_to_json, system_field_problems,
     validate_custom_forms, validate_user_system, Reagent,
 };
 use solver::document::{demo_design, parse_design, report, to_json, Design};
@@ -515,7 +515,7 @@ fn the_editor_checks_show_every_field_at_once() {
     s.forms[2].units = 0.0;
     s.forms[3].id = s.forms[0].id.clone();
     let problems = system_field_problems(&s);
-    let fields: Vec<&str> = problems.iter().filter_map(error_field).collect();
+    let fields: Vec<&str> = problems.iter().filter_map(|e| e.field()).collect();
     for want in [
         "system.name",
         "system.t_max_c",
@@ -529,7 +529,7 @@ fn the_editor_checks_show_every_field_at_once() {
     s.t_min_c = 0.0;
     s.t_max_c = 60.0;
     let problems = system_field_problems(&s);
-    let fields: Vec<&str> = problems.iter().filter_map(error_field).collect();
+    let fields: Vec<&str> = problems.iter().filter_map(|e| e.field()).collect();
     assert!(fields.contains(&"system.steps[2].pk25"), "{fields:?}");
     assert!(!fields.contains(&"system.steps[1].pk25"), "{fields:?}");
     // A valid system has no problems.
@@ -540,7 +540,7 @@ fn the_editor_checks_show_every_field_at_once() {
     t.forms[1].counter_ions = vec![(Ion::Cl, 1.0)];
     let fields: Vec<String> = system_field_problems(&t)
         .iter()
-        .filter_map(|e| error_field(e).map(str::to_string))
+        .filter_map(|e| e.field().map(str::to_string))
         .collect();
     assert!(
         fields.contains(&"system.steps[0].pk25".to_string()),
@@ -562,7 +562,7 @@ fn the_editor_checks_show_every_field_at_once() {
         &[],
     )
     .unwrap_err();
-    assert_eq!(error_field(&e), Some("custom_forms[0].form.units"));
+    assert_eq!(e.field(), Some("custom_forms[0].form.units"));
 }
 
 #[test]
@@ -613,7 +613,7 @@ fn a_form_must_declare_the_spectator_ions_its_formula_holds() {
     assert!(
         problems
             .iter()
-            .any(|p| error_field(p) == Some("system.forms[0].counter_ions")),
+            .any(|p| p.field() == Some("system.forms[0].counter_ions")),
         "{problems:?}"
     );
     // Declared right, it passes (hypochlorite's Cl belongs to the system: fewer Cl⁻ is fine).

@@ -58,7 +58,7 @@ fn sulfate_total(s: f64) -> f64 {
 /// ammonia in seawater of salinity 34 (I = 0.701 mol/kg), read as the table
 /// is reproduced in a water-testing kit's printed conversion table (the
 /// paper itself was not read). (°C, pH, % NH₃). 6.28 is a table cell, not 2π.
-#[allow(clippy::approx_constant)]
+#[expect(clippy::approx_constant, reason = "6.28 is a table cell, not 2π")]
 const BOWER_BIDWELL_S34: [(f64, f64, f64); 12] = [
     (10.0, 7.5, 0.459),
     (10.0, 8.0, 1.44),

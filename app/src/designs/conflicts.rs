@@ -164,12 +164,6 @@ pub fn external_change(stored: Option<Design>, base_saved_at_ms: f64, dirty: boo
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::super::testkit::{named, saved};
     use super::*;

@@ -512,12 +512,6 @@ pub fn migrate_legacy(kv: &mut dyn KvStore, now_ms: f64) -> Result<usize, StoreE
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::super::index::quarantine_key;
     use super::super::testkit::{named, saved};

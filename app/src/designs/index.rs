@@ -451,12 +451,6 @@ pub fn duplicate_design(
 // ---------------------------------------------------------------------------
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::super::testkit::{named, saved};
     use super::*;

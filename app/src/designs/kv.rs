@@ -196,7 +196,6 @@ impl KvStore for LocalStore {
     }
 }
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
 mod tests {
     use super::*;
 

@@ -687,7 +687,6 @@ pub fn format_when(ms: f64, tz_offset_min: f64) -> String {
 }
 
 #[cfg(test)]
-#[allow(clippy::panic)]
 pub(crate) mod testkit {
     //! Helpers shared by the native tests of this folder.
     use super::{save_design, MemStore, SaveOutcome, SaveTarget};

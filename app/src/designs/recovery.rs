@@ -159,7 +159,7 @@ pub fn plain_reason(e: &SolverError) -> String {
                 format!("{}: {reason}", plain_place(field))
             }
         }
-        other => match solver::document::reagent::error_field(other) {
+        other => match other.field() {
             Some(field) => {
                 let text = other.to_string();
                 let reason = text
@@ -306,12 +306,6 @@ fn item(key: String, kind: RecoveryKind, s: &StoredDraft, why: String) -> Recove
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::super::drafts::{
         draft_key, set_aside, stored_text, Draft, StoredDraft, SET_ASIDE_PREFIX,

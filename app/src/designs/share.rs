@@ -221,12 +221,6 @@ pub fn page_base(href: &str) -> &str {
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::*;
     use solver::document::demo_design;

@@ -202,12 +202,6 @@ pub fn import_designs(
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::super::testkit::{named, saved};
     use super::*;

@@ -359,27 +359,21 @@ pub fn nice_ceiling(x: f64) -> f64 {
     step * p
 }
 
-/// A number with `sig` significant digits, no exponent for everyday magnitudes.
+/// A number with `sig` significant digits by the solver's printer ([`solver::fmt::sig`]: no
+/// exponent for everyday magnitudes, one far from 1); `–` when not finite.
 pub fn sig(x: f64, sig: usize) -> String {
     if !x.is_finite() {
         return "–".into();
     }
-    if x == 0.0 {
-        return "0".into();
-    }
-    let mag = x.abs().log10().floor() as i32;
-    let decimals = (sig as i32 - 1 - mag).clamp(0, 6) as usize;
-    format!("{x:.decimals$}")
+    solver::fmt::sig(x, i32::try_from(sig).unwrap_or(3))
 }
 
 /// Like [`sig`] with trailing zeros after the decimal point dropped ("50", "37", "0.129").
 pub fn short(x: f64, digits: usize) -> String {
-    let s = sig(x, digits);
-    if s.contains('.') {
-        s.trim_end_matches('0').trim_end_matches('.').to_string()
-    } else {
-        s
+    if !x.is_finite() {
+        return "–".into();
     }
+    solver::fmt::sig_trim(x, i32::try_from(digits).unwrap_or(3))
 }
 
 /// A concentration in mM for tables and the readout: three significant digits,
@@ -492,6 +486,9 @@ pub(crate) mod tests {
         assert_eq!(sig(0.123_456, 3), "0.123");
         assert_eq!(sig(28.81, 3), "28.8");
         assert_eq!(sig(1234.0, 3), "1234");
+        // The solver's printer: a tiny capacity keeps its digits instead of 0.000000.
+        assert_eq!(sig(2.5e-8, 3), "2.50e-8");
+        assert_eq!(short(2.5e-8, 3), "2.5e-8");
         assert_eq!(short(50.0, 3), "50");
         assert_eq!(short(0.1290, 3), "0.129");
         assert_eq!(added_label(-5.0), "5 mmol/L HCl");

@@ -585,7 +585,7 @@ pub fn ReagentPanel(
 fn unfinished_label(m: &EditorModel) -> String {
     let name = m.name.trim();
     if !name.is_empty() {
-        return format!("“{}”", solver::error::clip(name, 60));
+        return crate::widgets::format::quote(name);
     }
     match &m.target {
         Target::NewSystem => "a new system".into(),

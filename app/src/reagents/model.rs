@@ -7,9 +7,7 @@
 //! (`system.steps[1].pk25`) are turned into this editor's field keys (`rg-step-1-pk`).
 
 use crate::widgets::format::{fmt_input, parse_number};
-use solver::document::reagent::{
-    error_field, system_field_problems, validate_custom_forms, Reagent,
-};
+use solver::document::reagent::{system_field_problems, validate_custom_forms, Reagent};
 use solver::system::formula::molar_mass;
 use solver::system::library::{find_system, library};
 use solver::system::{AcidSystem, CustomForm, Ion, ReagentForm, Step, TempModel, MAX_STEPS};
@@ -376,7 +374,7 @@ impl EditorModel {
                     let first = validate_custom_forms(&alone, custom)
                         .and_then(|()| validate_custom_forms(&list, custom));
                     if let Err(e) = first {
-                        let field = error_field(&e).unwrap_or_default().to_string();
+                        let field = e.field().unwrap_or_default().to_string();
                         let path = match &e {
                             _ if field.starts_with(&format!("custom_forms[{base}].")) => {
                                 format!("custom_forms[{base}].form")
@@ -475,7 +473,7 @@ impl EditorModel {
             hazards: vec![],
         };
         for e in system_field_problems(&sys) {
-            let field = error_field(&e).unwrap_or_default().to_string();
+            let field = e.field().unwrap_or_default().to_string();
             let key = system_key(&field);
             messages.entry(key).or_insert_with(|| message(&e, &field));
         }
@@ -606,7 +604,6 @@ pub fn known_system_ids(custom: &[AcidSystem]) -> Vec<String> {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
 

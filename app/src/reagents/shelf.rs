@@ -90,7 +90,6 @@ pub fn remove_reagent(kv: &mut dyn KvStore, id: &str) -> Result<(), StoreError> 
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use crate::designs::kv::MemStore;

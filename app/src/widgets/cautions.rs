@@ -222,7 +222,6 @@ pub fn ModelNote() -> impl IntoView {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use solver::system::library::find_system;

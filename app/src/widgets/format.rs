@@ -6,7 +6,8 @@
 //! (`7,4`) is accepted. Display helpers never compute chemistry; they only
 //! round and pick units for numbers the solver returned.
 
-use solver::recipe::sig;
+use solver::fmt::{clip, sig, trim_zeros};
+use solver::limits;
 use solver::SolverError;
 
 /// A unit a field can be entered in: its label and the factor to the base unit
@@ -47,109 +48,44 @@ pub const VOLUME_UNITS: &[Unit] = &[
     },
 ];
 
-/// What a field accepts, in base units, and what to say otherwise.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct Rule {
-    /// Lowest accepted value (base unit).
-    pub min: f64,
-    /// Highest accepted value (base unit).
-    pub max: f64,
-    /// Message when the value is outside `min..=max` (and not negative).
-    pub range_msg: &'static str,
-}
+/// What a field accepts, in base units, and what to say otherwise: an entry of the
+/// solver's rulebook ([`solver::limits`]), so the page and the solver refuse the same values.
+pub use solver::limits::Limit as Rule;
 
 /// pH on the activity scale.
-pub const PH: Rule = Rule {
-    min: 0.0,
-    max: 14.0,
-    range_msg: "pH must be between 0 and 14.",
-};
+pub const PH: Rule = limits::TARGET_PH;
 /// Temperature, °C: the water data cover 0–60 °C.
-pub const TEMPERATURE: Rule = Rule {
-    min: 0.0,
-    max: 60.0,
-    range_msg: "Temperature must be between 0 and 60 °C.",
-};
+pub const TEMPERATURE: Rule = limits::TEMPERATURE_C;
 /// Total buffer concentration, mol/L (must be above zero).
-pub const BUFFER_CONC: Rule = Rule {
-    min: 1e-9,
-    max: 5.0,
-    range_msg: "Must be above zero and at most 5 M (the model's range).",
-};
+pub const BUFFER_CONC: Rule = limits::TOTAL_CONC_M;
 /// An amount that may be zero, mol/L.
-pub const AMOUNT: Rule = Rule {
-    min: 0.0,
-    max: 5.0,
-    range_msg: "At most 5 M: beyond the model's range.",
-};
+pub const AMOUNT: Rule = limits::COMPONENT_CONC_M;
 /// Final volume, L.
-pub const VOLUME: Rule = Rule {
-    min: 1e-6,
-    max: 1000.0,
-    range_msg: "The volume must be between 1 µL and 1000 L.",
-};
+pub const VOLUME: Rule = limits::VOLUME_L;
 /// Tolerance window half-width, pH units.
-pub const TOLERANCE: Rule = Rule {
-    min: 1e-4,
-    max: 2.0,
-    range_msg: "The window must be between 0.0001 and 2 pH units.",
-};
+pub const TOLERANCE: Rule = limits::TOLERANCE_PH;
 /// Stock or titrant molarity, mol/L.
-pub const STOCK: Rule = Rule {
-    min: 1e-6,
-    max: 20.0,
-    range_msg: "Stock strength must be above zero and at most 20 M.",
-};
+pub const STOCK: Rule = limits::TITRANT_M;
 /// Concentrate factor of a recipe (1 = made at working strength).
-pub const CONCENTRATE: Rule = Rule {
-    min: 1.0,
-    max: 50.0,
-    range_msg: "A concentrate is 1× (working strength) to 50×.",
-};
+pub const CONCENTRATE: Rule = limits::CONCENTRATE_FACTOR;
 /// Dilution factor.
-pub const DILUTION: Rule = Rule {
-    min: 1.0,
-    max: 1e9,
-    range_msg: "The dilution factor must be 1 or more (1 = undiluted).",
-};
+pub const DILUTION: Rule = limits::DILUTION_FACTOR;
 /// A field total (mg/L or mmol/L or µmol/L).
-pub const FIELD_TOTAL: Rule = Rule {
-    min: 0.0,
-    max: 1e6,
-    range_msg: "That total is beyond the model's range.",
-};
+pub const FIELD_TOTAL: Rule = limits::FIELD_TOTAL;
 /// Ionic strength typed directly, mol/L.
-pub const IONIC: Rule = Rule {
-    min: 0.0,
-    max: 5.0,
-    range_msg: "Ionic strength must be at most 5 mol/L.",
-};
+pub const IONIC: Rule = limits::IONIC_STRENGTH;
 /// Specific conductance, µS/cm.
-pub const CONDUCTIVITY: Rule = Rule {
-    min: 0.0,
-    max: 200_000.0,
-    range_msg: "At most 200 000 µS/cm.",
-};
+pub const CONDUCTIVITY: Rule = limits::CONDUCTIVITY_US_CM;
 /// Total dissolved solids, mg/L.
-pub const TDS: Rule = Rule {
-    min: 0.0,
-    max: 100_000.0,
-    range_msg: "At most 100 000 mg/L.",
-};
+pub const TDS: Rule = limits::TDS_MG_L;
 
 /// At most this many characters of a bad value are quoted back in a message.
-pub const QUOTE_CHARS: usize = 60;
+pub const QUOTE_CHARS: usize = solver::fmt::QUOTE_MAX;
 
 /// Quote a user's text in a message: at most [`QUOTE_CHARS`] characters, with
 /// an ellipsis when cut, so a pasted novel never becomes a novel-sized message.
 pub fn quote(text: &str) -> String {
-    let t = text.trim();
-    if t.chars().count() <= QUOTE_CHARS {
-        format!("“{t}”")
-    } else {
-        let cut: String = t.chars().take(QUOTE_CHARS).collect();
-        format!("“{cut}…”")
-    }
+    format!("“{}”", clip(text.trim(), QUOTE_CHARS))
 }
 
 /// Parse a typed number: trims, accepts a comma or a point as the decimal mark
@@ -286,7 +222,7 @@ pub fn check_in(text: &str, rule: Rule, factor: f64, comma_elsewhere: bool) -> R
     let base = v * factor;
     // A hair of slack so that "5000 mM" is still 5 M after the multiplication.
     if base < rule.min * (1.0 - 1e-12) || base > rule.max * (1.0 + 1e-12) {
-        return Err(rule.range_msg.into());
+        return Err(rule.message.into());
     }
     Ok(base.clamp(rule.min, rule.max))
 }
@@ -297,20 +233,7 @@ pub fn fmt_input(v: f64) -> String {
     if !v.is_finite() {
         return String::new();
     }
-    let s = sig(v, 6);
-    match s.split_once('e') {
-        // 1.50000e-9 -> 1.5e-9
-        Some((m, e)) => format!("{}e{e}", trim_zeros(m)),
-        None => trim_zeros(&s),
-    }
-}
-
-fn trim_zeros(s: &str) -> String {
-    if s.contains('.') {
-        s.trim_end_matches('0').trim_end_matches('.').to_string()
-    } else {
-        s.to_string()
-    }
+    trim_zeros(&sig(v, 6))
 }
 
 /// The unit (index into `units`) that shows `base` as a number between 1 and 1000 if possible.
@@ -475,20 +398,7 @@ fn pretty_word(word: &str) -> String {
 
 /// The dotted field path a solver error names, if any (`target_ph`, `method.titrant_m`...).
 pub fn error_field(e: &SolverError) -> Option<String> {
-    match e {
-        SolverError::NotFinite { field }
-        | SolverError::Negative { field, .. }
-        | SolverError::OutOfRange { field, .. }
-        | SolverError::Infeasible { field, .. }
-        | SolverError::Document { field, .. } => Some(field.clone()),
-        SolverError::Unknown { kind, .. } => {
-            // "form (method.acid_form)" names its field in brackets.
-            let open = kind.find('(')?;
-            let close = kind.rfind(')')?;
-            kind.get(open + 1..close).map(str::to_string)
-        }
-        _ => None,
-    }
+    e.field().map(str::to_string)
 }
 
 fn capitalise(s: &str) -> String {
@@ -534,7 +444,6 @@ pub fn error_message(e: &SolverError) -> String {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
 
@@ -611,7 +520,7 @@ mod tests {
     #[test]
     fn checks_rules() {
         assert_eq!(check("7,4", PH, 1.0), Ok(7.4));
-        assert_eq!(check("15", PH, 1.0), Err(PH.range_msg.into()));
+        assert_eq!(check("15", PH, 1.0), Err(PH.message.into()));
         assert_eq!(check("-1", PH, 1.0), Err("Must not be negative.".into()));
         assert_eq!(check("", PH, 1.0), Err("Enter a value.".into()));
         assert_eq!(check("0", PH, 1.0), Ok(0.0));
@@ -620,7 +529,7 @@ mod tests {
         assert_eq!(check("50", BUFFER_CONC, 1e-3), Ok(0.05));
         assert_eq!(
             check("0", BUFFER_CONC, 1e-3),
-            Err(BUFFER_CONC.range_msg.into())
+            Err(BUFFER_CONC.message.into())
         );
         assert_eq!(check("5000", BUFFER_CONC, 1e-3), Ok(5.0));
         assert!(check("6", BUFFER_CONC, 1.0).is_err());
@@ -687,8 +596,9 @@ mod tests {
         };
         assert_eq!(error_field(&e).as_deref(), Some("temperature_c"));
         assert!(error_message(&e).contains("0 to 50 °C"));
-        let u = SolverError::Unknown {
-            kind: "form (method.acid_form)".into(),
+        let u = SolverError::UnknownChoice {
+            field: "method.acid_form".into(),
+            kind: "form".into(),
             name: "x".into(),
         };
         assert_eq!(error_field(&u).as_deref(), Some("method.acid_form"));

@@ -6,3 +6,6 @@ pub mod cautions;
 pub mod format;
 pub mod inputs;
 pub mod uncertainty;
+
+#[cfg(test)]
+mod tests;

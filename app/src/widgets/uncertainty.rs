@@ -259,32 +259,12 @@ pub fn FieldFractionU(
     }
 }
 
-/// Ranges of the user's figures: the solver's `UncertaintyInputs::validate`.
-const BALANCE: Rule = Rule {
-    min: 0.0,
-    max: 10_000.0,
-    range_msg: "Balance readability must be between 0 and 10 000 mg.",
-};
-const FLASK: Rule = Rule {
-    min: 0.0,
-    max: 100.0,
-    range_msg: "The flask tolerance must be between 0 and 100 mL.",
-};
-const TEMP_PM: Rule = Rule {
-    min: 0.0,
-    max: 10.0,
-    range_msg: "The temperature figure must be between 0 and 10 K.",
-};
-const PERCENT: Rule = Rule {
-    min: 0.0,
-    max: 50.0,
-    range_msg: "Between 0 and 50 %.",
-};
-const METER: Rule = Rule {
-    min: 0.0,
-    max: 2.0,
-    range_msg: "The meter figure must be between 0 and 2 pH.",
-};
+/// Ranges of the user's figures: the solver's rulebook, as `UncertaintyInputs::validate` reads it.
+const BALANCE: Rule = solver::limits::U_BALANCE_MG;
+const FLASK: Rule = solver::limits::U_FLASK_ML;
+const TEMP_PM: Rule = solver::limits::U_TEMPERATURE_K;
+const PERCENT: Rule = solver::limits::U_STOCK_PERCENT;
+const METER: Rule = solver::limits::U_PH_METER;
 
 /// The user's own ± figures (balance, flask, thermometer, stocks, pH meter),
 /// written into `design.uncertainty`; folded in a `<details class="more">`.
@@ -385,7 +365,6 @@ pub fn UncertaintyFields(
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use solver::document::demo_design;

@@ -16,7 +16,8 @@
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
 
 use solver::document::{demo_design, parse_design, report, to_json_pretty, Report};
-use solver::recipe::{format_mass, format_volume_ml, sig, sig_trim, METER_NOTE};
+use solver::fmt::{format_mass, format_volume_ml, sig, sig_trim};
+use solver::recipe::METER_NOTE;
 use std::io::Read;
 use std::process::ExitCode;
 

@@ -86,7 +86,7 @@ fn total_unit(v: &str) -> Result<TotalUnit, String> {
         "mg-co2" => Ok(TotalUnit::MgPerLCo2),
         o => Err(format!(
             "--total-unit: {} is not mg, mmol, umol, mg-nh3, mg-h2s, mg-caco3 or mg-co2",
-            crate::error::quote(o)
+            crate::fmt::quote(o)
         )),
     }
 }

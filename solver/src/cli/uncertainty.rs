@@ -13,7 +13,7 @@ pub fn budget_text(title: &str, u: &Uncertainty) -> String {
         out.push_str(&format!(
             "  {:<34} u = {:<10} {:<6} u(pH) = {:.5}  {:>5.1} %\n",
             r.input,
-            crate::recipe::sig(r.u_input, 3),
+            crate::fmt::sig(r.u_input, 3),
             r.unit,
             r.u_ph,
             r.share * 100.0

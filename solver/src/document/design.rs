@@ -4,11 +4,11 @@
 //! links and read by the command-line entry. [`parse_design`] migrates older
 //! schema versions, then checks every field and names the first bad one.
 
-use crate::document::reagent::{
-    reroot, systems_with_forms, validate_custom_forms, validate_user_system,
-};
-use crate::error::{clip, in_range, shorten_quoted, Result, SolverError, QUOTE_MAX};
+use super::docpath;
+use crate::document::reagent::{systems_with_forms, validate_custom_forms, validate_user_system};
+use crate::error::{Result, SolverError};
 use crate::field::FieldSpec;
+use crate::limits;
 use crate::mixture::{lookup, MixtureSpec, WhatIf};
 use crate::recipe::{Method, RecipeSpec};
 use crate::system::library::find_form;
@@ -175,9 +175,9 @@ pub fn parse_design(text: &str) -> Result<Design> {
 pub fn parse_design_value(value: serde_json::Value) -> Result<Design> {
     let value = migrate(value)?;
     let design: Design = crate::document::docpath::from_value(&value)
-        .map_err(|e| serde_err(&e.path(), &e.message))?;
+        .map_err(|e| docpath::serde_err(&e.path(), &e.message))?;
     let back = serde_json::to_value(&design).unwrap_or(serde_json::Value::Null);
-    if let Some(field) = extra_tagged_key(&value, &back, "") {
+    if let Some(field) = docpath::extra_tagged_key(&value, &back, "") {
         return Err(doc_err(
             &field,
             "unknown field (this kind takes no such key; check the spelling)",
@@ -187,75 +187,8 @@ pub fn parse_design_value(value: serde_json::Value) -> Result<Design> {
     Ok(design)
 }
 
-/// A serde error as a field-named [`SolverError::Document`]: an unknown key
-/// joins the path (`recipe.prepare_temprature_c: unknown field ...`), and a
-/// quoted bad value is cut short.
-pub(crate) fn serde_err(path: &str, msg: &str) -> SolverError {
-    if let Some((key, expected)) = msg
-        .strip_prefix("unknown field `")
-        .and_then(|rest| rest.split_once('`'))
-    {
-        // The path may already end with the key (plain structs) or stop at
-        // the enclosing object (internally tagged enums).
-        let parent = path
-            .strip_suffix(key)
-            .map(|p| p.trim_end_matches('.'))
-            .unwrap_or(path);
-        let key = clip(key, QUOTE_MAX);
-        let field = if parent.is_empty() || parent == "." {
-            key
-        } else {
-            format!("{parent}.{key}")
-        };
-        let expected = expected.trim_start_matches([',', ' ']);
-        let reason = if expected.is_empty() {
-            "unknown field (check the spelling)".to_string()
-        } else {
-            format!("unknown field ({expected}; check the spelling)")
-        };
-        return doc_err(&field, reason);
-    }
-    doc_err(path, shorten_quoted(msg))
-}
-
-/// A key of an internally tagged object (one with a `kind`) that the parsed
-/// design does not carry. Serde's `deny_unknown_fields` does not reach the
-/// unit variants of such enums (`{"kind": "zero", "us_cm": 3}` would pass),
-/// so the document is compared with the design read from it.
-pub(crate) fn extra_tagged_key(
-    input: &serde_json::Value,
-    parsed: &serde_json::Value,
-    path: &str,
-) -> Option<String> {
-    use serde_json::Value;
-    let join = |key: &str| {
-        if path.is_empty() {
-            clip(key, QUOTE_MAX)
-        } else {
-            format!("{path}.{}", clip(key, QUOTE_MAX))
-        }
-    };
-    match (input, parsed) {
-        (Value::Object(a), Value::Object(b)) => {
-            if a.contains_key("kind") {
-                if let Some(k) = a.keys().find(|k| !b.contains_key(k.as_str())) {
-                    return Some(join(k));
-                }
-            }
-            a.iter()
-                .find_map(|(k, va)| b.get(k).and_then(|vb| extra_tagged_key(va, vb, &join(k))))
-        }
-        (Value::Array(a), Value::Array(b)) => a
-            .iter()
-            .zip(b)
-            .enumerate()
-            .find_map(|(i, (va, vb))| extra_tagged_key(va, vb, &format!("{path}[{i}]"))),
-        _ => None,
-    }
-}
-
 fn prefixed(prefix: &str, e: SolverError) -> SolverError {
-    crate::document::reagent::map_field(e, |f| format!("{prefix}.{f}"))
+    e.map_field(|f| format!("{prefix}.{f}"))
 }
 
 /// Check every field a user can enter, without solving anything.
@@ -268,8 +201,7 @@ pub fn validate_design(d: &Design) -> Result<()> {
         return Err(doc_err("name", "longer than 120 characters"));
     }
     for (i, s) in d.custom_systems.iter().enumerate() {
-        validate_user_system(s)
-            .map_err(|e| reroot(e, "system", &format!("custom_systems[{i}]")))?;
+        validate_user_system(s).map_err(|e| e.reroot("system", &format!("custom_systems[{i}]")))?;
     }
     validate_custom_forms(&d.custom_forms, &d.custom_systems)?;
     let systems = d.systems();
@@ -278,34 +210,33 @@ pub fn validate_design(d: &Design) -> Result<()> {
     let r = &d.recipe;
     let rp = |e| prefixed("recipe", e);
     let sys = lookup(&r.system, custom)?;
-    in_range("target_ph", r.target_ph, 0.0, 14.0).map_err(rp)?;
-    in_range("temperature_c", r.temperature_c, 0.0, 60.0).map_err(rp)?;
-    in_range("total_conc_m", r.total_conc_m, 0.0, 5.0).map_err(rp)?;
-    in_range("volume_l", r.volume_l, 0.0, 1000.0).map_err(rp)?;
-    in_range("tolerance_ph", r.tolerance_ph, 0.0, 2.0).map_err(rp)?;
+    limits::TARGET_PH.check(r.target_ph).map_err(rp)?;
+    limits::TEMPERATURE_C.check(r.temperature_c).map_err(rp)?;
+    limits::TOTAL_CONC_M.check(r.total_conc_m).map_err(rp)?;
+    limits::VOLUME_L.check(r.volume_l).map_err(rp)?;
+    limits::TOLERANCE_PH.check(r.tolerance_ph).map_err(rp)?;
     // The preparation temperature is checked against the system's data range by the
     // recipe (as the working temperature is), not here: a design whose system changed
     // under it still opens, and the recipe says why beside the field.
     if let Some(t) = r.prepare_temperature_c {
-        in_range("prepare_temperature_c", t, 0.0, 60.0).map_err(rp)?;
+        limits::PREPARE_TEMPERATURE_C.check(t).map_err(rp)?;
     }
-    in_range(
-        "concentrate_factor",
-        r.concentrate_factor,
-        1.0,
-        crate::recipe::CONCENTRATE_FACTOR_MAX,
-    )
-    .map_err(rp)?;
+    limits::CONCENTRATE_FACTOR
+        .check(r.concentrate_factor)
+        .map_err(rp)?;
     for (i, s) in r.salts.iter().enumerate() {
-        in_range(&format!("salts[{i}].conc_m"), s.conc_m, 0.0, 5.0).map_err(rp)?;
+        limits::SALT_CONC_M
+            .check_as(&format!("salts[{i}].conc_m"), s.conc_m)
+            .map_err(rp)?;
     }
     crate::recipe::validate_salts(&r.salts).map_err(rp)?;
     let form_ok = |field: &str, id: &str| -> Result<()> {
         if find_form(sys, id).is_some() {
             Ok(())
         } else {
-            Err(SolverError::Unknown {
-                kind: format!("form (recipe.method.{field})"),
+            Err(SolverError::UnknownChoice {
+                field: format!("recipe.method.{field}"),
+                kind: "form".into(),
                 name: id.into(),
             })
         }
@@ -322,7 +253,7 @@ pub fn validate_design(d: &Design) -> Result<()> {
             form, titrant_m, ..
         } => {
             form_ok("form", form)?;
-            in_range("method.titrant_m", *titrant_m, 0.0, 20.0).map_err(rp)?;
+            limits::TITRANT_M.check(*titrant_m).map_err(rp)?;
         }
         Method::TwoStocks {
             acid_form,
@@ -332,34 +263,45 @@ pub fn validate_design(d: &Design) -> Result<()> {
         } => {
             form_ok("acid_form", acid_form)?;
             form_ok("base_form", base_form)?;
-            in_range("method.acid_stock_m", *acid_stock_m, 0.0, 20.0).map_err(rp)?;
-            in_range("method.base_stock_m", *base_stock_m, 0.0, 20.0).map_err(rp)?;
+            limits::ACID_STOCK_M.check(*acid_stock_m).map_err(rp)?;
+            limits::BASE_STOCK_M.check(*base_stock_m).map_err(rp)?;
         }
     }
     // Mixture.
     let mp = |e| prefixed("mixture", e);
-    in_range("temperature_c", d.mixture.temperature_c, 0.0, 60.0).map_err(mp)?;
+    limits::MIXTURE_TEMPERATURE_C
+        .check(d.mixture.temperature_c)
+        .map_err(mp)?;
     for (i, c) in d.mixture.components.iter().enumerate() {
         let s = lookup(&c.system, custom)?;
-        in_range(&format!("components[{i}].conc_m"), c.conc_m, 0.0, 5.0).map_err(mp)?;
+        limits::COMPONENT_CONC_M
+            .check_as(&format!("components[{i}].conc_m"), c.conc_m)
+            .map_err(mp)?;
         if let Some(f) = &c.form {
             if find_form(s, f).is_none() {
-                return Err(SolverError::Unknown {
-                    kind: format!("form (mixture.components[{i}].form)"),
+                return Err(SolverError::UnknownChoice {
+                    field: format!("mixture.components[{i}].form"),
+                    kind: "form".into(),
                     name: f.clone(),
                 });
             }
         }
     }
     for (i, a) in d.mixture.additives.iter().enumerate() {
-        in_range(&format!("additives[{i}].conc_m"), a.conc_m, 0.0, 5.0).map_err(mp)?;
+        limits::ADDITIVE_CONC_M
+            .check_as(&format!("additives[{i}].conc_m"), a.conc_m)
+            .map_err(mp)?;
     }
     let wp = |e| prefixed("what_if", e);
     let w = &d.what_if;
-    in_range("dilution_factor", w.dilution_factor, 1.0, 1e9).map_err(wp)?;
-    in_range("add_acid_m", w.add_acid_m, 0.0, 5.0).map_err(wp)?;
-    in_range("add_base_m", w.add_base_m, 0.0, 5.0).map_err(wp)?;
-    in_range("temperature_c", w.temperature_c, 0.0, 60.0).map_err(wp)?;
+    limits::DILUTION_FACTOR
+        .check(w.dilution_factor)
+        .map_err(wp)?;
+    limits::ADD_ACID_M.check(w.add_acid_m).map_err(wp)?;
+    limits::ADD_BASE_M.check(w.add_base_m).map_err(wp)?;
+    limits::WHAT_IF_TEMPERATURE_C
+        .check(w.temperature_c)
+        .map_err(wp)?;
     // Field.
     // Field: system, pH, temperature, total, ionic source, alkalinity, limit.
     let fp = |e| prefixed("field", e);
@@ -379,7 +321,6 @@ pub fn to_json_pretty(d: &Design) -> String {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use crate::document::report::demo_design;

@@ -11,6 +11,8 @@
 //! One deserialiser for every document type keeps the page small: each
 //! derived `Deserialize` is instantiated once, for this deserialiser only.
 
+use crate::error::{shorten_quoted, SolverError};
+use crate::fmt::{clip, QUOTE_MAX};
 use serde::de::{
     self, DeserializeOwned, DeserializeSeed, EnumAccess, MapAccess, SeqAccess, VariantAccess,
     Visitor,
@@ -402,8 +404,77 @@ impl<'de> VariantAccess<'de> for Variant<'de> {
     }
 }
 
+/// A serde error as a field-named [`SolverError::Document`]: an unknown key
+/// joins the path (`recipe.prepare_temprature_c: unknown field ...`), and a
+/// quoted bad value is cut short.
+pub(crate) fn serde_err(path: &str, msg: &str) -> SolverError {
+    if let Some((key, expected)) = msg
+        .strip_prefix("unknown field `")
+        .and_then(|rest| rest.split_once('`'))
+    {
+        // The path may already end with the key (plain structs) or stop at
+        // the enclosing object (internally tagged enums).
+        let parent = path
+            .strip_suffix(key)
+            .map(|p| p.trim_end_matches('.'))
+            .unwrap_or(path);
+        let key = clip(key, QUOTE_MAX);
+        let field = if parent.is_empty() || parent == "." {
+            key
+        } else {
+            format!("{parent}.{key}")
+        };
+        let expected = expected.trim_start_matches([',', ' ']);
+        let reason = if expected.is_empty() {
+            "unknown field (check the spelling)".to_string()
+        } else {
+            format!("unknown field ({expected}; check the spelling)")
+        };
+        return SolverError::Document { field, reason };
+    }
+    SolverError::Document {
+        field: path.into(),
+        reason: shorten_quoted(msg),
+    }
+}
+
+/// A key of an internally tagged object (one with a `kind`) that the parsed
+/// design does not carry. Serde's `deny_unknown_fields` does not reach the
+/// unit variants of such enums (`{"kind": "zero", "us_cm": 3}` would pass),
+/// so the document is compared with the design read from it.
+pub(crate) fn extra_tagged_key(
+    input: &serde_json::Value,
+    parsed: &serde_json::Value,
+    path: &str,
+) -> Option<String> {
+    use serde_json::Value;
+    let join = |key: &str| {
+        if path.is_empty() {
+            clip(key, QUOTE_MAX)
+        } else {
+            format!("{path}.{}", clip(key, QUOTE_MAX))
+        }
+    };
+    match (input, parsed) {
+        (Value::Object(a), Value::Object(b)) => {
+            if a.contains_key("kind") {
+                if let Some(k) = a.keys().find(|k| !b.contains_key(k.as_str())) {
+                    return Some(join(k));
+                }
+            }
+            a.iter()
+                .find_map(|(k, va)| b.get(k).and_then(|vb| extra_tagged_key(va, vb, &join(k))))
+        }
+        (Value::Array(a), Value::Array(b)) => a
+            .iter()
+            .zip(b)
+            .enumerate()
+            .find_map(|(i, (va, vb))| extra_tagged_key(va, vb, &format!("{path}[{i}]"))),
+        _ => None,
+    }
+}
+
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
     use serde::Deserialize;

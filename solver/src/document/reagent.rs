@@ -6,7 +6,8 @@
 //! must leave the system in a charge its species can carry). Added forms, reagent files and
 //! the editor's per-field messages all run it, on the system or on parts of it.
 
-use crate::error::{clip, quote, Result, SolverError, QUOTE_MAX};
+use crate::error::{Result, SolverError};
+use crate::fmt::{clip, quote, QUOTE_MAX};
 use crate::mixture::lookup;
 use crate::system::formula::element_count;
 use crate::system::library::{counter_charge, find_system};
@@ -19,58 +20,6 @@ pub const REAGENT_FILE_VERSION: u32 = 1;
 
 /// Largest reagent file read, bytes.
 pub const REAGENT_FILE_MAX_BYTES: usize = 256 * 1024;
-
-/// The field path an error names, if it names one.
-pub fn error_field(e: &SolverError) -> Option<&str> {
-    match e {
-        SolverError::NotFinite { field }
-        | SolverError::Negative { field, .. }
-        | SolverError::OutOfRange { field, .. }
-        | SolverError::Infeasible { field, .. }
-        | SolverError::Document { field, .. } => Some(field),
-        _ => None,
-    }
-}
-
-/// The same error with its field path rewritten by `f`.
-pub fn map_field(e: SolverError, f: impl Fn(&str) -> String) -> SolverError {
-    match e {
-        SolverError::NotFinite { field } => SolverError::NotFinite { field: f(&field) },
-        SolverError::Negative { field, value } => SolverError::Negative {
-            field: f(&field),
-            value,
-        },
-        SolverError::OutOfRange {
-            field,
-            value,
-            min,
-            max,
-        } => SolverError::OutOfRange {
-            field: f(&field),
-            value,
-            min,
-            max,
-        },
-        SolverError::Infeasible { field, reason } => SolverError::Infeasible {
-            field: f(&field),
-            reason,
-        },
-        SolverError::Document { field, reason } => SolverError::Document {
-            field: f(&field),
-            reason,
-        },
-        other => other,
-    }
-}
-
-/// Replace the leading `from` of a field path by `to` (`system.steps[1]` →
-/// `custom_systems[0].steps[1]` with `from = "system"`, `to = "custom_systems[0]"`).
-pub fn reroot(e: SolverError, from: &str, to: &str) -> SolverError {
-    map_field(e, |f| match f.strip_prefix(from) {
-        Some(rest) if rest.is_empty() || rest.starts_with(['.', '[']) => format!("{to}{rest}"),
-        _ => format!("{to}.{f}"),
-    })
-}
 
 /// Charge each unit of the system carries as this form delivers it:
 /// −(counter-ion charge) / units (Na₂HPO₄: −2; borax: −0.5; Tris·HCl: +1).
@@ -243,7 +192,7 @@ pub fn validate_custom_forms(forms: &[CustomForm], systems: &[AcidSystem]) -> Re
             .and_then(|()| check_form_charges(&probe, j))
             .and_then(|()| check_form_formulas(&probe, j))
             .map_err(|e| {
-                map_field(e, |f| match f.strip_prefix(own.as_str()) {
+                e.map_field(|f| match f.strip_prefix(own.as_str()) {
                     Some(rest) => format!("{root}.form{rest}"),
                     None => format!("{root}.system ({f})"),
                 })
@@ -313,10 +262,10 @@ pub struct ReagentFile {
 pub fn validate_reagent(r: &Reagent, systems: &[AcidSystem]) -> Result<()> {
     match r {
         Reagent::System(s) => {
-            validate_user_system(s).map_err(|e| reroot(e, "system", "reagent.system"))
+            validate_user_system(s).map_err(|e| e.reroot("system", "reagent.system"))
         }
         Reagent::Form(cf) => validate_custom_forms(std::slice::from_ref(cf), systems)
-            .map_err(|e| reroot(e, "custom_forms[0]", "reagent.form")),
+            .map_err(|e| e.reroot("custom_forms[0]", "reagent.form")),
     }
 }
 
@@ -378,9 +327,9 @@ pub fn parse_reagent(text: &str) -> Result<Reagent> {
         }
     }
     let file: ReagentFile = crate::document::docpath::from_value(&value)
-        .map_err(|e| crate::document::design::serde_err(&e.path(), &e.message))?;
+        .map_err(|e| super::docpath::serde_err(&e.path(), &e.message))?;
     let back = serde_json::to_value(&file).unwrap_or(serde_json::Value::Null);
-    if let Some(field) = crate::document::design::extra_tagged_key(&value, &back, "") {
+    if let Some(field) = super::docpath::extra_tagged_key(&value, &back, "") {
         return Err(file_err(
             &field,
             "unknown field (this kind takes no such key; check the spelling)",
@@ -450,8 +399,8 @@ fn skeleton(z0: i32, n: usize) -> AcidSystem {
 pub fn system_field_problems(sys: &AcidSystem) -> Vec<SolverError> {
     let mut out: Vec<SolverError> = Vec::new();
     let mut push = |e: SolverError| {
-        let f = error_field(&e).map(str::to_string);
-        if !out.iter().any(|o| error_field(o).map(str::to_string) == f) {
+        let f = e.field().map(str::to_string);
+        if !out.iter().any(|o| o.field().map(str::to_string) == f) {
             out.push(e);
         }
     };
@@ -505,7 +454,7 @@ pub fn system_field_problems(sys: &AcidSystem) -> Vec<SolverError> {
         p.t_max_c = sys.t_max_c;
         if let Err(e) = validate_user_system(&p) {
             let own = format!("system.steps[{i}]");
-            if error_field(&e).is_some_and(|f| f.starts_with(&own)) {
+            if e.field().is_some_and(|f| f.starts_with(&own)) {
                 push(e);
             }
         }
@@ -525,7 +474,7 @@ pub fn system_field_problems(sys: &AcidSystem) -> Vec<SolverError> {
     };
     for (j, form) in sys.forms.iter().enumerate() {
         let at_j = |e: SolverError| {
-            map_field(e, |f| match f.strip_prefix("system.forms[0]") {
+            e.map_field(|f| match f.strip_prefix("system.forms[0]") {
                 Some(rest) => format!("system.forms[{j}]{rest}"),
                 None => f.to_string(),
             })

@@ -167,7 +167,6 @@ pub fn design_uncertainty(d: &Design, inputs: &UncertaintyInputs) -> DesignUncer
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
     use crate::document::design::{parse_design, to_json_pretty};

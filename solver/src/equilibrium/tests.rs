@@ -1,5 +1,4 @@
 //! Native tests of the equilibrium engine: balances, limits, derivatives, worked examples.
-#![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 use super::*;
 
 fn water(activity: ActivityModel) -> Composition {

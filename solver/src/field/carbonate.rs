@@ -19,8 +19,8 @@
 //! An alkalinity in mg/L as CaCO₃ is converted on the equivalent basis,
 //! 1 meq = 50.04 mg CaCO₃ (half the molar mass from CIAAW 2021 weights).
 
+use super::sample::FieldSample;
 use crate::error::{non_negative, Result, SolverError};
-use crate::field::FieldSample;
 use crate::system::formula::molar_mass;
 use serde::{Deserialize, Serialize};
 
@@ -35,7 +35,7 @@ pub enum AlkalinityUnit {
 }
 
 fn caco3() -> Result<f64> {
-    match crate::field::basis_mass("CaCO3") {
+    match crate::system::formula::basis_mass("CaCO3") {
         Some(m) => Ok(m),
         None => molar_mass("CaCO3"),
     }
@@ -78,6 +78,7 @@ impl Alkalinity {
                 },
             });
         }
+        crate::limits::ALKALINITY_VALUE.check(v)?;
         Ok(meq / 1000.0)
     }
 }
@@ -185,7 +186,7 @@ pub fn carbonate_from_alkalinity(
     }
     let dic = carb / per_c;
     let mg = |f: &str, c: f64| -> Result<f64> {
-        let m = match crate::field::basis_mass(f) {
+        let m = match crate::system::formula::basis_mass(f) {
             Some(m) => m,
             None => molar_mass(f)?,
         };

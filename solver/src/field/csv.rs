@@ -459,7 +459,6 @@ pub fn write_number(out: &mut String, v: f64, decimal_comma: bool) {
 }
 
 #[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
 mod tests {
     use super::*;
 

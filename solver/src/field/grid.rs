@@ -1,12 +1,11 @@
 //! pH × temperature tables of one species' fraction or concentration, as CSV, Markdown or a standalone HTML page.
 
+use super::ionic::{ionic_from, IonicSource};
+use super::reading::{reporting_bases, total_to_molar, TotalUnit};
+use super::sample::{target_species, FieldSample};
+use super::seawater::{outside_note, seawater_note, PkModel};
 use crate::error::{in_range, Result, SolverError};
-use crate::field::log::ascii_name;
-use crate::field::seawater::{outside_note, seawater_note, PkModel};
-use crate::field::{
-    ionic_from, reporting_bases, target_species, total_to_molar, FieldSample, IonicSource,
-    TotalUnit,
-};
+use crate::fmt::ascii_name;
 use crate::mixture::lookup;
 use crate::system::{AcidSystem, Hazard};
 use serde::{Deserialize, Serialize};
@@ -254,7 +253,7 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
         }
     }
     if ionic > crate::equilibrium::activity::DAVIES_LIMIT && !columns.iter().all(sea) {
-        warnings.push(crate::field::beyond_davies_warning(ionic));
+        warnings.push(super::sample::beyond_davies_warning(ionic));
     }
     Ok(Grid {
         system_name: sys.name.clone(),
@@ -270,26 +269,26 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
 }
 
 fn cell(v: f64) -> String {
-    crate::field::csv::format_number(v, false)
+    super::csv::format_number(v, false)
 }
 
 fn axis(v: f64) -> String {
-    crate::field::csv::format_number(v, false)
+    super::csv::format_number(v, false)
 }
 
 /// The grid as CSV: first column pH, one column per temperature.
 pub fn render_csv(g: &Grid) -> String {
-    let sep = crate::field::csv::Separator::Comma;
+    let sep = super::csv::Separator::Comma;
     let mut out = String::new();
     let head: Vec<String> = std::iter::once("pH".to_string())
         .chain(g.temperatures_c.iter().map(|t| format!("{} °C", axis(*t))))
         .collect();
-    crate::field::csv::push_row(&mut out, head.iter().map(String::as_str), sep);
+    super::csv::push_row(&mut out, head.iter().map(String::as_str), sep);
     for (p, row) in g.ph.iter().zip(&g.values) {
         let cells: Vec<String> = std::iter::once(axis(*p))
             .chain(row.iter().map(|v| cell(*v)))
             .collect();
-        crate::field::csv::push_row(&mut out, cells.iter().map(String::as_str), sep);
+        super::csv::push_row(&mut out, cells.iter().map(String::as_str), sep);
     }
     out
 }

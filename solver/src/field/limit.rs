@@ -11,8 +11,8 @@
 //! found by bisection on pH 0–14; when the limit is not reached anywhere in
 //! 0–14 it is `None`.
 
-use crate::error::{finite, Result, SolverError};
-use crate::field::{target_species, FieldSample};
+use super::sample::{target_species, FieldSample};
+use crate::error::{Result, SolverError};
 use crate::system::formula::molar_mass;
 use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};
@@ -173,7 +173,7 @@ pub struct LimitResult {
 }
 
 /// Highest limit value accepted (in its own unit).
-pub const MAX_LIMIT: f64 = 1e6;
+pub const MAX_LIMIT: f64 = crate::limits::LIMIT_VALUE.max;
 
 /// Check a limit and that it fits the system.
 ///
@@ -182,15 +182,7 @@ pub const MAX_LIMIT: f64 = 1e6;
 /// `limit.value` not finite, not above zero or beyond [`MAX_LIMIT`];
 /// `limit.unit` for another system than `system_id`.
 pub fn validate_limit(limit: &Limit, system_id: &str) -> Result<()> {
-    let v = finite("limit.value", limit.value)?;
-    if v <= 0.0 || v > MAX_LIMIT {
-        return Err(SolverError::OutOfRange {
-            field: "limit.value".into(),
-            value: v,
-            min: f64::MIN_POSITIVE,
-            max: MAX_LIMIT,
-        });
-    }
+    crate::limits::LIMIT_VALUE.check(limit.value)?;
     let (sys, ..) = limit.unit.parts();
     if sys != system_id {
         return Err(SolverError::Infeasible {
@@ -227,7 +219,7 @@ pub fn evaluate_limit(
     validate_limit(limit, system_id)?;
     let (index, _) = target_species(system_id).unwrap_or((0, ""));
     let (_, basis, formula, scale) = limit.unit.parts();
-    let mm = match crate::field::basis_mass(formula) {
+    let mm = match crate::system::formula::basis_mass(formula) {
         Some(m) => m,
         None => molar_mass(formula)?,
     };

@@ -22,16 +22,18 @@
 //! The work can be done in chunks ([`LogPlan::compute`] over a range of rows)
 //! so the page can show progress.
 
-use crate::error::{Result, SolverError};
-use crate::field::carbonate::{Alkalinity, AlkalinityUnit};
-use crate::field::csv::{
+use super::carbonate::{Alkalinity, AlkalinityUnit};
+use super::csv::{
     decode, parse, parse_number, push_field, push_row, write_number, Separator, Table,
 };
-use crate::field::limit::Limit;
-use crate::field::{
-    field_reading, field_reading_cached, reporting_bases, target_species, FieldCache, FieldResult,
-    FieldSpec, IonicSource, TotalUnit,
+use super::ionic::IonicSource;
+use super::limit::Limit;
+use super::reading::{
+    field_reading, field_reading_cached, reporting_bases, FieldResult, FieldSpec, TotalUnit,
 };
+use super::sample::{target_species, FieldCache};
+use crate::error::{Result, SolverError};
+use crate::fmt::ascii_name;
 use crate::mixture::lookup;
 use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};
@@ -399,21 +401,6 @@ pub struct LogPlan {
     custom: Vec<AcidSystem>,
     species_ascii: Vec<String>,
     steps: usize,
-}
-
-/// Species name in plain ASCII for column names: `NH₃` → `NH3`, `HCO₃⁻` → `HCO3`, `CO₂(aq)` → `CO2`.
-pub fn ascii_name(name: &str) -> String {
-    let mut s = String::new();
-    for c in name.chars() {
-        match c {
-            '₀'..='₉' => s.push(char::from(b'0' + (c as u32 - '₀' as u32) as u8)),
-            '⁺' | '⁻' | '⁰' | '¹' | '²' | '³' | '⁴' | '⁵' | '⁶' | '⁷' | '⁸' | '⁹' =>
-                {}
-            c if c.is_ascii() => s.push(c),
-            _ => {}
-        }
-    }
-    s.replace("(aq)", "")
 }
 
 /// Basis label in ASCII (`NH₃` → `NH3`, `Cl₂` → `Cl2`).

@@ -1,7 +1,9 @@
 //! Plot data for a field reading: the share of the form that matters against pH, at the sample temperature and 5 °C either side.
 
+use super::ionic::ionic_from;
+use super::reading::FieldSpec;
+use super::sample::{target_species, FieldSample};
 use crate::error::{in_range, Result, SolverError};
-use crate::field::{ionic_from, target_species, FieldSample, FieldSpec};
 use crate::mixture::lookup;
 use crate::system::AcidSystem;
 use serde::{Deserialize, Serialize};

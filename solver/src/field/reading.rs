@@ -6,21 +6,8 @@
 //! at the measured pH and an ionic strength that is given, estimated from
 //! conductivity or TDS, or taken as zero.
 //!
-//! Common practice rules of thumb for the ionic strength of natural waters:
-//!
-//! ```text
-//! I ≈ 1.6×10⁻⁵ × specific conductance (µS/cm)     (Russell 1976)
-//! I ≈ 2.5×10⁻⁵ × TDS (mg/L)                       (Langelier 1936)
-//! ```
-//!
-//! From practical salinity S (Dickson, Sabine & Christian 2007, *Guide to
-//! Best Practices for Ocean CO₂ Measurements*, PICES Special Publication 3,
-//! chapter 5; mol/kg-H₂O, used here as mol/L, a difference of a few per cent
-//! that is small beside the activity model's own error at these strengths):
-//!
-//! ```text
-//! I = 19.924 S / (1000 − 1.005 S)
-//! ```
+//! The ionic strength comes from [`super::ionic`] (rules of thumb for
+//! conductivity and TDS, the salinity formula).
 //!
 //! For ammonia with a salinity, the seawater model of Clegg & Whitfield
 //! (1995) gives the constant ([`crate::field::seawater`], total pH scale, salinity
@@ -33,49 +20,18 @@
 //! ([`crate::field::carbonate`]), and a user's limit for the form that
 //! matters ([`crate::field::limit`]). No regulatory number is built in.
 
-use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
-use crate::equilibrium::{fractions_into, Acid};
-use crate::error::{in_range, non_negative, Result, SolverError};
-use crate::field::carbonate::{carbonate_from_alkalinity, Alkalinity, CarbonateResult};
-use crate::field::limit::{evaluate_limit, validate_limit, Limit, LimitResult};
-use crate::field::seawater::{
-    outside_note, pk_ammonium_seawater, seawater_note, seawater_use, PkModel, SeawaterUse,
-};
+use super::carbonate::{carbonate_from_alkalinity, Alkalinity, CarbonateResult};
+use super::ionic::{ionic_from, IonicSource};
+use super::limit::{evaluate_limit, validate_limit, Limit, LimitResult};
+use super::sample::{beyond_davies_warning, target_species, AtTemperature, FieldCache};
+use super::seawater::{outside_note, seawater_note, seawater_use, PkModel, SeawaterUse};
+use crate::equilibrium::activity::DAVIES_LIMIT;
+use crate::error::{non_negative, Result, SolverError};
+use crate::limits;
 use crate::mixture::lookup;
-use crate::system::formula::molar_mass;
-use crate::system::thermo::system_pks;
-use crate::system::{AcidSystem, Hazard, MAX_STEPS};
-use crate::water::{debye_huckel_a, pkw};
+use crate::system::formula::{basis_mass, molar_mass};
+use crate::system::{AcidSystem, Hazard};
 use serde::{Deserialize, Serialize};
-
-/// Where the ionic strength of a field sample comes from.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
-#[serde(tag = "kind", rename_all = "snake_case", deny_unknown_fields)]
-pub enum IonicSource {
-    /// Take I = 0 (infinite dilution).
-    Zero,
-    /// A known ionic strength, mol/L.
-    Direct {
-        /// Ionic strength, mol/L.
-        ionic_strength: f64,
-    },
-    /// Specific conductance, µS/cm (Russell 1976 rule of thumb).
-    Conductivity {
-        /// µS/cm.
-        us_cm: f64,
-    },
-    /// Total dissolved solids, mg/L (Langelier 1936 rule of thumb).
-    Tds {
-        /// mg/L.
-        mg_l: f64,
-    },
-    /// Practical salinity (PSS-78, numerically ‰), Dickson, Sabine &
-    /// Christian (2007): I = 19.924 S / (1000 − 1.005 S).
-    Salinity {
-        /// Practical salinity, 0–50.
-        psu: f64,
-    },
-}
 
 /// Unit of a field total.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
@@ -227,53 +183,6 @@ pub fn reporting_bases(system_id: &str) -> &'static [(&'static str, &'static str
     }
 }
 
-/// The species that usually matters for a system (index, reason): the
-/// toxic or reactive form a limit is set for.
-pub fn target_species(system_id: &str) -> Option<(usize, &'static str)> {
-    match system_id {
-        "ammonium" => Some((1, "Un-ionized ammonia, the form toxic to fish")),
-        "sulfide" => Some((0, "Hydrogen sulfide, the toxic form that escapes as gas")),
-        "hypochlorous" => Some((0, "Hypochlorous acid, the stronger disinfectant")),
-        "carbonate" => Some((0, "Dissolved (free) CO₂")),
-        _ => None,
-    }
-}
-
-/// Ionic strength from practical salinity, Dickson, Sabine & Christian
-/// (2007) ch. 5: `I = 19.924 S / (1000 − 1.005 S)` (mol/kg-H₂O). No range
-/// check (see [`ionic_from`]).
-///
-/// # Example
-///
-/// ```
-/// # use solver::field::ionic_from_salinity;
-/// assert!((ionic_from_salinity(35.0) - 0.7228).abs() < 1e-4);
-/// ```
-pub fn ionic_from_salinity(psu: f64) -> f64 {
-    19.924 * psu / (1000.0 - 1.005 * psu)
-}
-
-/// Ionic strength from a field source (common-practice rules of thumb).
-///
-/// # Errors
-///
-/// Negative or non-finite readings.
-pub fn ionic_from(source: &IonicSource) -> Result<f64> {
-    Ok(match source {
-        IonicSource::Zero => 0.0,
-        IonicSource::Direct { ionic_strength } => {
-            in_range("ionic.ionic_strength", *ionic_strength, 0.0, 5.0)?
-        }
-        IonicSource::Conductivity { us_cm } => {
-            1.6e-5 * in_range("ionic.us_cm", *us_cm, 0.0, 200_000.0)?
-        }
-        IonicSource::Tds { mg_l } => 2.5e-5 * in_range("ionic.mg_l", *mg_l, 0.0, 100_000.0)?,
-        IonicSource::Salinity { psu } => {
-            ionic_from_salinity(in_range("ionic.psu", *psu, 0.0, 50.0)?)
-        }
-    })
-}
-
 /// Check the parts of a field reading that can be checked without solving:
 /// pH, temperature bounds of the water model, total, ionic source,
 /// alkalinity and limit, and that they fit the chosen system. Paths are
@@ -284,10 +193,10 @@ pub fn ionic_from(source: &IonicSource) -> Result<f64> {
 /// The first bad field, named.
 pub fn validate_field(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<()> {
     let sys = lookup(&spec.system, custom)?;
-    in_range("ph", spec.ph, 0.0, 14.0)?;
-    in_range("temperature_c", spec.temperature_c, 0.0, 60.0)?;
+    limits::FIELD_PH.check(spec.ph)?;
+    limits::FIELD_TEMPERATURE_C.check(spec.temperature_c)?;
     if let Some(t) = spec.total {
-        in_range("total", t, 0.0, 1e6)?;
+        limits::FIELD_TOTAL.check(t)?;
     }
     if let Some((id, label, _)) = spec.total_unit.fixed_basis() {
         if id != sys.id {
@@ -370,255 +279,6 @@ pub fn total_to_molar(system_id: &str, total: f64, unit: TotalUnit) -> Result<f6
             }
         },
     })
-}
-
-/// Molar mass of a reporting-basis or limit formula, computed once per
-/// formula (CIAAW 2021 weights through [`molar_mass`]); `None` when the
-/// formula does not parse.
-pub fn basis_mass(formula: &str) -> Option<f64> {
-    use std::sync::OnceLock;
-    const FORMULAS: [&str; 13] = [
-        "N", "NH3", "Cl2", "S", "H2S", "C", "CaCO3", "CO2", "P", "B", "HOCl", "HCO3", "CO3",
-    ];
-    static MASSES: OnceLock<Vec<Option<f64>>> = OnceLock::new();
-    let masses = MASSES.get_or_init(|| FORMULAS.iter().map(|f| molar_mass(f).ok()).collect());
-    match FORMULAS.iter().position(|f| *f == formula) {
-        Some(i) => masses.get(i).copied().flatten(),
-        None => molar_mass(formula).ok(),
-    }
-}
-
-/// Warning text for an ionic strength past the Davies range.
-pub fn beyond_davies_warning(ionic: f64) -> String {
-    format!(
-        "Ionic strength {ionic:.3} mol/L is beyond the range the Davies activity model is \
-         trusted in (about {DAVIES_LIMIT} mol/L) and no seawater model is used: the fractions \
-         are indicative only."
-    )
-}
-
-/// What a [`FieldSample`] needs from the temperature alone: the system's
-/// thermodynamic pK values, Kw and the Debye–Hückel A. Logs keep these per
-/// distinct temperature ([`FieldCache`]) instead of redoing them per row;
-/// the numbers are the same either way.
-#[derive(Debug, Clone, PartialEq)]
-pub struct AtTemperature {
-    /// Temperature, °C (checked against 0–60 °C and the system's data).
-    pub temperature_c: f64,
-    /// Thermodynamic pK values at the temperature (I = 0).
-    pub pks: Vec<f64>,
-    acid: Acid,
-    kw: f64,
-    a_dh: f64,
-}
-
-impl AtTemperature {
-    /// A system's constants at a temperature.
-    ///
-    /// # Errors
-    ///
-    /// Temperature outside 0–60 °C or the system's data (field `temperature_c`).
-    pub fn new(sys: &AcidSystem, temperature_c: f64) -> Result<Self> {
-        let t = in_range("temperature_c", temperature_c, 0.0, 60.0)?;
-        let pks = system_pks(sys, t)?;
-        let a_dh = debye_huckel_a(t)?;
-        let acid = Acid::from_pks(sys.z0, &pks, 1.0);
-        let kw = 10f64.powf(-pkw(t)?);
-        Ok(Self {
-            temperature_c: t,
-            pks,
-            acid,
-            kw,
-            a_dh,
-        })
-    }
-
-    /// The sample at an ionic strength (Davies).
-    pub fn sample(&self, ionic_strength: f64) -> FieldSample {
-        FieldSample {
-            acid: self.acid,
-            kw: self.kw,
-            a_dh: self.a_dh,
-            gamma1: crate::equilibrium::activity::gamma1(
-                ActivityModel::Davies,
-                self.a_dh,
-                ionic_strength,
-            ),
-            ionic_strength,
-            model: PkModel::Davies,
-        }
-    }
-
-    /// The sample for an ionic-strength source whose ionic strength is
-    /// `ionic` (= [`ionic_from`] of it): the seawater ammonia model when the
-    /// source is a salinity in its range, Davies otherwise.
-    pub fn sample_for_source(
-        &self,
-        sys: &AcidSystem,
-        source: &IonicSource,
-        ionic: f64,
-    ) -> FieldSample {
-        let mut sample = self.sample(ionic);
-        if let SeawaterUse::Within(s) = seawater_use(&sys.id, source, self.temperature_c) {
-            sample.acid =
-                Acid::from_pks(sys.z0, &[pk_ammonium_seawater(self.temperature_c, s)], 1.0);
-            sample.gamma1 = 1.0;
-            sample.model = PkModel::CleggWhitfield1995;
-        }
-        sample
-    }
-}
-
-/// Most temperatures a [`FieldCache`] keeps (it starts afresh when full).
-const CACHE_TEMPERATURES: usize = 512;
-
-/// Temperature constants of one system, kept per distinct temperature (by
-/// its exact bits) across the readings of a log. Only successes are kept,
-/// so a bad row gives the same error as a single reading.
-#[derive(Debug, Clone, Default)]
-pub struct FieldCache {
-    system: String,
-    temperatures: Vec<(u64, AtTemperature)>,
-}
-
-impl FieldCache {
-    /// An empty cache.
-    pub fn new() -> Self {
-        Self::default()
-    }
-
-    fn at(&mut self, sys: &AcidSystem, temperature_c: f64) -> Result<&AtTemperature> {
-        if self.system != sys.id {
-            self.system.clone_from(&sys.id);
-            self.temperatures.clear();
-        }
-        let bits = temperature_c.to_bits();
-        let i = match self.temperatures.iter().position(|(b, _)| *b == bits) {
-            Some(i) => i,
-            None => {
-                let at = AtTemperature::new(sys, temperature_c)?;
-                if self.temperatures.len() >= CACHE_TEMPERATURES {
-                    self.temperatures.clear();
-                }
-                self.temperatures.push((bits, at));
-                self.temperatures.len() - 1
-            }
-        };
-        self.temperatures
-            .get(i)
-            .map(|(_, a)| a)
-            .ok_or_else(|| SolverError::Infeasible {
-                field: "temperature_c".into(),
-                reason: "internal: temperature cache".into(),
-            })
-    }
-}
-
-/// A field sample resolved at its temperature and ionic strength: what the
-/// speciation, alkalinity, limit crossing, plots and grids reuse. Built
-/// without the mixture machinery (no allocation beyond the pK list) because
-/// logs build one per row.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct FieldSample {
-    /// The system's constants at the temperature (total 1 mol/L).
-    pub acid: Acid,
-    /// Ionic product of water at the temperature.
-    pub kw: f64,
-    /// Debye–Hückel A at the temperature.
-    pub a_dh: f64,
-    /// γ₁ at the sample's ionic strength (Davies).
-    pub gamma1: f64,
-    /// Ionic strength, mol/L.
-    pub ionic_strength: f64,
-    /// The model of the constants in `acid`: with [`PkModel::Davies`] they
-    /// are thermodynamic and `gamma1` applies; with the seawater model they
-    /// are already the apparent (stoichiometric) constants and `gamma1` is 1.
-    pub model: PkModel,
-}
-
-impl FieldSample {
-    /// Resolve a system (by id) at a temperature and ionic strength.
-    ///
-    /// # Errors
-    ///
-    /// Unknown system, temperature outside 0–60 °C or the system's data.
-    pub fn new(
-        system: &str,
-        temperature_c: f64,
-        ionic_strength: f64,
-        custom: &[AcidSystem],
-    ) -> Result<Self> {
-        Self::for_system(lookup(system, custom)?, temperature_c, ionic_strength)
-    }
-
-    /// Resolve a system at a temperature and ionic strength.
-    ///
-    /// # Errors
-    ///
-    /// Temperature outside 0–60 °C or the system's data (field `temperature_c`).
-    pub fn for_system(sys: &AcidSystem, temperature_c: f64, ionic_strength: f64) -> Result<Self> {
-        Ok(AtTemperature::new(sys, temperature_c)?.sample(ionic_strength))
-    }
-
-    /// Resolve a system at a temperature for an ionic-strength source: the
-    /// seawater ammonia model when the source is a salinity in its range
-    /// ([`seawater_use`]), Davies at the source's ionic strength otherwise.
-    ///
-    /// # Errors
-    ///
-    /// A bad source reading; temperature outside 0–60 °C or the system's data.
-    pub fn for_source(sys: &AcidSystem, temperature_c: f64, source: &IonicSource) -> Result<Self> {
-        let ionic = ionic_from(source)?;
-        let at = AtTemperature::new(sys, temperature_c)?;
-        Ok(at.sample_for_source(sys, source, ionic))
-    }
-
-    /// Apparent (concentration-scale) pK values at the sample's ionic
-    /// strength: pK − (2z+1)·log γ₁ with Davies (z the charge of the base
-    /// form), or the seawater model's own constants.
-    pub fn apparent_pks(&self, thermodynamic: &[f64]) -> Vec<f64> {
-        match self.model {
-            PkModel::CleggWhitfield1995 => self.pks(),
-            PkModel::Davies => {
-                let lg = self.gamma1.log10();
-                thermodynamic
-                    .iter()
-                    .enumerate()
-                    .map(|(i, pk)| {
-                        let zj = self.acid.z0 - (i as i32 + 1);
-                        pk - f64::from(2 * zj + 1) * lg
-                    })
-                    .collect()
-            }
-        }
-    }
-
-    /// Fractions of every species at `ph` (most protonated first) and their number.
-    pub fn fractions(&self, ph: f64) -> ([f64; MAX_STEPS + 1], usize) {
-        let mut out = [0.0; MAX_STEPS + 1];
-        let n = fractions_into(&self.acid, ph, self.gamma1, &mut out);
-        (out, n)
-    }
-
-    /// Fraction of species `index` at `ph` (0 when there is no such species).
-    pub fn fraction(&self, index: usize, ph: f64) -> f64 {
-        let (f, n) = self.fractions(ph);
-        if index < n {
-            f.get(index).copied().unwrap_or(0.0)
-        } else {
-            0.0
-        }
-    }
-
-    /// Thermodynamic pK values at the temperature (I = 0).
-    pub fn pks(&self) -> Vec<f64> {
-        self.acid
-            .ka
-            .iter()
-            .take(self.acid.n)
-            .map(|k| -k.log10())
-            .collect()
-    }
 }
 
 /// Speciate a field sample at its measured pH.

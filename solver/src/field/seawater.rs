@@ -35,7 +35,7 @@
 //! at the salinity's ionic strength is used instead and the result says the
 //! value is indicative. No other system has a seawater model here.
 
-use crate::field::IonicSource;
+use super::ionic::IonicSource;
 use serde::{Deserialize, Serialize};
 
 /// Highest practical salinity of the seawater ammonia model.

@@ -19,13 +19,17 @@
 pub mod spec;
 pub mod steps;
 
-pub use spec::*;
+pub use spec::{
+    ConcentrateResult, Estimate, Ingredient, MeterReading, Method, RecipeResult, RecipeSpec,
+    RecipeWarning, CONCENTRATE_FACTOR_MAX, CONCENTRATE_MAX_M, METER_NOTE,
+};
 use steps::{bench_steps, steps_text};
-pub use steps::{format_mass, format_volume_ml, sig, sig_trim};
 
 use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{solve, solve_addition};
-use crate::error::{clip, in_range, non_negative, Result, SolverError, QUOTE_MAX};
+use crate::error::{in_range, non_negative, Result, SolverError};
+use crate::fmt::{clip, format_volume_ml, sig, sig_trim, QUOTE_MAX};
+use crate::limits;
 use crate::mixture::{
     lookup, prepare, tolerance, Additive, AdditiveSpec, ComponentSpec, MixtureSpec,
 };
@@ -45,8 +49,9 @@ struct FormInfo<'a> {
 }
 
 fn form_info<'a>(sys: &'a AcidSystem, id: &str, field: &str) -> Result<FormInfo<'a>> {
-    let form = find_form(sys, id).ok_or_else(|| SolverError::Unknown {
-        kind: format!("form ({field})"),
+    let form = find_form(sys, id).ok_or_else(|| SolverError::UnknownChoice {
+        field: field.to_string(),
+        kind: "form".into(),
         name: id.into(),
     })?;
     if !(form.units.is_finite() && form.units > 0.0) {
@@ -144,29 +149,24 @@ pub fn suggest_pair(
 }
 
 fn validate(spec: &RecipeSpec) -> Result<()> {
-    in_range("target_ph", spec.target_ph, 0.0, 14.0)?;
-    in_range("temperature_c", spec.temperature_c, 0.0, 60.0)?;
+    limits::TARGET_PH.check(spec.target_ph)?;
+    limits::TEMPERATURE_C.check(spec.temperature_c)?;
     let c = non_negative("total_conc_m", spec.total_conc_m)?;
     if c <= 0.0 {
         return Err(SolverError::OutOfRange {
             field: "total_conc_m".into(),
             value: c,
-            min: 1e-9,
-            max: 5.0,
+            min: limits::TOTAL_CONC_M.min,
+            max: limits::TOTAL_CONC_M.max,
         });
     }
-    in_range("total_conc_m", c, 1e-9, 5.0)?;
-    in_range("volume_l", spec.volume_l, 1e-6, 1000.0)?;
-    in_range("tolerance_ph", spec.tolerance_ph, 1e-4, 2.0)?;
+    limits::TOTAL_CONC_M.check(c)?;
+    limits::VOLUME_L.check(spec.volume_l)?;
+    limits::TOLERANCE_PH.check(spec.tolerance_ph)?;
     if let Some(t) = spec.prepare_temperature_c {
-        in_range("prepare_temperature_c", t, 0.0, 60.0)?;
+        limits::PREPARE_TEMPERATURE_C.check(t)?;
     }
-    in_range(
-        "concentrate_factor",
-        spec.concentrate_factor,
-        1.0,
-        CONCENTRATE_FACTOR_MAX,
-    )?;
+    limits::CONCENTRATE_FACTOR.check(spec.concentrate_factor)?;
     validate_salts(&spec.salts)?;
     // What a concentrate holds without solving anything: the buffer total and
     // the salts (the forms and titrant are checked once the recipe is known).
@@ -188,7 +188,7 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
         Method::Titrate {
             titrant, titrant_m, ..
         } => {
-            in_range("method.titrant_m", *titrant_m, 1e-6, 20.0)?;
+            limits::TITRANT_M.check(*titrant_m)?;
             if titrant.charge() == 0.0 {
                 return Err(SolverError::Infeasible {
                     field: "method.titrant".into(),
@@ -201,8 +201,8 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
             base_stock_m,
             ..
         } => {
-            in_range("method.acid_stock_m", *acid_stock_m, 1e-6, 20.0)?;
-            in_range("method.base_stock_m", *base_stock_m, 1e-6, 20.0)?;
+            limits::ACID_STOCK_M.check(*acid_stock_m)?;
+            limits::BASE_STOCK_M.check(*base_stock_m)?;
         }
     }
     Ok(())
@@ -702,18 +702,4 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
         meter,
         concentrate,
     })
-}
-
-#[cfg(test)]
-#[allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn sig_figs() {
-        assert_eq!(sig(3.45678, 4), "3.457");
-        assert_eq!(sig(123.456, 4), "123.5");
-        assert_eq!(sig(0.012345, 3), "0.0123");
-        assert_eq!(format_mass(0.5), "500.0 mg");
-    }
 }

@@ -1,8 +1,8 @@
 //! What a recipe asks for (method, target, bench options) and what it returns (ingredients, meter reading, concentrate, warnings).
 
-use super::steps::{sig, sig_trim};
 use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::Equilibrium;
+use crate::fmt::{sig, sig_trim};
 use crate::mixture::{Additive, AdditiveSpec, MixtureSpec, Tolerance};
 use serde::{Deserialize, Serialize};
 
@@ -86,7 +86,6 @@ pub(crate) fn default_factor() -> f64 {
     1.0
 }
 
-#[allow(clippy::trivially_copy_pass_by_ref)] // serde's skip_serializing_if passes a reference
 pub(crate) fn is_one(v: &f64) -> bool {
     *v == 1.0
 }
@@ -96,7 +95,7 @@ pub(crate) fn is_one(v: &f64) -> bool {
 pub const CONCENTRATE_MAX_M: f64 = 5.0;
 
 /// Highest concentrate factor.
-pub const CONCENTRATE_FACTOR_MAX: f64 = 50.0;
+pub const CONCENTRATE_FACTOR_MAX: f64 = crate::limits::CONCENTRATE_FACTOR.max;
 
 /// A fact of the trade (common practice) to show beside a meter reading.
 pub const METER_NOTE: &str = "A pH meter's automatic temperature compensation corrects the electrode's slope for temperature, not the buffer's chemistry: the buffer's own pH still changes with temperature, so compare the reading with the pH given for the temperature it is read at.";

@@ -1,46 +1,7 @@
-//! A recipe's bench steps in words, and the number formats amounts are written in.
+//! A recipe's bench steps in words (the numbers printed by [`crate::fmt`]).
 
-use super::*;
-
-/// Format a mass with sensible significant figures (g or mg).
-pub fn format_mass(g: f64) -> String {
-    if !g.is_finite() {
-        return "—".into();
-    }
-    if g.abs() < 1.0 {
-        format!("{} mg", sig(g * 1000.0, 4))
-    } else {
-        format!("{} g", sig(g, 4))
-    }
-}
-
-/// Format a volume (mL or µL) with sensible significant figures.
-pub fn format_volume_ml(ml: f64) -> String {
-    if !ml.is_finite() {
-        return "—".into();
-    }
-    if ml.abs() < 1.0 {
-        format!("{} µL", sig(ml * 1000.0, 3))
-    } else {
-        format!("{} mL", sig(ml, 4))
-    }
-}
-
-/// Round to `n` significant figures and print without exponent.
-pub fn sig(v: f64, n: i32) -> String {
-    if v == 0.0 || !v.is_finite() {
-        return "0".into();
-    }
-    let mag = v.abs().log10().floor() as i32;
-    // Far from 1 (a hand-edited document carrying 1e-300 L), plain decimals
-    // would run to hundreds of digits: use an exponent instead.
-    if !(-6..15).contains(&mag) {
-        let digits = (n - 1).max(0) as usize;
-        return format!("{v:.digits$e}");
-    }
-    let decimals = (n - 1 - mag).max(0) as usize;
-    format!("{v:.decimals$}")
-}
+use super::spec::{Ingredient, MeterReading, Method, RecipeSpec};
+use crate::fmt::{format_mass, format_volume_ml, sig, sig_fixed, sig_trim};
 
 /// Share of the final volume the solids are usually dissolved in before titrating.
 const DISSOLVE_SHARE: f64 = 0.8;
@@ -167,16 +128,6 @@ pub(crate) fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
     steps
 }
 
-/// [`sig`] without trailing zeros: `10`, `2.5`.
-pub fn sig_trim(v: f64, n: i32) -> String {
-    let t = sig(v, n);
-    if t.contains('.') {
-        t.trim_end_matches('0').trim_end_matches('.').to_string()
-    } else {
-        t
-    }
-}
-
 /// A volume in plain words: `50 mL`, `1.5 L`.
 pub(crate) fn volume_words(ml: f64) -> String {
     if ml >= 1000.0 {
@@ -284,8 +235,4 @@ pub(crate) fn bench_steps(
         ));
     }
     steps
-}
-
-pub(crate) fn sig_fixed(v: f64, d: usize) -> String {
-    format!("{v:.d$}")
 }

@@ -305,13 +305,23 @@ fn digit_value(c: char) -> Option<u32> {
     }
 }
 
+/// Molar mass of a reporting-basis or limit formula, computed once per
+/// formula (CIAAW 2021 weights through [`molar_mass`]); `None` when the
+/// formula does not parse.
+pub fn basis_mass(formula: &str) -> Option<f64> {
+    use std::sync::OnceLock;
+    const FORMULAS: [&str; 13] = [
+        "N", "NH3", "Cl2", "S", "H2S", "C", "CaCO3", "CO2", "P", "B", "HOCl", "HCO3", "CO3",
+    ];
+    static MASSES: OnceLock<Vec<Option<f64>>> = OnceLock::new();
+    let masses = MASSES.get_or_init(|| FORMULAS.iter().map(|f| molar_mass(f).ok()).collect());
+    match FORMULAS.iter().position(|f| *f == formula) {
+        Some(i) => masses.get(i).copied().flatten(),
+        None => molar_mass(formula).ok(),
+    }
+}
+
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::*;
     use proptest::prelude::*;

@@ -11,9 +11,9 @@
 use std::sync::OnceLock;
 
 use crate::error::Result;
+use crate::system::acid::{AcidSystem, Hazard, Ion, PkFormula, ReagentForm, Step, TempModel};
 use crate::system::formula::molar_mass;
 use crate::system::thermo::THETA;
-use crate::system::{AcidSystem, Hazard, Ion, PkFormula, ReagentForm, Step, TempModel};
 
 const GOLDBERG: &str = "Goldberg, Kishore & Lennen (2002) J. Phys. Chem. Ref. Data 31, 231 \
      (pK, ΔrH°, ΔrCp°; values from memory)";
@@ -103,7 +103,10 @@ const NA: Ion = Ion::Na;
 const K: Ion = Ion::K;
 const CL: Ion = Ion::Cl;
 
-#[allow(clippy::too_many_arguments)]
+#[expect(
+    clippy::too_many_arguments,
+    reason = "one argument per column of the library table"
+)]
 fn system(
     id: &str,
     name: &str,
@@ -172,7 +175,6 @@ fn goldberg_plus(extra: &str) -> String {
 
 // ---------------------------------------------------------------- the data
 
-#[allow(clippy::too_many_lines)]
 fn build() -> Vec<AcidSystem> {
     let mut v = Vec::with_capacity(25);
 
@@ -782,12 +784,6 @@ fn build() -> Vec<AcidSystem> {
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::*;
     use crate::system::thermo::{system_pks, validate_system};

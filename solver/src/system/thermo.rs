@@ -23,8 +23,8 @@
 //! | H₂S first step | ln K = 225.8375 − 13275.324/T − 34.64354·ln T | Millero (1988), freshwater |
 
 use crate::error::{finite, in_range, Result, SolverError};
+use crate::system::acid::{AcidSystem, PkFormula, Step, TempModel, MAX_STEPS};
 use crate::system::formula::molar_mass;
-use crate::system::{AcidSystem, PkFormula, Step, TempModel, MAX_STEPS};
 use crate::water::{KELVIN, T_MAX_C, T_MIN_C};
 
 /// Gas constant, J/(K·mol) (CODATA 2018, exact).
@@ -317,12 +317,6 @@ pub fn validate_system(sys: &AcidSystem) -> Result<()> {
 }
 
 #[cfg(test)]
-#[allow(
-    clippy::unwrap_used,
-    clippy::expect_used,
-    clippy::indexing_slicing,
-    clippy::panic
-)]
 mod tests {
     use super::*;
 

@@ -1,8 +1,9 @@
 //! First-order budget of a recipe's or mixture's pH: the inputs, their sensitivities through the full solver, and the warnings drawn from the result.
 
-use super::{
-    pk_uncertainty, suggested_flask_ml, suggested_pour_ml, BudgetRow, Distribution, Uncertainty,
-    UncertaintyInputs, UncertaintyWarning, COVERAGE_FACTOR, DEFAULT_U_PK, SQRT3,
+use super::inputs::{suggested_flask_ml, suggested_pour_ml, UncertaintyInputs};
+use super::pk::{pk_uncertainty, DEFAULT_U_PK};
+use super::terms::{
+    BudgetRow, Distribution, Uncertainty, UncertaintyWarning, COVERAGE_FACTOR, SQRT3,
 };
 use crate::equilibrium::activity::ActivityModel;
 use crate::equilibrium::solve;

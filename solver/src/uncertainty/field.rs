@@ -1,6 +1,8 @@
 //! Uncertainty of each species fraction of a field reading, from the pH meter, the temperature and the pK data.
 
-use super::{pk_uncertainty, UncertaintyInputs, COVERAGE_FACTOR, DEFAULT_U_PK, SQRT3};
+use super::inputs::UncertaintyInputs;
+use super::pk::{pk_uncertainty, DEFAULT_U_PK};
+use super::terms::{COVERAGE_FACTOR, SQRT3};
 use crate::equilibrium::activity::ActivityModel;
 use crate::error::Result;
 use crate::field::{field_reading, FieldResult, FieldSpec};

@@ -1,6 +1,7 @@
 //! What the user knows about the uncertainty of their inputs: the ± figures, their defaults and validation, and suggested glassware tolerances.
 
-use crate::error::{in_range, Result};
+use crate::error::Result;
+use crate::limits;
 use serde::{Deserialize, Serialize};
 
 /// What the user knows about the uncertainty of their inputs. Every ±
@@ -85,34 +86,19 @@ impl UncertaintyInputs {
     ///
     /// A negative, non-finite or implausibly large figure.
     pub fn validate(&self) -> Result<()> {
-        in_range("uncertainty.temperature_k", self.temperature_k, 0.0, 10.0)?;
-        in_range("uncertainty.balance_mg", self.balance_mg, 0.0, 10_000.0)?;
+        limits::U_TEMPERATURE_K.check_path(self.temperature_k)?;
+        limits::U_BALANCE_MG.check_path(self.balance_mg)?;
         if let Some(f) = self.flask_ml {
-            in_range("uncertainty.flask_ml", f, 0.0, 100.0)?;
+            limits::U_FLASK_ML.check_path(f)?;
         }
         if let Some(p) = self.pour_percent {
-            in_range("uncertainty.pour_percent", p, 0.0, 50.0)?;
+            limits::U_POUR_PERCENT.check_path(p)?;
         }
-        in_range("uncertainty.stock_percent", self.stock_percent, 0.0, 50.0)?;
-        in_range(
-            "uncertainty.concentration_percent",
-            self.concentration_percent,
-            0.0,
-            50.0,
-        )?;
-        in_range("uncertainty.ph_meter", self.ph_meter, 0.0, 2.0)?;
-        in_range(
-            "uncertainty.activity_base_ph",
-            self.activity_base_ph,
-            0.0,
-            1.0,
-        )?;
-        in_range(
-            "uncertainty.activity_per_ionic",
-            self.activity_per_ionic,
-            0.0,
-            1.0,
-        )?;
+        limits::U_STOCK_PERCENT.check_path(self.stock_percent)?;
+        limits::U_CONCENTRATION_PERCENT.check_path(self.concentration_percent)?;
+        limits::U_PH_METER.check_path(self.ph_meter)?;
+        limits::U_ACTIVITY_BASE_PH.check_path(self.activity_base_ph)?;
+        limits::U_ACTIVITY_PER_IONIC.check_path(self.activity_per_ionic)?;
         Ok(())
     }
 }

@@ -1,7 +1,8 @@
 //! Monte Carlo propagation of a recipe's or mixture's inputs (JCGM 101:2008), with a seeded generator.
 
 use super::budget::{mixture_model, recipe_model, Model};
-use super::{Distribution, UncertaintyInputs, COVERAGE_FACTOR, SQRT3};
+use super::inputs::UncertaintyInputs;
+use super::terms::{Distribution, COVERAGE_FACTOR, SQRT3};
 use crate::error::{in_range, Result, SolverError};
 use crate::mixture::MixtureSpec;
 use crate::recipe::{RecipeResult, RecipeSpec};

@@ -14,23 +14,11 @@ use solver::field::{target_species, FieldResult, FieldSpec, FieldSpecies};
 use solver::SolverError;
 
 /// Practical salinity, PSU.
-pub const SALINITY: Rule = Rule {
-    min: 0.0,
-    max: 50.0,
-    range_msg: "Salinity must be between 0 and 50 (PSU).",
-};
+pub const SALINITY: Rule = solver::limits::SALINITY_PSU;
 /// Alkalinity (mg/L as CaCO₃ or meq/L).
-pub const ALKALINITY: Rule = Rule {
-    min: 0.0,
-    max: 10_000.0,
-    range_msg: "That alkalinity is beyond the model's range.",
-};
+pub const ALKALINITY: Rule = solver::limits::ALKALINITY_VALUE;
 /// A user's limit (above zero).
-pub const LIMIT_VALUE: Rule = Rule {
-    min: 1e-12,
-    max: 1e6,
-    range_msg: "A limit must be above zero and at most 1 000 000.",
-};
+pub const LIMIT_VALUE: Rule = solver::limits::LIMIT_VALUE;
 
 /// Limit units that fit a system, in display order.
 pub fn limit_units(system: &str) -> Vec<LimitUnit> {

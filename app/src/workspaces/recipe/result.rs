@@ -9,10 +9,9 @@ use crate::widgets::format::{
 use leptos::prelude::*;
 use solver::equilibrium::activity::ActivityModel;
 use solver::equilibrium::Warning;
+use solver::fmt::{format_mass, format_volume_ml};
 use solver::mixture::{lookup, Additive};
-use solver::recipe::{
-    format_mass, format_volume_ml, Ingredient, Method, RecipeResult, RecipeSpec, RecipeWarning,
-};
+use solver::recipe::{Ingredient, Method, RecipeResult, RecipeSpec, RecipeWarning};
 use solver::system::AcidSystem;
 use solver::SolverError;
 use wasm_bindgen::{closure::Closure, JsValue};

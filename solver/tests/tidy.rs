@@ -152,8 +152,8 @@ fn crate_modules(krate: &str) -> Vec<(graph::ModPath, String)> {
 const KNOWN_CIRCLES: &[(&str, &[&str], &str)] = &[
     (
         "app",
-        &["designs", "designs::embed", "designs::session"],
-        "the reactive store lives in designs/mod.rs, which the session and the embed bar extend",
+        &["designs", "designs::embed", "designs::session", "designs::side"],
+        "the reactive store lives in designs/mod.rs, which the session, the embed bar and the side entries extend",
     ),
     (
         "app",

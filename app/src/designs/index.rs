@@ -490,7 +490,7 @@ mod tests {
             .first()
             .map(|q| q.reason.clone())
             .unwrap_or_default();
-        assert!(reason.contains("recipe.target_ph"), "{reason}");
+        assert!(reason.contains("the Recipe, target pH"), "{reason}");
     }
 
     #[test]

@@ -30,6 +30,7 @@
 //! [`transfer`] (import/export), `session` (start-up, autosave, share links),
 //! [`panel`] (the designs panel), [`embed`] (URL options and the embed bar).
 
+pub mod address;
 pub mod conflicts;
 pub mod drafts;
 pub mod embed;
@@ -38,8 +39,12 @@ pub mod kv;
 pub mod panel;
 pub mod reasons;
 pub mod recovery;
+pub mod rules;
 mod session;
 pub mod share;
+pub mod side;
+pub mod when;
+pub use when::{format_when, local_when};
 pub mod transfer;
 
 pub use conflicts::{
@@ -163,6 +168,9 @@ pub struct Store {
     /// The design opened from a share link, while unchanged.
     link_design: StoredValue<Option<Design>>,
     next_notice: StoredValue<u64>,
+    /// The address the page is served from, as the user gave it (links and QR codes
+    /// start with it); `None`: the page's own address ([`address`]).
+    pub page_address: RwSignal<Option<String>>,
 }
 
 /// Whether this tab's unsaved work is kept automatically.
@@ -174,19 +182,13 @@ pub enum Keeping {
     Failing(String),
     /// This view never keeps changes (embed, read-only).
     Off,
+    /// The working design is one the page's reader would refuse (the reason, in plain
+    /// words): it is not written, and the last readable version stays kept.
+    Held(String),
 }
 
 pub(crate) fn now_ms() -> f64 {
     js_sys::Date::now()
-}
-
-fn tz_offset_min() -> f64 {
-    js_sys::Date::new_0().get_timezone_offset()
-}
-
-/// `format_when` in the browser's time zone.
-pub fn local_when(ms: f64) -> String {
-    format_when(ms, tz_offset_min())
 }
 
 impl Store {
@@ -209,6 +211,7 @@ impl Store {
             tab: StoredValue::new(String::new()),
             link_design: StoredValue::new(None),
             next_notice: StoredValue::new(1),
+            page_address: RwSignal::new(if ephemeral { None } else { address::load() }),
         }
     }
 
@@ -274,9 +277,7 @@ impl Store {
     pub(crate) fn report_quarantine(&self, q: &[Quarantined]) {
         for item in q {
             let place = match &item.moved_to {
-                Some(k) => format!(
-                    "It was kept aside unchanged under the storage key “{k}” (see Recovery below)."
-                ),
+                Some(_) => "It was kept aside unchanged (listed under Recovery below).".to_string(),
                 None => "Storage is too full to move it aside; it was left in place and skipped."
                     .to_string(),
             };
@@ -358,6 +359,10 @@ impl Store {
     pub fn save(&self, as_new: bool) {
         if let Some(why) = crate::state::unsaved_reason(&self.state) {
             self.notify(NoticeKind::Error, why, None);
+            return;
+        }
+        if let Some(why) = self.state.design.with_untracked(rules::document_problem) {
+            self.notify(NoticeKind::Error, rules::refusal("saved", &why), None);
             return;
         }
         let Some(mut kv) = self.kv() else {
@@ -671,28 +676,6 @@ impl Store {
 // Dates
 // ---------------------------------------------------------------------------
 
-/// `YYYY-MM-DD HH:MM` for a time in ms since the epoch, shifted by
-/// `tz_offset_min` (JavaScript's `getTimezoneOffset`: minutes *behind* UTC).
-pub fn format_when(ms: f64, tz_offset_min: f64) -> String {
-    if !ms.is_finite() || ms <= 0.0 {
-        return "—".into();
-    }
-    let local_min = (ms / 60_000.0).floor() as i64 - tz_offset_min.round() as i64;
-    let days = local_min.div_euclid(1440);
-    let mins = local_min.rem_euclid(1440);
-    // Civil date from days since 1970-01-01 (proleptic Gregorian).
-    let z = days + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z.rem_euclid(146_097);
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = doy - (153 * mp + 2) / 5 + 1;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 };
-    let y = yoe + era * 400 + i64::from(m <= 2);
-    format!("{y:04}-{m:02}-{d:02} {:02}:{:02}", mins / 60, mins % 60)
-}
-
 #[cfg(test)]
 pub(crate) mod testkit {
     //! Helpers shared by the native tests of this folder.
@@ -744,18 +727,6 @@ mod tests {
             "{s}"
         );
     }
-
-    #[test]
-    fn dates_format_in_local_time() {
-        // 2026-12-02T04:08:52Z
-        let ms = 1_796_184_532_000.0;
-        assert_eq!(format_when(ms, 0.0), "2026-12-02 04:08");
-        // UTC+2 has getTimezoneOffset -120.
-        assert_eq!(format_when(ms, -120.0), "2026-12-02 06:08");
-        assert_eq!(format_when(ms, 300.0), "2026-12-01 23:08");
-        assert_eq!(format_when(0.0, 0.0), "—");
-        assert_eq!(format_when(951_782_400_000.0, 0.0), "2000-02-29 00:00");
-    }
 }
 
 /// The status line under the design name. Says the work is kept only while
@@ -768,6 +739,9 @@ pub fn status_line(open: Option<&OpenRef>, dirty: bool, keeping: &Keeping) -> St
             "{what} NOT kept automatically right now ({why}): save, or export it to a file, before closing this tab."
         ),
         Keeping::Off => "This view does not keep changes.".to_string(),
+        Keeping::Held(why) => format!(
+            "The latest change is NOT kept ({why}); the version before it is. Correct the marked field to keep your work again."
+        ),
     }
     };
     match open {

@@ -351,16 +351,46 @@ pub fn DesignsPanel() -> impl IntoView {
             "Save"
         }
     };
+    let link_base = Memo::new(move |_| {
+        let href = window().location().href().unwrap_or_default();
+        crate::designs::address::link_base(&href, store.page_address.get().as_deref())
+    });
     let share_link = Memo::new(move |_| {
         let d = state.design.get();
-        let href = window().location().href().unwrap_or_default();
-        crate::designs::share::share_url(crate::designs::share::page_base(&href), &d)
+        crate::designs::share::share_url(&link_base.get(), &d)
     });
+    let address_text = RwSignal::new(store.page_address.get_untracked().unwrap_or_default());
+    let address_error = RwSignal::new(None::<String>);
+    let set_address = move || {
+        let typed = address_text.get_untracked();
+        match crate::designs::address::check_address(&typed) {
+            Ok(a) => {
+                address_error.set(None);
+                if let Err(why) = crate::designs::address::store(&a) {
+                    store.notify(
+                        NoticeKind::Warn,
+                        format!("The address is used in this tab but could not be kept ({why})."),
+                        None,
+                    );
+                }
+                store.page_address.set((!a.is_empty()).then_some(a));
+            }
+            Err(why) => address_error.set(Some(why)),
+        }
+    };
     let share_input = NodeRef::<leptos::html::Input>::new();
     let file_input = NodeRef::<leptos::html::Input>::new();
 
     let export_current = move |_| {
         let d = state.design.get_untracked();
+        if let Some(why) = crate::designs::rules::document_problem(&d) {
+            store.notify(
+                NoticeKind::Error,
+                crate::designs::rules::refusal("exported", &why),
+                None,
+            );
+            return;
+        }
         crate::designs::download(&file_name(&d.name), &export_one(&d));
     };
     let export_all = move |_| {
@@ -381,6 +411,17 @@ pub fn DesignsPanel() -> impl IntoView {
         );
     };
     let copy_link = move |_| {
+        if let Some(why) = state
+            .design
+            .with_untracked(crate::designs::rules::document_problem)
+        {
+            store.notify(
+                NoticeKind::Error,
+                crate::designs::rules::refusal("shared", &why),
+                None,
+            );
+            return;
+        }
         if let Some(input) = share_input.get_untracked() {
             input.select();
         }
@@ -517,6 +558,27 @@ pub fn DesignsPanel() -> impl IntoView {
                     </button>
                 </div>
                 <p class="bw-hint">"The whole design travels inside the link (after the #); opening it shows the design. Nothing is uploaded."</p>
+                {move || crate::designs::address::local_note(&link_base.get()).map(|n| view! {
+                    <p class="bw-hint bw-warn" data-testid="share-local-note">{n}</p>
+                })}
+                <label for="bw-page-address" class="bw-sub">"Address this page is served from (for links and QR codes)"</label>
+                <div class="bw-current-row">
+                    <input id="bw-page-address" type="url" data-testid="page-address"
+                        placeholder="https://lab.example.org/bufferwright/"
+                        prop:value=move || address_text.get()
+                        aria-invalid=move || address_error.with(Option::is_some).to_string()
+                        on:input=move |ev| address_text.set(event_target_value(&ev))
+                        on:change=move |_| set_address()
+                        on:keydown=move |ev: leptos::ev::KeyboardEvent| {
+                            if ev.key() == "Enter" {
+                                set_address();
+                            }
+                        } />
+                </div>
+                {move || address_error.get().map(|e| view! {
+                    <p class="bw-error" role="alert" data-testid="error-page-address">{e}</p>
+                })}
+                <p class="bw-hint">"Kept in this browser. Leave it empty to use the address in the address bar."</p>
             </div>
         </section>
     }

@@ -1,4 +1,5 @@
-//! Read errors in plain words: why a saved design, draft or file could not be used.
+//! Read errors in plain words: why a saved design, draft or file could not be used, and the
+//! place a document path names on the page.
 
 use solver::error::SolverError;
 
@@ -13,8 +14,69 @@ fn where_in(field: &str) -> String {
     if f.is_empty() || f == "document" {
         String::new()
     } else {
-        format!(" in “{f}”")
+        format!(" in {}", plain_place(f))
     }
+}
+
+/// A document path (`recipe.salts[1].conc_m`) as the page names the place: the
+/// workspace, then the field or row (`the Recipe's salt row 2, amount`).
+pub fn plain_place(path: &str) -> String {
+    let mut parts = Vec::new();
+    for seg in path.split('.') {
+        let (key, index) = match seg.split_once('[') {
+            Some((k, rest)) => (k, rest.trim_end_matches(']').parse::<usize>().ok()),
+            None => (seg, None),
+        };
+        let word = match key {
+            "recipe" => "the Recipe",
+            "mixture" => "the Flask",
+            "what_if" => "the Flask's what-if",
+            "field" => "the Field reading",
+            "custom_systems" => "your own reagent",
+            "custom_forms" => "your added form",
+            "uncertainty" => "the ± figures",
+            "name" => "the design's name",
+            "salts" => "salt row",
+            "components" => "component row",
+            "additives" => "acid or base row",
+            "forms" => "form",
+            "steps" => "step",
+            "target_ph" => "target pH",
+            "ph" => "pH",
+            "temperature_c" => "temperature",
+            "prepare_temperature_c" => "preparation temperature",
+            "total_conc_m" => "total concentration",
+            "volume_l" => "volume",
+            "tolerance_ph" => "pH tolerance",
+            "concentrate_factor" => "concentrate factor",
+            "conc_m" => "amount",
+            "additive" => "salt",
+            "method" => "method",
+            "titrant_m" => "titrant concentration",
+            "acid_stock_m" | "base_stock_m" => "stock concentration",
+            "total" => "total",
+            "total_unit" => "unit of the total",
+            "limit" => "limit",
+            "alkalinity" => "alkalinity",
+            "counter_ions" => "counter-ions",
+            "formula" => "formula",
+            "reagent" => "the reagent",
+            "pk25" => "pK at 25 °C",
+            "dh_kj" => "ΔrH°",
+            "dcp_j" => "ΔrCp°",
+            "t_min_c" => "lowest temperature",
+            "t_max_c" => "highest temperature",
+            "bufferwright_reagent" => "the file's version",
+            // A key this page does not know stays as written (the user looks for it).
+            other => other,
+        };
+        let word = word.to_string();
+        parts.push(match index {
+            Some(i) => format!("{word} {}", i + 1),
+            None => word,
+        });
+    }
+    parts.join(", ")
 }
 
 /// A serde message (`missing field \`name\` at line 1 column 9`) in plain words.
@@ -82,12 +144,27 @@ pub fn plain_reason(e: &SolverError) -> String {
                 } else {
                     plain_serde(reason, "")
                 }
+            } else if reason.starts_with("unknown field") {
+                // The field already ends with the unknown key.
+                format!(
+                    "{}: an entry this page does not know (unknown field: check the spelling)",
+                    plain_place(field)
+                )
             } else if reason.contains('`') || reason.starts_with("invalid") {
                 plain_serde(reason, field)
             } else {
-                format!("{field}: {reason}")
+                format!("{}: {reason}", plain_place(field))
             }
         }
-        other => other.to_string(),
+        other => match other.field() {
+            Some(field) => {
+                let text = other.to_string();
+                let reason = text
+                    .strip_prefix(field)
+                    .map_or(text.as_str(), |r| r.trim_start_matches([':', ' ']));
+                format!("{}: {reason}", plain_place(field))
+            }
+            None => other.to_string(),
+        },
     }
 }

@@ -145,7 +145,7 @@ mod tests {
         draft_key, set_aside, stored_text, Draft, StoredDraft, SET_ASIDE_PREFIX,
     };
     use super::super::index::{design_key, quarantine_key, scan};
-    use super::super::reasons::plain_json_reason;
+    use super::super::reasons::{plain_json_reason, plain_place};
     use super::super::testkit::{named, saved};
     use super::*;
     use crate::designs::kv::MemStore;
@@ -174,12 +174,19 @@ mod tests {
         v["recipe"]["target_ph"] = serde_json::json!("seven");
         let r = plain_reason(&parse_design(&v.to_string()).unwrap_err());
         assert!(
-            r.contains("recipe.target_ph") && r.contains("a number"),
+            r.contains("the Recipe, target pH") && r.contains("a number"),
             "{r}"
         );
         v["recipe"]["target_ph"] = serde_json::json!(99.0);
         let r = plain_reason(&parse_design(&v.to_string()).unwrap_err());
-        assert!(r.contains("recipe.target_ph"), "{r}");
+        assert!(
+            r.contains("the Recipe, target pH") && !r.contains("recipe."),
+            "{r}"
+        );
+        assert_eq!(
+            plain_place("recipe.salts[1].conc_m"),
+            "the Recipe, salt row 2, amount"
+        );
         let e = serde_json::from_str::<serde_json::Value>("[1,").unwrap_err();
         assert_eq!(
             plain_json_reason(&e),

@@ -9,6 +9,7 @@
 pub(crate) mod extras;
 mod log;
 mod log_data;
+mod log_keep;
 mod plot;
 
 use crate::state::use_app;

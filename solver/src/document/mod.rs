@@ -1,11 +1,13 @@
 //! Documents a user keeps: the design (`design`: schema, migration, validation), the
 //! path-keeping JSON reader every document goes through (`docpath`), reagent files
-//! (`reagent`), and what a whole design gives (`report`).
+//! (`reagent`), what a whole design gives (`report`), and a refused design taken apart by
+//! workspace (`salvage`).
 
 pub mod design;
 pub mod docpath;
 pub mod reagent;
 pub mod report;
+pub mod salvage;
 
 pub use design::{
     parse_design, parse_design_value, to_json, to_json_pretty, validate_design, Design, PlotSource,

@@ -229,12 +229,19 @@ pub fn validate_field(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<()> {
     }
     if let Some(l) = &spec.limit {
         validate_limit(l, &sys.id)?;
-        if spec.total.is_none() && spec.alkalinity.is_none() {
-            return Err(SolverError::Infeasible {
-                field: "limit".into(),
-                reason: "a limit needs a total (or, for carbonate, an alkalinity)".into(),
-            });
-        }
+    }
+    Ok(())
+}
+
+/// A limit is judged against a total (or an alkalinity): refused by the reading, not by
+/// the document, so a limit left set while the total is "not measured" is kept with the
+/// design and the reading says why it cannot be judged.
+fn check_limit_has_total(spec: &FieldSpec) -> Result<()> {
+    if spec.limit.is_some() && spec.total.is_none() && spec.alkalinity.is_none() {
+        return Err(SolverError::Infeasible {
+            field: "limit".into(),
+            reason: "a limit needs a total (or, for carbonate, an alkalinity)".into(),
+        });
     }
     Ok(())
 }
@@ -330,6 +337,7 @@ fn reading(
     cache: Option<&mut FieldCache>,
 ) -> Result<FieldResult> {
     validate_field(spec, custom)?;
+    check_limit_has_total(spec)?;
     let ph = spec.ph;
     let ionic = ionic_from(&spec.ionic)?;
     let sys = lookup(&spec.system, custom)?;

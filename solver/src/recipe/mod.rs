@@ -28,7 +28,7 @@ use steps::{bench_steps, steps_text};
 use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{solve, solve_addition};
 use crate::error::{in_range, non_negative, Result, SolverError};
-use crate::fmt::{clip, sig, sig_trim, QUOTE_MAX};
+use crate::fmt::{clip, format_volume_ml, sig, sig_trim, QUOTE_MAX};
 use crate::limits;
 use crate::mixture::{
     lookup, prepare, tolerance, Additive, AdditiveSpec, ComponentSpec, MixtureSpec,
@@ -172,8 +172,11 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
     // the salts (the forms and titrant are checked once the recipe is known).
     let n = spec.concentrate_factor;
     if spec.total_conc_m * n > CONCENTRATE_MAX_M {
-        let what = format!("{} (buffer total)", clip(&spec.system, QUOTE_MAX));
-        return Err(too_concentrated(n, &what, spec.total_conc_m * n));
+        return Err(too_concentrated(
+            n,
+            "the buffer (all its forms together)",
+            spec.total_conc_m * n,
+        ));
     }
     for s in &spec.salts {
         if s.conc_m * n > CONCENTRATE_MAX_M {
@@ -224,8 +227,11 @@ pub fn validate_salts(salts: &[AdditiveSpec]) -> Result<()> {
             return Err(SolverError::Infeasible {
                 field: format!("salts[{i}]"),
                 reason: format!(
-                    "{} is listed twice (also salts[{j}]): merge them into one entry",
-                    s.additive.formula()
+                    "{} is listed twice (rows {} and {}): a salt listed twice is refused, \
+                     not merged; change or remove one of the two rows",
+                    s.additive.formula(),
+                    j + 1,
+                    i + 1
                 ),
             });
         }
@@ -430,11 +436,18 @@ fn finish(
                 x * amt,
                 *titrant_m,
             );
-            if check && t.ml.unwrap_or(0.0) > v * 1000.0 {
+            let t_ml = t.ml.unwrap_or(0.0);
+            if check && steps::dissolving_ml(v * 1000.0, t_ml).is_none() {
                 return Err(SolverError::Infeasible {
                     field: "method.titrant_m".into(),
-                    reason: "the titrant is too dilute: it would need more than the final volume"
-                        .into(),
+                    reason: format!(
+                        "the titrant is too dilute: {} of it leaves too little of the {} mL \
+                         for dissolving the solids; use a stronger titrant (about {} M or \
+                         more) or a smaller batch or concentrate",
+                        format_volume_ml(t_ml),
+                        sig(v * 1000.0, 4),
+                        sig_trim(steps::titrant_that_fits(v * 1000.0, t_ml, *titrant_m), 2)
+                    ),
                 });
             }
             ing.push(t);
@@ -485,13 +498,17 @@ fn concentrate_of(
     let too_much = |what: &str, c: f64| too_concentrated(factor, what, c);
     let total = spec.total_conc_m * factor;
     if total > CONCENTRATE_MAX_M {
-        let what = format!("{} (buffer total)", clip(&sys.name, QUOTE_MAX));
+        let what = format!("{} (all its forms together)", clip(&sys.name, QUOTE_MAX));
         return Err(too_much(&what, total));
     }
     for c in &mut m.components {
         c.conc_m *= factor;
         if c.conc_m > CONCENTRATE_MAX_M {
-            let what = c.form.as_deref().unwrap_or(c.system.as_str());
+            let what = c
+                .form
+                .as_deref()
+                .and_then(|f| find_form(sys, f))
+                .map_or(sys.name.as_str(), |f| f.name.as_str());
             return Err(too_much(&clip(what, QUOTE_MAX), c.conc_m));
         }
     }

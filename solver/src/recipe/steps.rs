@@ -3,6 +3,62 @@
 use super::spec::{Ingredient, MeterReading, Method, RecipeSpec};
 use crate::fmt::{format_mass, format_volume_ml, sig, sig_fixed, sig_trim};
 
+/// Share of the final volume the solids are usually dissolved in before titrating.
+const DISSOLVE_SHARE: f64 = 0.8;
+/// Share of the final volume kept free for making up to the mark when the titrant
+/// leaves too little room for the usual dissolving volume.
+const MAKE_UP_SHARE: f64 = 0.05;
+/// Least share of the final volume the solids are dissolved in (common practice: enough
+/// water to dissolve and stir; a smaller share is not offered).
+const DISSOLVE_MIN_SHARE: f64 = 0.25;
+
+/// How much water (mL) to dissolve the solids in before `titrant_ml` of titrant is added,
+/// so that both fit below the mark of a `v_ml` flask: the usual 80 % when it fits, else
+/// what is left after the titrant and a little room for making up (rounded down to two
+/// figures); `None` when even that would be under a quarter of the final volume.
+pub(crate) fn dissolving_ml(v_ml: f64, titrant_ml: f64) -> Option<f64> {
+    let usual = v_ml * DISSOLVE_SHARE;
+    if usual + titrant_ml <= v_ml * (1.0 + 1e-9) {
+        return Some(usual);
+    }
+    let room = v_ml * (1.0 - MAKE_UP_SHARE) - titrant_ml;
+    if room.is_nan() || room <= 0.0 {
+        return None;
+    }
+    let step = 10f64.powf(room.log10().floor() - 1.0);
+    let d = (room / step).floor() * step;
+    (d >= v_ml * DISSOLVE_MIN_SHARE).then_some(d)
+}
+
+/// The titrant concentration at which the usual dissolving volume fits beside it, rounded
+/// up to two figures (what a refusal suggests).
+pub(crate) fn titrant_that_fits(v_ml: f64, titrant_ml: f64, titrant_m: f64) -> f64 {
+    let need = titrant_m * titrant_ml / (v_ml * (1.0 - DISSOLVE_SHARE));
+    if !(need.is_finite() && need > 0.0) {
+        return titrant_m;
+    }
+    let step = 10f64.powf(need.log10().floor() - 1.0);
+    (need / step).ceil() * step
+}
+
+/// The dissolving step's volume for a recipe: [`dissolving_ml`] beside the poured
+/// titrant (the usual 80 % for the other methods).
+fn dissolve_in(spec: &RecipeSpec, pours: &[(&Ingredient, f64)]) -> String {
+    let v_ml = spec.volume_l * 1000.0;
+    let poured: f64 = pours.iter().map(|(_, ml)| ml).sum();
+    let usual = v_ml * DISSOLVE_SHARE;
+    match dissolving_ml(v_ml, poured) {
+        Some(d) if d < usual => format!(
+            "{} mL of water (less than the usual {} mL: the {} of titrant must fit below the {} mL mark)",
+            sig_trim(d, 3),
+            sig_trim(usual, 3),
+            format_volume_ml(poured),
+            sig(v_ml, 4)
+        ),
+        _ => format!("{} mL of water", sig(usual, 3)),
+    }
+}
+
 /// "Weigh …" steps for the weighed ingredients, in order, and the poured ones
 /// (with their volume, mL) left for the method's own wording.
 fn weigh_steps(ing: &[Ingredient]) -> (Vec<String>, Vec<(&Ingredient, f64)>) {
@@ -43,10 +99,7 @@ pub(crate) fn steps_text(spec: &RecipeSpec, ing: &[Ingredient]) -> Vec<String> {
             ));
         }
         Method::Titrate { .. } => {
-            steps.push(format!(
-                "Dissolve in about {} mL of water.",
-                sig(v_ml * 0.8, 3)
-            ));
+            steps.push(format!("Dissolve in about {}.", dissolve_in(spec, &pours)));
             for (i, ml) in &pours {
                 steps.push(format!(
                     "Add {} of {} M {} while stirring (predicted); confirm with a calibrated pH meter at {} °C.",
@@ -136,8 +189,8 @@ pub(crate) fn bench_steps(
         }
         Method::Titrate { .. } => {
             steps.push(format!(
-                "Dissolve in about {} mL of water and bring to {tp} °C.",
-                sig(v_ml * 0.8, 3)
+                "Dissolve in about {} and bring to {tp} °C.",
+                dissolve_in(spec, &pours)
             ));
             for (i, ml) in &pours {
                 if indicative {

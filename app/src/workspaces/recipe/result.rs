@@ -314,6 +314,22 @@ pub(crate) fn RecipeResultView(
                 }}
             </h2>
             <super::sheet::SheetTop spec=spec result=result pending=pending link=link />
+            // On paper the cautions come before the reagents and steps (the panel beside the
+            // result is for the screen; print.css hides it there).
+            {move || {
+                let list = spec.with(|s| custom.with(|c| recipe_cautions(s, c)));
+                (!list.is_empty()).then(|| view! {
+                    <aside class="print-only cautions sheet-cautions-first" data-testid="sheet-cautions" aria-hidden="true">
+                        <h3>"Cautions"</h3>
+                        <ul>
+                            {list.into_iter().map(|c| view! {
+                                <li><strong>{c.title()}": "</strong>{c.text()}</li>
+                            }).collect_view()}
+                        </ul>
+                        <p class="defer">{crate::widgets::cautions::DEFER}</p>
+                    </aside>
+                })
+            }}
             <div aria-live="polite">{body}</div>
             <super::sheet::SheetFill spec=spec result=result pending=pending link=link no_cautions=no_cautions />
             <p class="print-only print-model">

@@ -6,7 +6,7 @@
 //! designs panel shares (`designs::share`), so scanning the sheet reopens
 //! the design.
 
-use crate::designs::share::{page_base, share_url};
+use crate::designs::share::share_url;
 use crate::state::use_app;
 use crate::widgets::format::{fmt_input, fmt_ph, pretty_formula};
 use leptos::leptos_dom::helpers::{
@@ -88,10 +88,15 @@ pub fn sheet_meter_text(spec: &RecipeSpec, r: &RecipeResult) -> (String, String)
 /// full page's address), for the sheet's QR code and its small print.
 pub(crate) fn share_link() -> Memo<String> {
     let app = use_app();
+    let given = crate::designs::use_store().map(|s| s.page_address);
     Memo::new(move |_| {
         let d = app.design.get();
         let href = window().location().href().unwrap_or_default();
-        share_url(page_base(&href), &d)
+        let given = given.and_then(|g| g.get());
+        share_url(
+            &crate::designs::address::link_base(&href, given.as_deref()),
+            &d,
+        )
     })
 }
 
@@ -241,6 +246,9 @@ pub(crate) fn SheetFill(
                         <div class="fill"><span class="fill-label">"Expiry"</span><span class="fill-line"></span></div>
                     </div>
                     <p class="sheet-link" data-testid="sheet-link">{move || link.get()}</p>
+                    {move || link.with(|l| crate::designs::address::local_note(l)).map(|n| view! {
+                        <p class="sheet-link" data-testid="sheet-link-local">{n}</p>
+                    })}
                 </section>
             }
         })

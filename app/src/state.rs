@@ -55,6 +55,10 @@ pub struct AppState {
     /// (see [`AppState::after_first_paint`]). True wherever no page starts
     /// (component tests, a state made on its own).
     pub painted: RwSignal<bool>,
+    /// The meter bench's calibration rows: stable row ids (position = the
+    /// point's index), tagged with the `revision` they belong to; kept here so
+    /// a row keeps its id (and its typed text) across tab switches.
+    pub meter_rows: RwSignal<(u64, Vec<u64>)>,
     /// What was typed into the reagent editor when it was closed without
     /// adding the reagent: kept for the page's life (across tabs and both
     /// pickers) until the user continues or discards it. One at a time:
@@ -86,6 +90,7 @@ pub fn workspace_of(field_id: &str) -> Option<Workspace> {
         "mixture" | "whatif" => Some(Workspace::Mixture),
         "plot" | "species" => Some(Workspace::Species),
         "field" => Some(Workspace::Field),
+        "meter" => Some(Workspace::Meter),
         _ => None,
     }
 }
@@ -104,6 +109,7 @@ impl AppState {
             refocus: StoredValue::new(None),
             forms_follow: RwSignal::new(None),
             painted: RwSignal::new(true),
+            meter_rows: RwSignal::new((u64::MAX, vec![])),
             unfinished_reagent: RwSignal::new(None),
         }
     }

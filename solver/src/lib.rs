@@ -3,7 +3,7 @@
 //! The rooms, bottom to top: `error`, `order`, `water` (leaf physics); `system` (what an acid
 //! system is, the library, formulas, pK(T), checks of user-made systems); `equilibrium` (charge
 //! balance, capacity, the activity models); `mixture`; `recipe`; `field` (readings of natural
-//! waters); `uncertainty`; `document` (the design file, reagent files, the report);
+//! waters); `uncertainty`; `meter` (the pH meter bench: standards, calibration); `document` (the design file, reagent files, the report);
 //! `selfcheck`; `cli` (the commands without their IO); `workloads` (bench inputs).
 #![doc = include_str!("../README.md")]
 #![forbid(unsafe_code)]
@@ -15,6 +15,7 @@ pub mod error;
 pub mod field;
 pub mod fmt;
 pub mod limits;
+pub mod meter;
 pub mod mixture;
 pub mod order;
 pub mod recipe;

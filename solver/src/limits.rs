@@ -319,6 +319,95 @@ pub const ALL: &[Limit] = &[
     U_ACTIVITY_PER_IONIC,
 ];
 
+/// Temperature of the meter's standards and sample, °C (the standards' tables run 0–95 °C;
+/// a user's own buffer may list values up to 100 °C).
+pub const CAL_TEMPERATURE_C: Limit = Limit::new(
+    "calibration.temperature_c",
+    0.0,
+    100.0,
+    "°C",
+    "The temperature must be between 0 and 100 °C.",
+);
+/// One standard's reading, mV.
+pub const CAL_MV: Limit = Limit::new(
+    "calibration.points[].mv",
+    -2000.0,
+    2000.0,
+    "mV",
+    "A reading must be between −2000 and 2000 mV.",
+);
+/// The sample's reading, mV.
+pub const CAL_SAMPLE_MV: Limit = CAL_MV.for_path("calibration.sample_mv");
+/// The pH a meter shows before it is adjusted (a badly drifted meter may show a little
+/// outside 0–14).
+pub const CAL_DISPLAYED_PH: Limit = Limit::new(
+    "calibration.points[].displayed_ph",
+    -2.0,
+    16.0,
+    "pH",
+    "A displayed pH must be between −2 and 16.",
+);
+/// The lowest acceptable slope, % of the Nernst slope.
+pub const CAL_SLOPE_MIN: Limit = Limit::new(
+    "calibration.limits.slope_min_percent",
+    50.0,
+    150.0,
+    "%",
+    "Between 50 and 150 %.",
+);
+/// The highest acceptable slope (also at least the lowest, checked with the document).
+pub const CAL_SLOPE_MAX: Limit = CAL_SLOPE_MIN.for_path("calibration.limits.slope_max_percent");
+/// The largest acceptable offset at pH 7, mV.
+pub const CAL_OFFSET_MAX: Limit = Limit::new(
+    "calibration.limits.offset_max_mv",
+    0.0,
+    500.0,
+    "mV",
+    "Between 0 and 500 mV.",
+);
+/// The largest acceptable residual, pH.
+pub const CAL_RESIDUAL_MAX: Limit = Limit::new(
+    "calibration.limits.residual_max_ph",
+    0.0,
+    2.0,
+    "pH",
+    "Between 0 and 2 pH.",
+);
+/// A temperature of a user's buffer bottle table, °C.
+pub const BUFFER_TEMPERATURE_C: Limit =
+    CAL_TEMPERATURE_C.for_path("calibration.buffers[].values[].temperature_c");
+/// A pH of a user's buffer bottle table.
+pub const BUFFER_PH: Limit = Limit::new(
+    "calibration.buffers[].values[].ph",
+    0.0,
+    14.0,
+    "pH",
+    PH_MESSAGE,
+);
+/// The ± (95 %) a bottle states, pH.
+pub const BUFFER_U95_PH: Limit = Limit::new(
+    "calibration.buffers[].u95_ph",
+    0.0,
+    1.0,
+    "pH",
+    "Between 0 and 1 pH.",
+);
+
+/// The meter bench's limits (the optional `calibration` part of a design).
+pub const METER: &[Limit] = &[
+    CAL_TEMPERATURE_C,
+    CAL_MV,
+    CAL_SAMPLE_MV,
+    CAL_DISPLAYED_PH,
+    CAL_SLOPE_MIN,
+    CAL_SLOPE_MAX,
+    CAL_OFFSET_MAX,
+    CAL_RESIDUAL_MAX,
+    BUFFER_TEMPERATURE_C,
+    BUFFER_PH,
+    BUFFER_U95_PH,
+];
+
 /// The limit of a field by its document path (`recipe.volume_l`; list entries by `[]`
 /// or by their index, `recipe.salts[3].conc_m`).
 ///
@@ -347,7 +436,7 @@ pub fn find(path: &str) -> Option<Limit> {
             _ => general.push(c),
         }
     }
-    ALL.iter().copied().find(|l| l.path == general)
+    ALL.iter().chain(METER).copied().find(|l| l.path == general)
 }
 
 #[cfg(test)]
@@ -356,11 +445,12 @@ mod tests {
 
     #[test]
     fn paths_are_unique_and_ranges_ordered() {
-        for (i, l) in ALL.iter().enumerate() {
+        let every: Vec<Limit> = ALL.iter().chain(METER).copied().collect();
+        for (i, l) in every.iter().enumerate() {
             assert!(l.min <= l.max, "{}", l.path);
             assert!(!l.message.is_empty() && !l.unit.is_empty(), "{}", l.path);
             assert!(
-                ALL.iter().skip(i + 1).all(|m| m.path != l.path),
+                every.iter().skip(i + 1).all(|m| m.path != l.path),
                 "{}",
                 l.path
             );

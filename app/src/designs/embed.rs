@@ -64,6 +64,7 @@ pub fn workspace_from_name(name: &str) -> Option<Workspace> {
         "mixture" => Some(Workspace::Mixture),
         "species" => Some(Workspace::Species),
         "field" => Some(Workspace::Field),
+        "meter" => Some(Workspace::Meter),
         _ => None,
     }
 }
@@ -75,6 +76,7 @@ pub fn workspace_name(ws: Workspace) -> &'static str {
         Workspace::Mixture => "mixture",
         Workspace::Species => "species",
         Workspace::Field => "field",
+        Workspace::Meter => "meter",
     }
 }
 
@@ -191,6 +193,7 @@ mod tests {
             Workspace::Mixture,
             Workspace::Species,
             Workspace::Field,
+            Workspace::Meter,
         ] {
             assert_eq!(workspace_from_name(workspace_name(ws)), Some(ws));
         }

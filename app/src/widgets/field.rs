@@ -48,10 +48,19 @@ pub fn convert_text(text: &str, comma: bool, from: f64, to: f64) -> Option<Strin
 /// `recipe.salts[].conc_m`, `field.limit.value`): the solver's rulebook
 /// ([`solver::limits::find`]), one lookup for every field of the page, so the page and the
 /// document reader refuse the same values. A path the rulebook does not hold (none of the page's;
-/// see the test) falls back to the amount rule (0 to 5 M).
+/// the test reads every source file) refuses every value, saying so, rather than borrow a rule.
 pub fn limit_for(path: &str) -> Rule {
-    solver::limits::find(path).unwrap_or(solver::limits::COMPONENT_CONC_M)
+    solver::limits::find(path).unwrap_or(NO_RULE)
 }
+
+/// The rule of a field whose path is not in the rulebook: nothing typed is accepted.
+const NO_RULE: Rule = Rule {
+    path: "",
+    min: f64::NAN,
+    max: f64::NAN,
+    unit: "",
+    message: "This box has no rule in the solver's rulebook (a defect of the page): nothing typed here is used.",
+};
 
 /// Where numbers of a quantity usually lie (base unit), for the "check the unit" note.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -94,7 +103,7 @@ pub fn unit_check(shown: f64, unit: usize, units: &[UnitOpt], p: Plausible) -> O
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::widgets::format::{CONC_UNITS, VOLUME_UNITS};
+    use crate::widgets::format::{check_in, CONC_UNITS, VOLUME_UNITS};
 
     #[test]
     fn a_unit_change_converts_numbers_and_keeps_other_text() {
@@ -154,6 +163,15 @@ mod tests {
         "uncertainty.temperature_k",
         "uncertainty.stock_percent",
         "uncertainty.ph_meter",
+        "calibration.temperature_c",
+        "calibration.points[].mv",
+        "calibration.points[].displayed_ph",
+        "calibration.limits.slope_min_percent",
+        "calibration.limits.slope_max_percent",
+        "calibration.limits.offset_max_mv",
+        "calibration.limits.residual_max_ph",
+        "calibration.buffers[].values[].temperature_c",
+        "calibration.buffers[].values[].ph",
     ];
 
     #[test]
@@ -163,20 +181,50 @@ mod tests {
                 solver::limits::find(p).unwrap_or_else(|| panic!("{p} is not in solver::limits"));
             assert_eq!(limit_for(p), l);
         }
-        // And every path= in the workspaces is one of them.
-        for src in [
-            include_str!("../workspaces/recipe/mod.rs"),
-            include_str!("../workspaces/recipe/salts.rs"),
-            include_str!("../workspaces/flask.rs"),
-            include_str!("../workspaces/field.rs"),
-            include_str!("../workspaces/field/extras.rs"),
-            include_str!("uncertainty.rs"),
-        ] {
-            for part in src.split("path=\"").skip(1) {
-                let p = part.split('"').next().unwrap_or_default();
-                assert!(PAGE_PATHS.contains(&p), "{p}");
+        // And every path= (and every path passed to a field helper) in any source file of the
+        // page is one of them, so a new screen cannot name a path the rulebook lacks.
+        let mut seen = 0;
+        for (file, src) in page_sources() {
+            for marker in ["path=\"", "path: \""] {
+                for part in src.split(marker).skip(1) {
+                    let p = part.split('"').next().unwrap_or_default();
+                    if p.is_empty() {
+                        continue; // NO_RULE
+                    }
+                    assert!(PAGE_PATHS.contains(&p), "{file}: {p} is not in PAGE_PATHS");
+                    seen += 1;
+                }
             }
         }
+        assert!(
+            seen > 20,
+            "only {seen} paths found: is the source scan reading files?"
+        );
+        assert!(check_in("1", limit_for("recipe.colour"), 1.0, false).is_err());
+    }
+
+    /// Every `.rs` file under `app/src` with its text.
+    fn page_sources() -> Vec<(String, String)> {
+        fn walk(dir: &std::path::Path, out: &mut Vec<(String, String)>) {
+            let Ok(entries) = std::fs::read_dir(dir) else {
+                return;
+            };
+            for e in entries.flatten() {
+                let p = e.path();
+                if p.is_dir() {
+                    walk(&p, out);
+                } else if p.extension().is_some_and(|x| x == "rs") {
+                    let text = std::fs::read_to_string(&p).unwrap_or_default();
+                    out.push((p.display().to_string(), text));
+                }
+            }
+        }
+        let mut out = Vec::new();
+        walk(
+            &std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src"),
+            &mut out,
+        );
+        out
     }
 
     #[test]

@@ -216,12 +216,20 @@ pub fn check(text: &str, rule: Rule, factor: f64) -> Result<f64, String> {
 /// A message for the field.
 pub fn check_in(text: &str, rule: Rule, factor: f64, comma_elsewhere: bool) -> Result<f64, String> {
     let v = parse_number_in(text, comma_elsewhere)?;
-    if v < 0.0 {
+    // Only quantities that cannot be negative say so; a rule reaching below
+    // zero (millivolts) judges by its range.
+    if v < 0.0 && rule.min >= 0.0 {
         return Err("Must not be negative.".into());
     }
     let base = v * factor;
-    // A hair of slack so that "5000 mM" is still 5 M after the multiplication.
-    if base < rule.min * (1.0 - 1e-12) || base > rule.max * (1.0 + 1e-12) {
+    // A hair of slack so that "5000 mM" is still 5 M after the multiplication (outward at
+    // either end, also for a negative bound). Written so that a rule without bounds (NaN: a path
+    // the rulebook does not hold) refuses every value.
+    let (lo, hi) = (
+        rule.min - rule.min.abs() * 1e-12,
+        rule.max + rule.max.abs() * 1e-12,
+    );
+    if !(base >= lo && base <= hi) {
         return Err(rule.message.into());
     }
     Ok(base.clamp(rule.min, rule.max))

@@ -6,6 +6,7 @@
 //! bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]
 //! bufferwright self-check [--json|--csv]
 //! bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]
+//! bufferwright calibrate --temp T --point STANDARD=MV ... [--sample-mv MV] [--json]   (see solver::meter)
 //! ```
 //!
 //! Prints JSON by default (every part of the design: recipe, mixture,
@@ -21,7 +22,7 @@ use solver::recipe::METER_NOTE;
 use std::io::Read;
 use std::process::ExitCode;
 
-const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]\n       bufferwright log --system ID [options] FILE.csv|-\n       bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]\n       bufferwright self-check [--json|--csv]\n       bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]";
+const USAGE: &str = "usage: bufferwright [--table] [--demo] [FILE|-]\n       bufferwright log --system ID [options] FILE.csv|-\n       bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]\n       bufferwright self-check [--json|--csv]\n       bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]\n       bufferwright calibrate --temp T --point STANDARD=MV ... [--sample-mv MV] [--json]";
 
 fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
@@ -29,6 +30,7 @@ fn main() -> ExitCode {
     match args.first().map(String::as_str) {
         Some("log") => return emit(solver::cli::log_command(rest, &mut read_limited)),
         Some("grid") => return emit(solver::cli::grid_command(rest)),
+        Some("calibrate") => return emit(solver::meter::calibrate_command(rest)),
         _ => {}
     }
     if args.first().map(String::as_str) == Some("self-check") {

@@ -35,6 +35,8 @@ pub enum Workspace {
     Species,
     /// Field reading.
     Field,
+    /// The pH meter bench (standards, calibration check, sample from mV).
+    Meter,
 }
 
 /// Which composition the species plots show.
@@ -84,6 +86,10 @@ pub struct Design {
     /// The user's ± figures for the uncertainty budgets (optional; omitted when default).
     #[serde(default, skip_serializing_if = "UncertaintyInputs::is_default")]
     pub uncertainty: UncertaintyInputs,
+    /// The pH meter calibration (optional; omitted when absent, so older
+    /// documents read and write unchanged). See `solver::meter`.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub calibration: Option<crate::meter::CalibrationSpec>,
 }
 
 impl Design {
@@ -184,6 +190,11 @@ pub fn parse_design_value(value: serde_json::Value) -> Result<Design> {
         ));
     }
     validate_design(&design)?;
+    let mut design = design;
+    // The fit is a record of the inputs: recompute it, never trust it.
+    design.calibration = design
+        .calibration
+        .map(crate::meter::CalibrationSpec::with_fit);
     Ok(design)
 }
 
@@ -307,6 +318,9 @@ pub fn validate_design(d: &Design) -> Result<()> {
     let fp = |e| prefixed("field", e);
     crate::field::validate_field(&d.field, custom).map_err(fp)?;
     d.uncertainty.validate()?;
+    if let Some(c) = &d.calibration {
+        crate::meter::calibration::validate_spec(c)?;
+    }
     Ok(())
 }
 

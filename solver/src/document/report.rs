@@ -81,6 +81,7 @@ pub fn demo_design() -> Design {
         custom_systems: vec![],
         custom_forms: vec![],
         uncertainty: UncertaintyInputs::default(),
+        calibration: None,
     }
 }
 

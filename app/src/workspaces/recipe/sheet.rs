@@ -245,6 +245,7 @@ pub(crate) fn SheetFill(
                         </div>
                         <div class="fill"><span class="fill-label">"Expiry"</span><span class="fill-line"></span></div>
                     </div>
+                    <crate::workspaces::meter::sheet::MeterSheet />
                     <p class="sheet-link" data-testid="sheet-link">{move || link.get()}</p>
                     {move || link.with(|l| crate::designs::address::local_note(l)).map(|n| view! {
                         <p class="sheet-link" data-testid="sheet-link-local">{n}</p>

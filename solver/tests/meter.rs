@@ -598,3 +598,23 @@ fn the_meter_limits_of_the_rulebook_are_the_readers() {
         }
     }
 }
+
+#[test]
+fn fitted_points_and_verdicts_name_the_buffer_in_words() {
+    // The page shows a fit's points and verdicts to a person: a standard is named as
+    // the bench knows it, never by its document id.
+    let (spec, _) = synthetic(25.0, 98.0, 5.0, &["phosphate_1_1", "phthalate"], 5.0);
+    let f = fit_calibration(&spec).unwrap();
+    let names: Vec<&str> = f.points.iter().map(|p| p.name.as_str()).collect();
+    assert_eq!(
+        names,
+        [
+            find_standard("phosphate_1_1").unwrap().name,
+            find_standard("phthalate").unwrap().name
+        ]
+    );
+    assert!(names.iter().all(|n| !n.contains('_')), "{names:?}");
+    for v in f.verdicts.iter().filter(|v| v.check == "point") {
+        assert!(!v.text.contains("phosphate_1_1"), "{}", v.text);
+    }
+}

@@ -86,6 +86,10 @@ test('calibration typed by keyboard equals the CLI; rows are keyed by id; sheet 
       const id = v.standard ?? v.check;
       assert.match(await page.textContent(tid(`meter-verdict-${id}`)), v.pass ? /^Pass/ : /^Fail/, id);
     }
+    // A person reads the standards' names, never the document's ids (phosphate_1_1).
+    const fitText = await page.textContent(tid('meter-verdict-phosphate_1_1'));
+    assert.ok(!fitText.includes('phosphate_1_1') && fitText.includes('phosphate'), fitText);
+    assert.ok(!(await page.textContent('section:has(.meter-verdicts)')).includes('phosphate_1_1'), 'no id in the fit table');
     await screenshot(page, 'meter-desktop');
 
     // The printed bench sheet (on the recipe tab) carries slope, offset and a lot line per standard.

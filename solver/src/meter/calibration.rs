@@ -184,6 +184,10 @@ impl CalibrationSpec {
 pub struct FitPoint {
     /// Buffer id.
     pub standard: String,
+    /// The buffer's name as the bench reads it ("equimolal phosphate", or the user's own
+    /// buffer's name); absent in fits saved before it was recorded.
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub name: String,
     /// pH(S) at the temperature.
     pub ph: f64,
     /// Reading, mV (converted from the displayed pH when given so).
@@ -308,6 +312,19 @@ pub fn buffer_ph(
         }
     }
     Ok((lo.ph, u))
+}
+
+/// The name a person reads for buffer `id`: a standard's name, the user's own buffer's name,
+/// or the id itself when it names neither.
+#[must_use]
+pub fn buffer_name(id: &str, buffers: &[TechnicalBuffer]) -> String {
+    if let Some(s) = find_standard(id) {
+        return s.name.to_string();
+    }
+    buffers
+        .iter()
+        .find(|b| b.id == id && !b.name.trim().is_empty())
+        .map_or_else(|| id.to_string(), |b| b.name.clone())
 }
 
 /// Check the user's technical buffers.
@@ -500,7 +517,10 @@ pub fn fit_calibration(spec: &CalibrationSpec) -> Result<CalibrationFit> {
             .iter()
             .position(|x: &f64| (x - ph).abs() < MIN_SPACING_PH)
         {
-            let other = spec.points.get(j).map_or("", |o| o.standard.as_str());
+            let other = spec
+                .points
+                .get(j)
+                .map_or_else(String::new, |o| buffer_name(&o.standard, &spec.buffers));
             return Err(refuse(
                 format!("{f}.standard"),
                 format!(
@@ -517,7 +537,10 @@ pub fn fit_calibration(spec: &CalibrationSpec) -> Result<CalibrationFit> {
     let percent = -b / nernst * 100.0;
     if !(SLOPE_REFUSED.0..=SLOPE_REFUSED.1).contains(&percent) || !percent.is_finite() {
         let k = culprit(&xs, &ys, nernst);
-        let who = spec.points.get(k).map_or("", |p| p.standard.as_str());
+        let who = spec
+            .points
+            .get(k)
+            .map_or_else(String::new, |p| buffer_name(&p.standard, &spec.buffers));
         return Err(refuse(
             format!("calibration.points[{k}].mv"),
             format!(
@@ -534,6 +557,7 @@ pub fn fit_calibration(spec: &CalibrationSpec) -> Result<CalibrationFit> {
         .zip(xs.iter().zip(&ys))
         .map(|(p, (x, y))| FitPoint {
             standard: p.standard.clone(),
+            name: buffer_name(&p.standard, &spec.buffers),
             ph: *x,
             mv: *y,
             residual_ph: (y - a) / b - x,
@@ -607,7 +631,7 @@ pub fn fit_calibration(spec: &CalibrationSpec) -> Result<CalibrationFit> {
             pass: p.residual_ph.abs() <= l.residual_max_ph,
             text: format!(
                 "{}: {} pH off the line (accepted within ±{} pH)",
-                p.standard,
+                p.name,
                 signed(p.residual_ph, 3),
                 l.residual_max_ph
             ),

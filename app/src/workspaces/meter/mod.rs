@@ -378,7 +378,7 @@ fn FitView(fit: Memo<Result<CalibrationFit, SolverError>>, pending: Memo<bool>) 
                     </li>
                 }).collect_view();
                 let points = f.points.iter().map(|p| view! {
-                    <tr><td>{p.standard.clone()}</td><td>{format!("{:.3}", p.ph)}</td><td>{fmt_mv(p.mv)}</td><td>{solver::meter::calibration::signed(p.residual_ph, 3)}</td></tr>
+                    <tr><td>{if p.name.is_empty() { p.standard.clone() } else { p.name.clone() }}</td><td>{format!("{:.3}", p.ph)}</td><td>{fmt_mv(p.mv)}</td><td>{solver::meter::calibration::signed(p.residual_ph, 3)}</td></tr>
                 }).collect_view();
                 let sample = f.sample.map(|s| {
                     let check = recipe.get().filter(|(m, _)| (m.temperature_c - f.temperature_c).abs() < 0.05).map(|(m, tol)| {

@@ -158,6 +158,10 @@ export async function webkitSession(driver, { width, height, attempts = 3 }) {
     if (r && 'err' in r) throw new Error(`in page: ${r.err}`);
     return r ? r.ok : null;
   };
+  // WebDriver scrolls a target only until its bottom edge shows (block "end"), where a sticky
+  // bar can cover it and the click is "intercepted"; a person scrolls it into the middle.
+  const centre = (selector) =>
+    evaluate((sel) => document.querySelector(sel)?.scrollIntoView({ block: 'center', inline: 'nearest' }), selector);
   return {
     engine: 'webkit',
     async goto(url) {
@@ -169,6 +173,7 @@ export async function webkitSession(driver, { width, height, attempts = 3 }) {
     url: () => s('GET', '/url'),
     evaluate,
     async click(selector) {
+      await centre(selector);
       await s('POST', `/element/${await find(selector)}/click`, {});
     },
     /**
@@ -176,6 +181,7 @@ export async function webkitSession(driver, { width, height, attempts = 3 }) {
      * actions (WebKitWebDriver drops a whole "send keys" text that holds a modifier).
      */
     async type(selector, text) {
+      await centre(selector);
       const el = await find(selector);
       await s('POST', `/element/${el}/click`, {});
       const keys = [{ type: 'keyDown', value: KEYS.Control }, { type: 'keyDown', value: 'a' }, { type: 'keyUp', value: 'a' }, { type: 'keyUp', value: KEYS.Control }];

@@ -18,7 +18,7 @@
 
 use solver::document::{demo_design, parse_design, report, to_json_pretty, Report};
 use solver::fmt::{format_mass, format_volume_ml, sig, sig_trim};
-use solver::recipe::METER_NOTE;
+use solver::recipe::{MeterSolution, METER_NOTE};
 use std::io::Read;
 use std::process::ExitCode;
 
@@ -171,16 +171,24 @@ fn render_table(r: &Report) -> String {
                 sig(rec.equilibrium.ionic_strength, 3),
                 sig(rec.equilibrium.capacity * 1000.0, 3)
             ));
+            let of = match rec.meter.solution {
+                MeterSolution::WorkingBuffer => "",
+                MeterSolution::Concentrate => " (the concentrate)",
+                MeterSolution::DilutedPortion => " (a portion diluted to working strength)",
+            };
             out.push_str(&format!(
-                "  meter reads       pH {:.2} at {} °C\n",
+                "  meter reads       pH {:.2} at {} °C{of}\n",
                 rec.meter.ph,
                 sig(rec.meter.temperature_c, 3)
             ));
             if let Some(c) = &rec.concentrate {
+                let ph = c.ph.map_or_else(
+                    || "pH not predicted (past the activity model)".to_string(),
+                    |p| format!("pH {p:.2}"),
+                );
                 out.push_str(&format!(
-                    "  concentrate {:>4}×  pH {:.2}, ionic strength {} M\n",
+                    "  concentrate {:>4}×  {ph}, ionic strength {} M\n",
                     sig_trim(c.factor, 3),
-                    c.ph,
                     sig(c.ionic_strength, 3)
                 ));
             }

@@ -20,8 +20,8 @@ pub mod spec;
 pub mod steps;
 
 pub use spec::{
-    ConcentrateResult, Estimate, Ingredient, MeterReading, Method, RecipeResult, RecipeSpec,
-    RecipeWarning, CONCENTRATE_FACTOR_MAX, CONCENTRATE_MAX_M, METER_NOTE,
+    ConcentrateResult, Estimate, Ingredient, MeterReading, MeterSolution, Method, RecipeResult,
+    RecipeSpec, RecipeWarning, CONCENTRATE_FACTOR_MAX, CONCENTRATE_MAX_M, METER_NOTE,
 };
 use steps::{bench_steps, steps_text};
 
@@ -601,12 +601,16 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
     let p = prepare(&mixture, custom)?;
     let eq = solve(&p.composition, spec.target_ph)?;
     let tol = tolerance(&p, &eq, spec.tolerance_ph)?;
+    // Past the activity model's range the concentrate's own pH is not
+    // predicted (a wrong number is worse than none): the meter check moves
+    // to a portion diluted to working strength, which is the working buffer.
     let concentrate = match &concentrated {
         Some(m) => {
             let e = prepare(m, custom)?.solve()?;
+            let beyond = spec.activity == ActivityModel::Davies && e.ionic_strength > DAVIES_LIMIT;
             Some(ConcentrateResult {
                 factor: spec.concentrate_factor,
-                ph: e.ph,
+                ph: (!beyond).then_some(e.ph),
                 ionic_strength: e.ionic_strength,
             })
         }
@@ -615,17 +619,22 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
     // The meter reads the solution being made (the concentrate, if any) at
     // the preparation temperature.
     let t_prep = spec.prepare_temperature_c.unwrap_or(spec.temperature_c);
-    let vessel_ph = concentrate.map_or(eq.ph, |c| c.ph);
+    let (read, solution, vessel_ph) = match (concentrated, concentrate.and_then(|c| c.ph)) {
+        (Some(m), Some(ph)) => (m, MeterSolution::Concentrate, ph),
+        (Some(_), None) => (mixture.clone(), MeterSolution::DilutedPortion, eq.ph),
+        (None, _) => (mixture.clone(), MeterSolution::WorkingBuffer, eq.ph),
+    };
     let meter_ph = if t_prep == spec.temperature_c {
         vessel_ph
     } else {
-        let mut m = concentrated.unwrap_or_else(|| mixture.clone());
+        let mut m = read;
         m.temperature_c = t_prep;
         solve(&prepare(&m, custom)?.composition, vessel_ph)?.ph
     };
     let meter = MeterReading {
         temperature_c: t_prep,
         ph: meter_ph,
+        solution,
     };
 
     // Henderson–Hasselbalch: share f of level k, rest at k−1, spectator
@@ -674,20 +683,21 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
             warnings.push(RecipeWarning::EstimateOff { difference: d });
         }
     }
-    let indicative = match concentrate {
-        Some(c) if spec.activity == ActivityModel::Davies && c.ionic_strength > DAVIES_LIMIT => {
-            warnings.push(RecipeWarning::ConcentrateBeyondModel {
-                factor: c.factor,
-                ionic_strength: c.ionic_strength,
-            });
-            true
-        }
-        _ => false,
-    };
+    if let Some(c) = concentrate.filter(|c| c.ph.is_none()) {
+        warnings.push(RecipeWarning::ConcentrateBeyondModel {
+            factor: c.factor,
+            ionic_strength: c.ionic_strength,
+        });
+    }
     let steps = if concentrate.is_none() && t_prep == spec.temperature_c {
         steps_text(spec, &ingredients)
     } else {
-        bench_steps(spec, &ingredients, &meter, indicative)
+        bench_steps(
+            spec,
+            &ingredients,
+            &meter,
+            concentrate.map(|c| c.ionic_strength),
+        )
     };
     Ok(RecipeResult {
         ingredients,

@@ -1,6 +1,7 @@
 //! A recipe's bench steps in words (the numbers printed by [`crate::fmt`]).
 
-use super::spec::{Ingredient, MeterReading, Method, RecipeSpec};
+use super::spec::{Ingredient, MeterReading, MeterSolution, Method, RecipeSpec};
+use crate::equilibrium::activity::DAVIES_LIMIT;
 use crate::fmt::{format_mass, format_volume_ml, sig, sig_fixed, sig_trim};
 
 /// Share of the final volume the solids are usually dissolved in before titrating.
@@ -140,11 +141,15 @@ pub(crate) fn volume_words(ml: f64) -> String {
 /// Steps at the bench when the buffer is made at another temperature than
 /// it is used at, or made as a concentrate: what to dissolve, at which
 /// temperature to read the meter, what it should read there, how to dilute.
+/// `concentrate_ionic` is the concentrate's ionic strength, when one is made;
+/// when the meter reading is of a diluted portion
+/// ([`MeterSolution::DilutedPortion`]) the steps say why and never ask to
+/// adjust the concentrate by the meter.
 pub(crate) fn bench_steps(
     spec: &RecipeSpec,
     ing: &[Ingredient],
     meter: &MeterReading,
-    indicative: bool,
+    concentrate_ionic: Option<f64>,
 ) -> Vec<String> {
     let v_ml = spec.volume_l * 1000.0;
     let n = spec.concentrate_factor;
@@ -152,6 +157,7 @@ pub(crate) fn bench_steps(
     let t = sig(spec.temperature_c, 3);
     let target = sig_fixed(spec.target_ph, 2);
     let reading = format!("pH {} at {tp} °C", sig_fixed(meter.ph, 2));
+    let unpredicted = meter.solution == MeterSolution::DilutedPortion;
     let (what, beside) = if n > 1.0 {
         (
             format!("the {}× concentrate", sig_trim(n, 3)),
@@ -166,11 +172,10 @@ pub(crate) fn bench_steps(
             format!("pH {target} at the working temperature, {t} °C"),
         )
     };
-    let hedge = if indicative {
-        " — indicative only: the concentrate is beyond the activity model's range"
-    } else {
-        ""
-    };
+    let why = format!(
+        "the concentrate's own reading is not predicted: its ionic strength, {} M, is past the activity model's range (about {DAVIES_LIMIT} M)",
+        sig(concentrate_ionic.unwrap_or(0.0), 3)
+    );
     let (mut steps, pours) = weigh_steps(ing);
     match &spec.method {
         Method::TwoStocks { .. } => {
@@ -193,9 +198,9 @@ pub(crate) fn bench_steps(
                 dissolve_in(spec, &pours)
             ));
             for (i, ml) in &pours {
-                if indicative {
+                if unpredicted {
                     steps.push(format!(
-                        "Add exactly {} of {} M {} while stirring (the computed amount; the meter should then read about {reading}{hedge}).",
+                        "Add exactly {} of {} M {} while stirring: the computed amount; do not titrate the concentrate by the meter ({why}).",
                         format_volume_ml(*ml),
                         sig(i.stock_m.unwrap_or(0.0), 3),
                         i.formula
@@ -222,9 +227,18 @@ pub(crate) fn bench_steps(
             ));
         }
     }
-    steps.push(format!(
-        "Check: the meter should read {reading} for {what} ({beside}){hedge}."
-    ));
+    if unpredicted {
+        steps.push(format!(
+            "Check: dilute a portion 1 + {} with water (for example {} made up to {}) and bring it to {tp} °C: the meter should read {reading}. Do not adjust the concentrate itself to this value: {why}.",
+            sig_trim(n - 1.0, 3),
+            volume_words(10.0),
+            volume_words(10.0 * n)
+        ));
+    } else {
+        steps.push(format!(
+            "Check: the meter should read {reading} for {what} ({beside})."
+        ));
+    }
     if n > 1.0 {
         steps.push(format!(
             "Before use, dilute 1 + {} with water: {} of concentrate made up to {} gives pH {target} at {t} °C; this batch makes {}.",

@@ -14,7 +14,7 @@ use leptos::leptos_dom::helpers::{
 };
 use leptos::prelude::*;
 use qrcode::{Color, EcLevel, QrCode};
-use solver::recipe::{RecipeResult, RecipeSpec};
+use solver::recipe::{MeterSolution, RecipeResult, RecipeSpec};
 use solver::SolverError;
 use std::time::Duration;
 
@@ -66,14 +66,26 @@ pub fn qr_svg(text: &str) -> Result<QrSvg, String> {
     })
 }
 
+/// Which solution the meter reading is of, in words ("" for the buffer as
+/// made): every meter figure on the card and the sheet is labelled with it.
+pub(crate) fn meter_of(spec: &RecipeSpec, r: &RecipeResult) -> String {
+    let n = fmt_input(spec.concentrate_factor);
+    match r.meter.solution {
+        MeterSolution::WorkingBuffer => String::new(),
+        MeterSolution::Concentrate => format!("the {n}× concentrate"),
+        MeterSolution::DilutedPortion => format!("a portion diluted {n}-fold, not the concentrate"),
+    }
+}
+
 /// The meter line of the sheet: what the meter must read where the buffer
 /// is made, and the pH it has once in use.
 pub fn sheet_meter_text(spec: &RecipeSpec, r: &RecipeResult) -> (String, String) {
     let big = fmt_ph(r.meter.ph);
-    let what = if r.concentrate.is_some() {
-        "the concentrate"
+    let of = meter_of(spec, r);
+    let what = if of.is_empty() {
+        "the buffer".to_string()
     } else {
-        "the buffer"
+        of
     };
     let detail = format!(
         "Meter reading of {what} at {} °C. Once in use: pH {} at {} °C.",
@@ -207,7 +219,7 @@ pub(crate) fn SheetFill(
 ) -> impl IntoView {
     let painted = use_app().painted;
     move || {
-        solved(spec, result, pending, painted).map(|(_, r)| {
+        solved(spec, result, pending, painted).map(|(sp, r)| {
             let lots = r
                 .ingredients
                 .iter()
@@ -220,10 +232,12 @@ pub(crate) fn SheetFill(
                     }
                 })
                 .collect_view();
+            let of = meter_of(&sp, &r);
             let target = format!(
-                "at ____ °C (meter must read {} at {} °C)",
+                "at ____ °C (meter must read {} at {} °C{})",
                 fmt_ph(r.meter.ph),
-                fmt_input(r.meter.temperature_c)
+                fmt_input(r.meter.temperature_c),
+                if of.is_empty() { String::new() } else { format!(", {of}") }
             );
             view! {
                 <section class="print-only bench-sheet" data-testid="recipe-sheet-fill" aria-label="Bench record">

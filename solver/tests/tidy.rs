@@ -149,18 +149,7 @@ fn crate_modules(krate: &str) -> Vec<(graph::ModPath, String)> {
 
 /// Import circles not yet broken, each with its reason. The test fails when one of them is
 /// gone (take it off the list) or a new one appears.
-const KNOWN_CIRCLES: &[(&str, &[&str], &str)] = &[
-    (
-        "app",
-        &["designs", "designs::embed", "designs::session", "designs::side"],
-        "the reactive store lives in designs/mod.rs, which the session, the embed bar and the side entries extend",
-    ),
-    (
-        "app",
-        &["plots::draw", "plots::draw::marks", "plots::draw::summary"],
-        "the marks and the summary take the axis set-up from draw/mod.rs, which draws them",
-    ),
-];
+const KNOWN_CIRCLES: &[(&str, &[&str], &str)] = &[];
 
 #[test]
 fn no_module_import_circles() {
@@ -185,7 +174,6 @@ fn no_module_import_circles() {
 
 #[test]
 fn no_module_imports_its_own_ancestor() {
-    // The page crate keeps two folders whose mod.rs is a layer (see KNOWN_CIRCLES).
     let g = graph::graph(&crate_modules("solver"));
     let bad: Vec<String> = g
         .iter()

@@ -112,12 +112,15 @@ pub fn EmbedBar() -> impl IntoView {
         let base = crate::designs::share::page_base(&here).to_string();
         format!("{base}#{}", crate::designs::share::encode_fragment(&d))
     };
-    let store = crate::designs::use_store();
+    let store = crate::designs::store::use_store();
     let edited = move || {
         store.is_some_and(|s| {
             s.preset.with(|p| {
-                p.as_ref()
-                    .is_some_and(|p| state.design.with(|d| !crate::designs::same_content(p, d)))
+                p.as_ref().is_some_and(|p| {
+                    state
+                        .design
+                        .with(|d| !crate::designs::index::same_content(p, d))
+                })
             })
         })
     };

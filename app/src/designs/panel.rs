@@ -4,10 +4,10 @@
 //! functions over a key-value store, tested natively) and
 //! [`crate::designs::share`]; this file only wires buttons to those functions.
 
-use crate::designs::{
-    export_many, export_one, file_name, local_when, use_store, NoticeAction, NoticeKind, Store,
-    Summary, FILE_EXTENSION, MAX_NAME_CHARS,
-};
+use crate::designs::index::{Summary, MAX_NAME_CHARS};
+use crate::designs::store::{use_store, NoticeAction, NoticeKind, Store};
+use crate::designs::transfer::{export_many, export_one, file_name, FILE_EXTENSION};
+use crate::designs::when::local_when;
 use crate::state::use_app;
 use leptos::prelude::*;
 use wasm_bindgen::{closure::Closure, JsCast, JsValue};
@@ -32,7 +32,7 @@ fn import_from_input(store: Store, input: web_sys::HtmlInputElement) {
         return;
     };
     let name = file.name();
-    if file.size() > crate::designs::MAX_IMPORT_BYTES as f64 {
+    if file.size() > crate::designs::transfer::MAX_IMPORT_BYTES as f64 {
         store.notify(
             NoticeKind::Error,
             format!("“{name}” was not imported: it is too large to be a design file. Nothing was changed."),
@@ -88,7 +88,7 @@ fn copy_text(store: Store, text: String) {
 }
 
 /// One notice with its buttons.
-fn notice_view(store: Store, n: crate::designs::Notice) -> impl IntoView {
+fn notice_view(store: Store, n: crate::designs::store::Notice) -> impl IntoView {
     let id = n.id;
     let state = store.state;
     let actions = match n.action {
@@ -276,8 +276,12 @@ fn focus_after_render(selectors: &[&str]) {
 }
 
 /// One line of the Recovery section.
-fn recovery_row(store: Store, index: usize, item: crate::designs::RecoveryItem) -> impl IntoView {
-    use crate::designs::RecoveryKind;
+fn recovery_row(
+    store: Store,
+    index: usize,
+    item: crate::designs::recovery::RecoveryItem,
+) -> impl IntoView {
+    use crate::designs::recovery::RecoveryKind;
     let kind = match &item.kind {
         RecoveryKind::SetAside => "Set aside",
         RecoveryKind::ClosedTab => "From a closed tab",
@@ -342,7 +346,7 @@ pub fn DesignsPanel() -> impl IntoView {
         }
         let dirty = store.dirty();
         let open = store.open.get();
-        crate::designs::status_line(open.as_ref(), dirty, &store.keeping.get())
+        crate::designs::store::status_line(open.as_ref(), dirty, &store.keeping.get())
     };
     let save_label = move || {
         if store.open.with(Option::is_some) {
@@ -391,7 +395,7 @@ pub fn DesignsPanel() -> impl IntoView {
             );
             return;
         }
-        crate::designs::download(&file_name(&d.name), &export_one(&d));
+        crate::designs::session::download(&file_name(&d.name), &export_one(&d));
     };
     let export_all = move |_| {
         let all = store.all_saved();
@@ -405,7 +409,7 @@ pub fn DesignsPanel() -> impl IntoView {
         }
         let day = local_when(js_sys::Date::now());
         let day = day.split(' ').next().unwrap_or("designs").to_string();
-        crate::designs::download(
+        crate::designs::session::download(
             &format!("bufferwright-saved-designs-{day}{FILE_EXTENSION}"),
             &export_many(&all),
         );

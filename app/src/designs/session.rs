@@ -10,8 +10,9 @@ use super::drafts::{
 use super::embed::{parse_query, UrlOptions};
 use super::index::{design_key, read_design, same_content, INDEX_KEY, PREFIX, QUARANTINE_PREFIX};
 use super::kv::{KvStore, LocalStore, StoreError};
+use super::store::{now_ms, Keeping, NoticeAction, NoticeKind, OpenRef, Store};
 use super::transfer::{export_one, file_name, import_designs};
-use super::{local_when, now_ms, Keeping, NoticeAction, NoticeKind, OpenRef, Store};
+use super::when::local_when;
 use crate::designs::share;
 use crate::state::AppState;
 use crate::state::ViewOptions;

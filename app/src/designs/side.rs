@@ -1,7 +1,7 @@
 //! Work kept beside this tab's draft that is not part of the design: the day's log (its text, file and column choices) and an unfinished reagent in the editor; one key per kind and tab (`bufferwright.side.<kind>.<tab>`), carried along when a new tab takes over a closed tab's draft.
 
 use super::kv::{KvStore, LocalStore};
-use super::Store;
+use super::store::Store;
 use crate::reagents::model::EditorModel;
 use crate::state::AppState;
 use leptos::prelude::*;
@@ -78,7 +78,7 @@ impl Store {
 /// in [`AppState::unfinished_reagent`]): keep what is typed across a reload.
 pub fn set_open_reagent(open: Option<Typed>) {
     OPEN_REAGENT.with(|o| *o.borrow_mut() = open);
-    if let Some(store) = super::use_store() {
+    if let Some(store) = super::store::use_store() {
         write_reagent(&store);
     }
 }

@@ -2,8 +2,9 @@
 # Idempotent installer for everything Bufferwright's build and tests need.
 #   bash scripts/setup.sh          install what is missing, print what is there
 #   source scripts/setup.sh        same, and keep the PATH it sets (scripts/serve.sh, test.sh do this)
-# Needs root (or sudo-less apt) only when Chromium or Node are missing. Never downloads a browser
-# or prebuilt binary: Rust tools come from crates.io, JS tools from npm, Chromium from Debian.
+# Needs root (or sudo-less apt) only when a Debian package is missing. Never downloads a browser
+# or prebuilt binary: Rust tools come from crates.io, JS tools from npm, Chromium, Firefox ESR and
+# WebKitGTK (the cross-engine journeys) from Debian.
 #
 # Pinned versions:
 TRUNK_SERIES="0.21"            # trunk 0.22 needs a newer rustc than this toolchain
@@ -100,7 +101,7 @@ _bw_setup() {
   [[ "$node_major" -ge 18 ]] || _bw_die "Node.js >= 18 needed for 'node --test' (found $(node --version))"
   _bw_ok "node $(node --version), npm $(npm --version)"
 
-  # --- npm packages (binaryen/wasm-opt, playwright-core, axe-core) from tests/package-lock.json ---
+  # --- npm packages (binaryen/wasm-opt, playwright-core, puppeteer-core, axe-core, jsqr) from tests/package-lock.json ---
   local lock="$root/tests/package-lock.json" stamp="$root/tests/node_modules/.bufferwright-lock"
   [[ -f "$lock" ]] || _bw_die "tests/package-lock.json missing"
   local want_stamp
@@ -109,7 +110,8 @@ _bw_setup() {
     _bw_ok "npm packages (tests/node_modules matches package-lock.json)"
   else
     _bw_do "npm ci in tests/"
-    (cd "$root/tests" && npm ci --no-audit --no-fund --loglevel=error) || _bw_die "npm ci in tests/ failed"
+    # puppeteer-core (Firefox) drives Debian's firefox-esr: it must never fetch a browser.
+    (cd "$root/tests" && PUPPETEER_SKIP_DOWNLOAD=1 npm ci --no-audit --no-fund --loglevel=error) || _bw_die "npm ci in tests/ failed"
     echo "$want_stamp" >"$stamp"
   fi
   export PATH="$root/tests/node_modules/.bin:$PATH"
@@ -133,6 +135,28 @@ _bw_setup() {
     _bw_do "poppler-utils (Debian apt)"
     _bw_apt poppler-utils
     command -v pdftoppm >/dev/null || _bw_die "pdftoppm still missing after apt-get"
+  fi
+
+  # --- Other engines for the cross-engine journeys (tests/engines/): Firefox and WebKit (Debian) ----
+  # firefox-esr is driven by puppeteer-core (tests/package-lock.json) over WebDriver BiDi;
+  # webkit2gtk-driver gives WebKitWebDriver, which starts MiniBrowser (libwebkit2gtk-4.1-0)
+  # under a virtual display from xvfb (xvfb-run needs xauth). No browser is downloaded.
+  local minibrowser=/usr/lib/x86_64-linux-gnu/webkit2gtk-4.1/MiniBrowser
+  if _bw_dpkg_has firefox-esr && [[ -x /usr/bin/firefox-esr ]]; then
+    _bw_ok "firefox-esr $(dpkg-query -W -f='${Version}' firefox-esr)"
+  else
+    _bw_do "firefox-esr (Debian apt)"
+    _bw_apt firefox-esr
+    [[ -x /usr/bin/firefox-esr ]] || _bw_die "firefox-esr still missing after apt-get"
+  fi
+  if _bw_dpkg_has webkit2gtk-driver && _bw_dpkg_has xvfb && _bw_dpkg_has xauth &&
+    [[ -x /usr/bin/WebKitWebDriver && -x "$minibrowser" && -x /usr/bin/xvfb-run ]]; then
+    _bw_ok "webkit2gtk-driver $(dpkg-query -W -f='${Version}' webkit2gtk-driver) + xvfb"
+  else
+    _bw_do "webkit2gtk-driver xvfb xauth (Debian apt)"
+    _bw_apt webkit2gtk-driver xvfb xauth
+    [[ -x /usr/bin/WebKitWebDriver && -x "$minibrowser" && -x /usr/bin/xvfb-run ]] ||
+      _bw_die "WebKitWebDriver, MiniBrowser or xvfb-run still missing after apt-get"
   fi
 
   echo "setup: done. PATH includes tests/node_modules/.bin (wasm-opt) and ~/.cargo/bin."

@@ -16,12 +16,14 @@
 //! - [`plots`]: plot data, drawing generic over the plotters backend, the canvas.
 //! - [`reagents`]: the user's own reagents: editor, per-browser shelf, notes in results.
 //! - [`designs`]: saved designs, drafts and recovery, the designs panel, share links, embeds.
+//! - [`offline`]: the footer's offline line (what this browser keeps).
 //! - [`checks`]: "Check the engine", the solver's self-check run in the browser.
 //! - [`bench`]: in-browser timing of the solver workloads (for `app/PERF.md`).
 
 pub mod bench;
 pub mod checks;
 pub mod designs;
+pub mod offline;
 pub mod plots;
 pub mod reagents;
 pub mod shell;

@@ -11,17 +11,19 @@ use crate::state::{use_app, AppState};
 use crate::widgets::cautions::ModelNote;
 use crate::workspaces::field::FieldWorkspace;
 use crate::workspaces::flask::FlaskWorkspace;
+use crate::workspaces::meter::MeterWorkspace;
 use crate::workspaces::recipe::RecipeWorkspace;
 use crate::workspaces::species::SpeciesWorkspace;
 use leptos::prelude::*;
 use solver::document::Workspace;
 
-/// The four workspaces in tab order: (workspace, short key, tab text).
-pub const TABS: [(Workspace, &str, &str); 4] = [
+/// The workspaces in tab order: (workspace, short key, tab text).
+pub const TABS: [(Workspace, &str, &str); 5] = [
     (Workspace::Recipe, "recipe", "Recipe"),
     (Workspace::Mixture, "mixture", "Flask"),
     (Workspace::Species, "species", "Species & capacity"),
     (Workspace::Field, "field", "Field reading"),
+    (Workspace::Meter, "meter", "Meter bench"),
 ];
 
 /// The tab text on a phone: the first word only ("Species", "Field").
@@ -82,6 +84,7 @@ pub fn Shell() -> impl IntoView {
                         Workspace::Mixture => view! { <FlaskWorkspace /> }.into_any(),
                         Workspace::Species => view! { <SpeciesWorkspace /> }.into_any(),
                         Workspace::Field => view! { <FieldWorkspace /> }.into_any(),
+                        Workspace::Meter => view! { <MeterWorkspace /> }.into_any(),
                     };
                     view! {
                         <section
@@ -107,9 +110,7 @@ pub fn Shell() -> impl IntoView {
                 <Show when=move || app.painted.get()>
                     <crate::checks::EngineCheck />
                 </Show>
-                <p class="offline-note">
-                    "Runs entirely in this browser and works offline; nothing you enter leaves the device."
-                </p>
+                <crate::offline::OfflineNote />
             </footer>
         </div>
     }

@@ -34,13 +34,17 @@ pub struct AppState {
     /// Text typed into fields of a workspace that is not on screen (tab
     /// switch), by field id: it comes back when the tab does, and while it is
     /// invalid the field stays in `pending`, so nothing is silently restored.
-    pub parked: RwSignal<BTreeMap<String, String>>,
+    pub parked: RwSignal<BTreeMap<String, Parked>>,
     /// A decimal comma (`7,4`) was typed somewhere in this entry: `1.000` is
     /// then as ambiguous as `1,000`.
     pub decimal_comma: RwSignal<bool>,
-    /// A row removal in progress: (field id prefix, removed row), see
-    /// [`AppState::rows_removed`].
-    pub row_shift: StoredValue<Option<(String, usize)>>,
+    /// Stable keys of the rows of every list (salts, flask components and
+    /// additions), see [`crate::widgets::rows`]: a row's fields are named by
+    /// its key, never by its position.
+    pub rows: StoredValue<crate::widgets::rows::RowLists>,
+    /// The field that had the focus when it was rebuilt (id, selection),
+    /// taken back by the field of the same id (see `NumberField`).
+    pub refocus: StoredValue<Option<(String, u32, u32)>>,
     /// Whether the recipe's forms follow the target (`Some(true)`) or were
     /// picked by hand (`Some(false)`); `None` right after a design is loaded,
     /// until the recipe workspace decides from the loaded forms.
@@ -51,6 +55,10 @@ pub struct AppState {
     /// (see [`AppState::after_first_paint`]). True wherever no page starts
     /// (component tests, a state made on its own).
     pub painted: RwSignal<bool>,
+    /// The meter bench's calibration rows: stable row ids (position = the
+    /// point's index), tagged with the `revision` they belong to; kept here so
+    /// a row keeps its id (and its typed text) across tab switches.
+    pub meter_rows: RwSignal<(u64, Vec<u64>)>,
     /// What was typed into the reagent editor when it was closed without
     /// adding the reagent: kept for the page's life (across tabs and both
     /// pickers) until the user continues or discards it. One at a time:
@@ -63,18 +71,15 @@ pub struct AppState {
     >,
 }
 
-/// Where the field `id` of row `n` goes when row `removed` of the list with
-/// this `prefix` is removed: `None` when `id` is not in that list,
-/// `Some(None)` when it was in the removed row, else its new id.
-pub fn shifted_id(id: &str, prefix: &str, removed: usize) -> Option<Option<String>> {
-    let rest = id.strip_prefix(prefix)?;
-    let (n, tail) = rest.split_once('-')?;
-    let n: usize = n.parse().ok()?;
-    Some(match n.cmp(&removed) {
-        std::cmp::Ordering::Less => Some(id.to_string()),
-        std::cmp::Ordering::Equal => None,
-        std::cmp::Ordering::Greater => Some(format!("{prefix}{}-{tail}", n - 1)),
-    })
+/// Text typed into a field that went off screen, with the unit it was typed
+/// in (the key of the field's unit choice; empty for a field without one):
+/// a number never comes back in another unit than it was typed in.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Parked {
+    /// The text as typed.
+    pub text: String,
+    /// Key of the unit it was typed in.
+    pub unit: String,
 }
 
 /// The workspace an input field belongs to, from its id prefix.
@@ -85,6 +90,7 @@ pub fn workspace_of(field_id: &str) -> Option<Workspace> {
         "mixture" | "whatif" => Some(Workspace::Mixture),
         "plot" | "species" => Some(Workspace::Species),
         "field" => Some(Workspace::Field),
+        "meter" => Some(Workspace::Meter),
         _ => None,
     }
 }
@@ -99,9 +105,11 @@ impl AppState {
             pending: RwSignal::new(BTreeSet::new()),
             parked: RwSignal::new(BTreeMap::new()),
             decimal_comma: RwSignal::new(false),
-            row_shift: StoredValue::new(None),
+            rows: StoredValue::new(crate::widgets::rows::RowLists::default()),
+            refocus: StoredValue::new(None),
             forms_follow: RwSignal::new(None),
             painted: RwSignal::new(true),
+            meter_rows: RwSignal::new((u64::MAX, vec![])),
             unfinished_reagent: RwSignal::new(None),
         }
     }
@@ -129,6 +137,8 @@ impl AppState {
         self.parked.update(BTreeMap::clear);
         self.decimal_comma.set(false);
         self.forms_follow.set(None);
+        self.rows
+            .update_value(crate::widgets::rows::RowLists::reset);
         self.revision.update(|r| *r += 1);
     }
 
@@ -147,31 +157,25 @@ impl AppState {
 
     /// A field is going away with the text typed into it (`None` when it
     /// showed the design's value). The text is parked under the field's id
-    /// (renumbered when its row moved up): a field that comes back (tab
-    /// switch, list redrawn) takes it again with its pending mark, so nothing
-    /// typed is silently replaced. A field that does not come back (row
-    /// removed, method changed) is forgotten once the page has redrawn.
-    pub fn field_gone(&self, id: &str, typed: Option<String>) {
-        let shift = self.row_shift.try_get_value().flatten();
-        let target = match &shift {
-            Some((prefix, removed)) => shifted_id(id, prefix, *removed),
-            None => Some(Some(id.to_string())),
-        };
-        let shifted = shift.is_some() && target != Some(Some(id.to_string()));
-        let Some(new_id) = target.unwrap_or_else(|| Some(id.to_string())) else {
-            return; // its row was removed; `rows_removed` dropped its mark
-        };
+    /// with its unit: a field that comes back (tab switch, view rebuilt)
+    /// takes it again with its pending mark, so nothing typed is silently
+    /// replaced. Row fields are named by their row's stable key, so a removed
+    /// row's text never lands in another row; a field that does not come
+    /// back (row removed, method changed) is forgotten once the page has
+    /// redrawn.
+    pub fn field_gone(&self, id: &str, typed: Option<Parked>) {
         let active = self.design.try_with_untracked(|d| d.workspace);
         let off_screen = active.is_some() && workspace_of(id) != active;
         match typed {
             Some(t) => {
-                self.parked.try_update(|p| p.insert(new_id.clone(), t));
+                self.parked.try_update(|p| p.insert(id.to_string(), t));
                 if !off_screen {
                     let app = *self;
-                    set_timeout(move || app.sweep(&new_id), std::time::Duration::ZERO);
+                    let id = id.to_string();
+                    set_timeout(move || app.sweep(&id), std::time::Duration::ZERO);
                 }
             }
-            None if !shifted && !off_screen => self.mark_field(id, true),
+            None if !off_screen => self.mark_field(id, true),
             None => {}
         }
     }
@@ -188,30 +192,8 @@ impl AppState {
     }
 
     /// Text parked for `id` by [`AppState::field_gone`], taken back by the field.
-    pub fn take_parked(&self, id: &str) -> Option<String> {
+    pub fn take_parked(&self, id: &str) -> Option<Parked> {
         self.parked.try_update(|p| p.remove(id)).flatten()
-    }
-
-    /// Row `removed` of the list whose field ids start with `prefix`
-    /// (`mixture-comp-`) is being removed: the rows after it move up by one,
-    /// and their typed text and pending marks move with them.
-    pub fn rows_removed(&self, prefix: &str, removed: usize) {
-        self.pending.try_update(|p| {
-            *p = p
-                .iter()
-                .filter_map(|id| {
-                    shifted_id(id, prefix, removed).unwrap_or_else(|| Some(id.clone()))
-                })
-                .collect();
-        });
-        self.row_shift
-            .try_set_value(Some((prefix.to_string(), removed)));
-        let shift = self.row_shift;
-        // The redraw that follows runs before any timer does.
-        set_timeout(
-            move || drop(shift.try_set_value(None)),
-            std::time::Duration::ZERO,
-        );
     }
 
     /// Ids of invalid fields whose id starts with `prefix` (`recipe-`, `mixture-`...).
@@ -273,22 +255,6 @@ pub fn use_app() -> AppState {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn rows_after_a_removed_one_move_up() {
-        let p = "mixture-comp-";
-        assert_eq!(
-            shifted_id("mixture-comp-0-conc", p, 1),
-            Some(Some("mixture-comp-0-conc".into()))
-        );
-        assert_eq!(shifted_id("mixture-comp-1-conc", p, 1), Some(None));
-        assert_eq!(
-            shifted_id("mixture-comp-3-conc", p, 1),
-            Some(Some("mixture-comp-2-conc".into()))
-        );
-        assert_eq!(shifted_id("mixture-add-3-conc", p, 1), None);
-        assert_eq!(shifted_id("mixture-comp-x-conc", p, 1), None);
-    }
 
     #[test]
     fn field_ids_belong_to_their_tab() {

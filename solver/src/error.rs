@@ -87,19 +87,42 @@ pub enum SolverError {
     },
 }
 
+/// A number as the messages quote it: plain decimals as Rust prints them, but very small or
+/// very large magnitudes in exponent form (`1e-300`, not 300 digits that stretch a page).
+fn num(v: f64) -> String {
+    let a = v.abs();
+    if a != 0.0 && a.is_finite() && !(1e-4..1e16).contains(&a) {
+        format!("{v:e}")
+    } else {
+        format!("{v}")
+    }
+}
+
 impl fmt::Display for SolverError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
             Self::NotFinite { field } => write!(f, "{}: not a finite number", path(field)),
             Self::Negative { field, value } => {
-                write!(f, "{}: must not be negative (got {value})", path(field))
+                write!(
+                    f,
+                    "{}: must not be negative (got {})",
+                    path(field),
+                    num(*value)
+                )
             }
             Self::OutOfRange {
                 field,
                 value,
                 min,
                 max,
-            } => write!(f, "{}: {value} is outside {min} to {max}", path(field)),
+            } => write!(
+                f,
+                "{}: {} is outside {} to {}",
+                path(field),
+                num(*value),
+                num(*min),
+                num(*max)
+            ),
             Self::Unknown { kind, name } => {
                 write!(f, "unknown {} {}", shorten_quoted(kind), quote(name))
             }

@@ -4,7 +4,8 @@
 //! system is, the library, formulas, pK(T), checks of user-made systems); `equilibrium` (charge
 //! balance, capacity, the activity models, the open system and its gas); `mixture`; `recipe`;
 //! `field` (readings of natural waters); `atmosphere` (one solution under several gases: room
-//! air, another CO₂ %, a field sample brought to the air); `uncertainty`; `document` (the design file, reagent files, the report);
+//! air, another CO₂ %, a field sample brought to the air); `uncertainty`; `meter` (the pH meter
+//! bench: standards, calibration); `document` (the design file, reagent files, the report);
 //! `selfcheck`; `cli` (the commands without their IO); `workloads` (bench inputs).
 #![doc = include_str!("../README.md")]
 #![forbid(unsafe_code)]
@@ -17,6 +18,7 @@ pub mod error;
 pub mod field;
 pub mod fmt;
 pub mod limits;
+pub mod meter;
 pub mod mixture;
 pub mod order;
 pub mod recipe;

@@ -226,9 +226,9 @@ pub const ALKALINITY_VALUE: Limit = Limit::new(
     "as chosen",
     "That alkalinity is beyond the model's range.",
 );
-/// CO₂ of an atmosphere as a percentage of the dry gas (the same for `recipe.` and
-/// `field.atmosphere`). Not in [`ALL`] yet: the gas keys are checked by
-/// `crate::document::gas` with these ranges.
+/// CO₂ of an atmosphere as a percentage of the dry gas (the mixture's; the same range for
+/// the recipe's and the field's, [`RECIPE_CO2_PERCENT`], [`FIELD_CO2_PERCENT`]). The gas
+/// limits are listed in [`GAS`].
 pub const CO2_PERCENT: Limit = Limit::new(
     "mixture.atmosphere.co2_percent",
     0.0,
@@ -252,7 +252,21 @@ pub const PRESSURE_KPA: Limit = Limit::new(
     "kPa",
     "The pressure must be between 20 and 300 kPa.",
 );
-/// Temperature range of the gas constants (Weiss 1974, Weiss & Price 1980).
+/// The recipe's atmosphere, CO₂ %.
+pub const RECIPE_CO2_PERCENT: Limit = CO2_PERCENT.for_path("recipe.atmosphere.co2_percent");
+/// The recipe's atmosphere, CO₂ µatm.
+pub const RECIPE_CO2_UATM: Limit = CO2_UATM.for_path("recipe.atmosphere.co2_uatm");
+/// The recipe's atmosphere, total pressure.
+pub const RECIPE_PRESSURE_KPA: Limit = PRESSURE_KPA.for_path("recipe.atmosphere.pressure_kpa");
+/// The field sample's atmosphere, CO₂ %.
+pub const FIELD_CO2_PERCENT: Limit = CO2_PERCENT.for_path("field.atmosphere.co2_percent");
+/// The field sample's atmosphere, CO₂ µatm.
+pub const FIELD_CO2_UATM: Limit = CO2_UATM.for_path("field.atmosphere.co2_uatm");
+/// The field sample's atmosphere, total pressure.
+pub const FIELD_PRESSURE_KPA: Limit = PRESSURE_KPA.for_path("field.atmosphere.pressure_kpa");
+/// Temperature range of the gas constants (Weiss 1974, Weiss & Price 1980): a second bound
+/// on a workspace's temperature when it has an atmosphere, so not in [`GAS`] (its path is
+/// the mixture temperature's, whose own limit is [`MIXTURE_TEMPERATURE_C`]).
 pub const GAS_TEMPERATURE_C: Limit = Limit::new(
     "mixture.temperature_c",
     0.0,
@@ -358,6 +372,111 @@ pub const ALL: &[Limit] = &[
     U_ACTIVITY_PER_IONIC,
 ];
 
+/// Temperature of the meter's standards and sample, °C (the standards' tables run 0–95 °C;
+/// a user's own buffer may list values up to 100 °C).
+pub const CAL_TEMPERATURE_C: Limit = Limit::new(
+    "calibration.temperature_c",
+    0.0,
+    100.0,
+    "°C",
+    "The temperature must be between 0 and 100 °C.",
+);
+/// One standard's reading, mV.
+pub const CAL_MV: Limit = Limit::new(
+    "calibration.points[].mv",
+    -2000.0,
+    2000.0,
+    "mV",
+    "A reading must be between −2000 and 2000 mV.",
+);
+/// The sample's reading, mV.
+pub const CAL_SAMPLE_MV: Limit = CAL_MV.for_path("calibration.sample_mv");
+/// The pH a meter shows before it is adjusted (a badly drifted meter may show a little
+/// outside 0–14).
+pub const CAL_DISPLAYED_PH: Limit = Limit::new(
+    "calibration.points[].displayed_ph",
+    -2.0,
+    16.0,
+    "pH",
+    "A displayed pH must be between −2 and 16.",
+);
+/// The lowest acceptable slope, % of the Nernst slope.
+pub const CAL_SLOPE_MIN: Limit = Limit::new(
+    "calibration.limits.slope_min_percent",
+    50.0,
+    150.0,
+    "%",
+    "Between 50 and 150 %.",
+);
+/// The highest acceptable slope (also at least the lowest, checked with the document).
+pub const CAL_SLOPE_MAX: Limit = CAL_SLOPE_MIN.for_path("calibration.limits.slope_max_percent");
+/// The largest acceptable offset at pH 7, mV.
+pub const CAL_OFFSET_MAX: Limit = Limit::new(
+    "calibration.limits.offset_max_mv",
+    0.0,
+    500.0,
+    "mV",
+    "Between 0 and 500 mV.",
+);
+/// The largest acceptable residual, pH.
+pub const CAL_RESIDUAL_MAX: Limit = Limit::new(
+    "calibration.limits.residual_max_ph",
+    0.0,
+    2.0,
+    "pH",
+    "Between 0 and 2 pH.",
+);
+/// A temperature of a user's buffer bottle table, °C.
+pub const BUFFER_TEMPERATURE_C: Limit =
+    CAL_TEMPERATURE_C.for_path("calibration.buffers[].values[].temperature_c");
+/// A pH of a user's buffer bottle table.
+pub const BUFFER_PH: Limit = Limit::new(
+    "calibration.buffers[].values[].ph",
+    0.0,
+    14.0,
+    "pH",
+    PH_MESSAGE,
+);
+/// The ± (95 %) a bottle states, pH.
+pub const BUFFER_U95_PH: Limit = Limit::new(
+    "calibration.buffers[].u95_ph",
+    0.0,
+    1.0,
+    "pH",
+    "Between 0 and 1 pH.",
+);
+
+/// The meter bench's limits (the optional `calibration` part of a design).
+pub const METER: &[Limit] = &[
+    CAL_TEMPERATURE_C,
+    CAL_MV,
+    CAL_SAMPLE_MV,
+    CAL_DISPLAYED_PH,
+    CAL_SLOPE_MIN,
+    CAL_SLOPE_MAX,
+    CAL_OFFSET_MAX,
+    CAL_RESIDUAL_MAX,
+    BUFFER_TEMPERATURE_C,
+    BUFFER_PH,
+    BUFFER_U95_PH,
+];
+
+/// The CO₂ atmosphere's limits (the optional `atmosphere` of the recipe, mixture and field,
+/// and the gas what-ifs), in document order.
+pub const GAS: &[Limit] = &[
+    RECIPE_CO2_PERCENT,
+    RECIPE_CO2_UATM,
+    RECIPE_PRESSURE_KPA,
+    CO2_PERCENT,
+    CO2_UATM,
+    PRESSURE_KPA,
+    ROOM_CO2_UATM,
+    WHAT_IF_CO2_PERCENT,
+    FIELD_CO2_PERCENT,
+    FIELD_CO2_UATM,
+    FIELD_PRESSURE_KPA,
+];
+
 /// The limit of a field by its document path (`recipe.volume_l`; list entries by `[]`
 /// or by their index, `recipe.salts[3].conc_m`).
 ///
@@ -386,7 +505,11 @@ pub fn find(path: &str) -> Option<Limit> {
             _ => general.push(c),
         }
     }
-    ALL.iter().copied().find(|l| l.path == general)
+    ALL.iter()
+        .chain(METER)
+        .chain(GAS)
+        .copied()
+        .find(|l| l.path == general)
 }
 
 #[cfg(test)]
@@ -395,11 +518,12 @@ mod tests {
 
     #[test]
     fn paths_are_unique_and_ranges_ordered() {
-        for (i, l) in ALL.iter().enumerate() {
+        let every: Vec<Limit> = ALL.iter().chain(METER).chain(GAS).copied().collect();
+        for (i, l) in every.iter().enumerate() {
             assert!(l.min <= l.max, "{}", l.path);
             assert!(!l.message.is_empty() && !l.unit.is_empty(), "{}", l.path);
             assert!(
-                ALL.iter().skip(i + 1).all(|m| m.path != l.path),
+                every.iter().skip(i + 1).all(|m| m.path != l.path),
                 "{}",
                 l.path
             );

@@ -105,10 +105,10 @@ const HILL: &str = "Hill, Petrucci et al., General Chemistry 4th ed., problem 15
 
 /// Tolerance for pH(S) standards: the Bates–Guggenheim convention and molal
 /// units of pH(S) against Davies with molal ≈ molar differ by about 0.01.
-const PHS_TOL: f64 = 0.02;
+pub const PHS_TOL: f64 = 0.02;
 /// Temperature series are recalled, not re-read: a slip of one in the last
 /// digit plus the model difference.
-const PHS_T_TOL: f64 = 0.025;
+pub const PHS_T_TOL: f64 = 0.025;
 
 fn component(system: &str, form: &str, conc: f64) -> Value {
     json!({"system": system, "form": form, "conc_m": conc})

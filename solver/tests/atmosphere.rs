@@ -441,3 +441,67 @@ proptest! {
         prop_assert!((eq.capacity / fd - 1.0).abs() < 1e-4, "{} vs {fd}", eq.capacity);
     }
 }
+
+/// The incubator example with `v` in the atmosphere field (or gas what-if) a limit of
+/// `solver::limits::GAS` names.
+fn incubator_with(path: &str, v: f64) -> solver::document::Design {
+    let mut d = parse_design(include_str!("../examples/incubator.json")).unwrap();
+    let (part, key) = path.rsplit_once('.').unwrap();
+    let slot = match part {
+        "recipe.atmosphere" => &mut d.recipe.atmosphere,
+        "mixture.atmosphere" => &mut d.mixture.atmosphere,
+        "field.atmosphere" => &mut d.field.atmosphere,
+        "what_if" => {
+            match key {
+                "room_co2_uatm" => d.what_if.room_co2_uatm = Some(v),
+                "co2_percent" => d.what_if.co2_percent = Some(v),
+                other => panic!("{other}: add it to incubator_with"),
+            }
+            return d;
+        }
+        other => panic!("{other}: add it to incubator_with"),
+    };
+    let a = slot.get_or_insert(Atmosphere::percent(5.0));
+    match key {
+        "co2_percent" => {
+            *a = Atmosphere {
+                co2_percent: Some(v),
+                co2_uatm: None,
+                ..*a
+            }
+        }
+        "co2_uatm" => {
+            *a = Atmosphere {
+                co2_uatm: Some(v),
+                co2_percent: None,
+                ..*a
+            }
+        }
+        "pressure_kpa" => a.pressure_kpa = Some(v),
+        other => panic!("{other}: add it to incubator_with"),
+    }
+    d
+}
+
+/// The rulebook's gas limits are the ones the reader applies: each bound accepted, a step
+/// past it refused naming the field (the page reads the same table by path).
+#[test]
+fn the_gas_limits_of_the_rulebook_are_the_readers() {
+    assert_eq!(solver::limits::GAS.len(), 11);
+    for l in solver::limits::GAS {
+        for v in [l.min, l.max] {
+            let d = incubator_with(l.path, v);
+            assert!(
+                solver::document::validate_design(&d).is_ok(),
+                "{} = {v} should be accepted",
+                l.path
+            );
+        }
+        let step = (l.max - l.min).abs().max(1.0) * 1e-6;
+        for v in [l.min - step, l.max + step, f64::NAN] {
+            let e = solver::document::validate_design(&incubator_with(l.path, v))
+                .expect_err(&format!("{} = {v} should be refused", l.path));
+            assert_eq!(field_of(&e), l.path, "{e}");
+        }
+    }
+}

@@ -93,11 +93,14 @@ fn absurd_salinity_is_refused_with_its_path() {
     assert_eq!(field_of(&e), "field.ionic.psu");
 }
 
+/// Past the Davies range with no salt-water model, no value is given: the
+/// Davies equation turns over past I ≈ 0.5 (Davies 1962; common practice
+/// puts its range at 0.1–0.5 mol/L), so a number there is biased, not rough.
 #[test]
-fn seawater_without_a_seawater_model_is_marked_indicative() {
+fn seawater_without_a_seawater_model_is_refused_not_guessed() {
     // Sulfide at S = 35 → I ≈ 0.72, past the Davies range (0.5), and no
-    // seawater model for sulfide: warning. (Ammonia has one: seawater_ammonia.rs.)
-    let r = field_reading(
+    // seawater model for sulfide. (Ammonia has one: seawater_ammonia.rs.)
+    let e = field_reading(
         &spec(
             "sulfide",
             8.1,
@@ -107,27 +110,44 @@ fn seawater_without_a_seawater_model_is_marked_indicative() {
         ),
         &[],
     )
-    .unwrap();
+    .unwrap_err();
+    assert_eq!(e.field(), Some("field.ionic.psu"));
+    let text = e.to_string();
     assert!(
-        r.warnings.iter().any(|w| w.contains("indicative")),
-        "{:?}",
-        r.warnings
+        text.contains("0.7") && text.contains("no salt-water model") && text.contains("No value"),
+        "{text}"
     );
-    // The same warning for any source past the range, and none below it.
-    let r = field_reading(
+    // Any source past the range is refused on its own field; just below the
+    // range the value is given.
+    for (source, field) in [
+        (
+            IonicSource::Direct {
+                ionic_strength: 0.6,
+            },
+            "field.ionic.ionic_strength",
+        ),
+        (IonicSource::Tds { mg_l: 30_000.0 }, "field.ionic.mg_l"),
+        (
+            IonicSource::Conductivity { us_cm: 40_000.0 },
+            "field.ionic.us_cm",
+        ),
+    ] {
+        let e = field_reading(&spec("sulfide", 7.0, 20.0, None, source), &[]).unwrap_err();
+        assert_eq!(e.field(), Some(field));
+    }
+    assert!(field_reading(
         &spec(
             "sulfide",
             7.0,
             20.0,
             None,
             IonicSource::Direct {
-                ionic_strength: 0.6,
-            },
+                ionic_strength: 0.49
+            }
         ),
         &[],
     )
-    .unwrap();
-    assert!(r.warnings.iter().any(|w| w.contains("indicative")));
+    .is_ok());
     let r = field_reading(
         &spec(
             "sulfide",

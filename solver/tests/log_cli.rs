@@ -415,13 +415,31 @@ fn grid_markdown_html_and_refusals() {
             "--species",
             "HS",
             "--salinity",
-            "30",
+            "15",
         ],
         None,
     );
     assert_eq!(code, 0);
     assert!(md.contains("| pH \\ T | 10 °C | 20 °C |"), "{md}");
-    assert!(md.contains("HS⁻") && md.contains("indicative"), "{md}");
+    assert!(md.contains("HS⁻"), "{md}");
+    // Salinity 30 (I ≈ 0.6): past the Davies range, no seawater model for
+    // sulfide: refused, never a table of biased numbers.
+    let (code, out, err) = run(
+        &[
+            "grid",
+            "--system",
+            "sulfide",
+            "--ph",
+            "6:8:1",
+            "--temp",
+            "10:20:10",
+            "--salinity",
+            "30",
+        ],
+        None,
+    );
+    assert_ne!(code, 0, "{out}");
+    assert!(err.contains("No value is given"), "{err}");
     let (code, html, _) = run(
         &[
             "grid",

@@ -564,3 +564,103 @@ fn the_editor_checks_show_every_field_at_once() {
     .unwrap_err();
     assert_eq!(e.field(), Some("custom_forms[0].form.units"));
 }
+
+#[test]
+fn a_form_must_declare_the_spectator_ions_its_formula_holds() {
+    // Sodium benzoate typed with no Na⁺ would be taken for the free acid: refused, naming
+    // the element and the count.
+    let mut sys = copy_of("acetate");
+    sys.forms = vec![ReagentForm {
+        id: "na_benzoate".into(),
+        name: "sodium benzoate".into(),
+        formula: "C7H5NaO2".into(),
+        units: 1.0,
+        counter_ions: vec![],
+    }];
+    let e = validate_user_system(&sys).unwrap_err().to_string();
+    assert!(
+        e.starts_with("system.forms[0].counter_ions: the formula \"C7H5NaO2\" holds 1 Na"),
+        "{e}"
+    );
+    assert!(e.contains("declare 0 Na⁺"), "{e}");
+    // Declared K⁺ the formula does not hold.
+    sys.forms[0].formula = "C7H6O2".into();
+    sys.forms[0].counter_ions = vec![(Ion::K, 1.0)];
+    let e = validate_user_system(&sys).unwrap_err().to_string();
+    assert!(e.contains("declare 1 K⁺") && e.contains("holds 0 K"), "{e}");
+    // More chloride than the formula holds.
+    let mut tris = copy_of("tris");
+    tris.forms = vec![ReagentForm {
+        id: "t".into(),
+        name: "t".into(),
+        formula: "C4H11NO3".into(),
+        units: 1.0,
+        counter_ions: vec![(Ion::Cl, 1.0)],
+    }];
+    assert!(validate_user_system(&tris).is_err());
+    // The same as an added form in a design, and in the editor's per-field checks.
+    let mut v = demo_value();
+    v["custom_forms"] = json!([{"system": "acetate", "form": {"id": "x", "name": "x",
+        "formula": "C2H3NaO2", "units": 1.0, "counter_ions": []}}]);
+    let e = refused(&v);
+    assert!(
+        e.starts_with("custom_forms[0].form.counter_ions: the formula"),
+        "{e}"
+    );
+    sys.forms[0].formula = "C7H5NaO2".into();
+    sys.forms[0].counter_ions = vec![];
+    let problems = system_field_problems(&sys);
+    assert!(
+        problems
+            .iter()
+            .any(|p| p.field() == Some("system.forms[0].counter_ions")),
+        "{problems:?}"
+    );
+    // Declared right, it passes (hypochlorite's Cl belongs to the system: fewer Cl⁻ is fine).
+    sys.forms[0].counter_ions = vec![(Ion::Na, 1.0)];
+    validate_user_system(&sys).unwrap();
+    let hocl = find_system("hypochlorous").unwrap();
+    validate_user_system(hocl).unwrap();
+}
+
+#[test]
+fn names_and_temperature_ranges_are_refused_in_plain_words() {
+    let mut sys = copy_of("acetate");
+    // A temperature range given the wrong way round names both ends.
+    sys.t_min_c = 60.0;
+    sys.t_max_c = 0.0;
+    let e = validate_user_system(&sys).unwrap_err().to_string();
+    assert!(
+        e.starts_with("system.t_max_c") && e.contains("(0 °C) must be above the lowest (60 °C)"),
+        "{e}"
+    );
+    sys.t_min_c = 10.0;
+    sys.t_max_c = 40.0;
+    validate_user_system(&sys).unwrap();
+    // A library system's name, in any case, is refused; a name of its own passes.
+    sys.name = " phosphate ".into();
+    let e = validate_user_system(&sys).unwrap_err().to_string();
+    assert!(
+        e.starts_with("system.name") && e.contains("library system"),
+        "{e}"
+    );
+    sys.name = "Phosphate (my own)".into();
+    validate_user_system(&sys).unwrap();
+    // Names are capped at 80 characters (system and form).
+    sys.name = "x".repeat(81);
+    assert!(validate_user_system(&sys)
+        .unwrap_err()
+        .to_string()
+        .starts_with("system.name"));
+    sys.name = "x".repeat(80);
+    validate_user_system(&sys).unwrap();
+    sys.forms[0].name = "y".repeat(5000);
+    let e = validate_user_system(&sys).unwrap_err().to_string();
+    assert!(
+        e.starts_with("system.forms[0].name") && e.contains("at most 80"),
+        "{e}"
+    );
+    let mut cf = k_hepes();
+    cf.form.name = "z".repeat(81);
+    assert!(validate_custom_forms(&[cf], &[]).is_err());
+}

@@ -167,23 +167,55 @@ fn salinity_in_range_uses_the_seawater_model_and_says_so() {
     assert!(json.contains(r#""model":"clegg_whitfield1995""#), "{json}");
 }
 
+/// Past the model's edge no reading falls back to Davies beyond Davies'
+/// own range (about I = 0.5, salinity ≈ 24.5): there it would give 20–30 %
+/// less NH₃ than the model at its edge (a jump toward "less toxic"), so the
+/// reading is refused on the salinity and names the ranges. Below that
+/// salinity, outside the model's temperatures, Davies is used and said to be
+/// indicative.
 #[test]
-fn outside_the_model_range_davies_is_used_and_marked_indicative() {
-    for (s, t) in [(45.0, 20.0), (35.0, 45.0)] {
-        let r = field_reading(&reading(8.1, t, sea(s)), &[]).unwrap();
-        assert_eq!(r.model, PkModel::Davies, "S {s} {t} °C");
-        let all = r.warnings.join(" ");
+fn outside_the_model_range_no_jump_toward_less_toxic() {
+    for (s, t) in [(45.0, 20.0), (40.01, 20.0), (35.0, 42.0), (35.0, 45.0)] {
+        let e = field_reading(&reading(8.1, t, sea(s)), &[]).unwrap_err();
+        assert_eq!(e.field(), Some("field.ionic.psu"), "S {s} {t} °C");
+        let text = e.to_string();
         assert!(
-            all.contains("outside the range") && all.contains("indicative"),
-            "{all}"
+            text.contains("outside the seawater ammonia model") && text.contains("No value"),
+            "{text}"
         );
     }
-    // Other systems never use it; other ionic sources never do.
-    let mut spec = reading(7.0, 20.0, sea(35.0));
+    // At the edge itself the model still answers.
+    let edge = field_reading(&reading(8.1, 20.0, sea(40.0)), &[]).unwrap();
+    assert_eq!(edge.model, PkModel::CleggWhitfield1995);
+    // Brackish water past 40 °C: within the Davies range, used and said.
+    let r = field_reading(&reading(8.1, 45.0, sea(20.0)), &[]).unwrap();
+    assert_eq!(r.model, PkModel::Davies);
+    let all = r.warnings.join(" ");
+    assert!(
+        all.contains("outside the range") && all.contains("indicative"),
+        "{all}"
+    );
+    // Other systems never use it; other ionic sources never do, and past
+    // the Davies range they are refused too.
+    let mut spec = reading(7.0, 20.0, sea(20.0));
     spec.system = "sulfide".into();
     spec.total = None;
     assert_eq!(field_reading(&spec, &[]).unwrap().model, PkModel::Davies);
+    spec.ionic = sea(35.0);
+    assert!(field_reading(&spec, &[]).is_err());
     let r = field_reading(
+        &reading(
+            8.0,
+            20.0,
+            IonicSource::Direct {
+                ionic_strength: 0.4,
+            },
+        ),
+        &[],
+    )
+    .unwrap();
+    assert_eq!(r.model, PkModel::Davies);
+    assert!(field_reading(
         &reading(
             8.0,
             20.0,
@@ -193,13 +225,12 @@ fn outside_the_model_range_davies_is_used_and_marked_indicative() {
         ),
         &[],
     )
-    .unwrap();
-    assert_eq!(r.model, PkModel::Davies);
+    .is_err());
 }
 
 #[test]
 fn plot_and_grid_use_the_same_model_as_the_reading() {
-    let spec = reading(8.0, 20.0, sea(30.0));
+    let spec = reading(8.0, 20.0, sea(20.0));
     let r = field_reading(&spec, &[]).unwrap();
     let c = fraction_curves(&spec, &[], None, 7.0, 9.0, 3).unwrap();
     let mid = &c.curves[1];
@@ -214,7 +245,7 @@ fn plot_and_grid_use_the_same_model_as_the_reading() {
             quantity: Quantity::Fraction,
             total: None,
             total_unit: TotalUnit::MgPerLAs,
-            ionic: sea(30.0),
+            ionic: sea(20.0),
         },
         &[],
     )
@@ -223,8 +254,26 @@ fn plot_and_grid_use_the_same_model_as_the_reading() {
     let notes = g.warnings.join(" ");
     // One column inside the model, one outside: both said.
     assert!(
-        notes.contains("Clegg & Whitfield (1995) at salinity 30"),
+        notes.contains("Clegg & Whitfield (1995) at salinity 20"),
         "{notes}"
     );
     assert!(notes.contains("45 °C is outside"), "{notes}");
+    // At salinity 30 the 45 °C column would be Davies past its range: the
+    // grid is refused, naming the temperature, rather than a column that
+    // falls as the temperature rises.
+    let e = species_grid(
+        &GridSpec {
+            system: "ammonium".into(),
+            ph: vec![8.0],
+            temperatures_c: vec![20.0, 45.0],
+            species: None,
+            quantity: Quantity::Fraction,
+            total: None,
+            total_unit: TotalUnit::MgPerLAs,
+            ionic: sea(30.0),
+        },
+        &[],
+    )
+    .unwrap_err();
+    assert!(e.to_string().contains("at 45 °C"), "{e}");
 }

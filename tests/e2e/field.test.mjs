@@ -114,13 +114,19 @@ test('salinity as the ionic-strength source: I and the warning shown', async () 
     // says so, as the CLI's result does.
     assert.equal(field.model, 'clegg_whitfield1995');
     assert.match(await page.textContent(tid('field-model')), /Clegg & Whitfield \(1995\), total pH scale/);
-    // Past the model's salinity range the page falls back to Davies and says the value is indicative.
-    const past = fieldDoc({ ...AMMONIA, ionic: { kind: 'salinity', psu: 45 }, limit: undefined });
-    assert.equal(past.field.model, 'davies');
-    const page2 = await openField(s, past.doc);
-    await page2.waitForSelector(tid('field-model'));
-    assert.match(await page2.textContent(tid('field-model')), /Davies/);
-    assert.match(await page2.textContent(tid('field-warnings')), /indicative/i);
+    // Past the model's salinity range Davies does not hold either (I ≈ 0.9): the CLI and the page
+    // refuse the reading beside the salinity, naming both ranges, rather than show NH₃ 20–30 % low.
+    const doc2 = demo();
+    doc2.field = { ...AMMONIA, ionic: { kind: 'salinity', psu: 45 }, limit: undefined };
+    const cli2 = JSON.parse(bw(['-'], JSON.stringify(doc2)));
+    assert.ok(cli2.field.Err, 'the CLI refuses it too');
+    const page2 = await openField(s, doc2);
+    await page2.waitForSelector(tid('error-field-ionic-salinity-value'));
+    const beside = await page2.textContent(tid('error-field-ionic-salinity-value'));
+    assert.match(beside, /outside the seawater ammonia model/);
+    assert.match(beside, /No value is given/);
+    assert.match(await page2.textContent(tid('field-error')), /No value is given/);
+    assert.equal(await page2.$(tid('field-fraction-1')), null, 'no fraction shown');
     s.assertClean('salinity');
   } finally {
     await s.close();

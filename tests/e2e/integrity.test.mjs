@@ -164,7 +164,7 @@ test('a misspelt key in a link or a design file is refused by name, never read a
     doc.name = 'Typo link';
     doc.recipe.prepare_temprature_c = 22;
     const page = await openApp(s, srv.url('/') + legacyLink(doc));
-    assert.match(await page.textContent(tid('storage-message')), /could not be opened: .*recipe\.prepare_temprature_c.*unknown field/);
+    assert.match(await page.textContent(tid('storage-message')), /could not be opened: .*the Recipe, prepare_temprature_c.*unknown field/);
     assert.doesNotMatch(await page.textContent(tid('design-name')), /Typo link/);
     // The same document as a file: refused whole, nothing imported.
     await page.setInputFiles(tid('import-file'), {
@@ -173,7 +173,7 @@ test('a misspelt key in a link or a design file is refused by name, never read a
       buffer: Buffer.from(JSON.stringify(doc)),
     });
     await page.waitForFunction(() => /typo\.bwdesign\.json” was not imported/.test(document.querySelector('[data-testid="storage-message"]').textContent));
-    assert.match(await page.textContent(tid('storage-message')), /recipe\.prepare_temprature_c/);
+    assert.match(await page.textContent(tid('storage-message')), /the Recipe, prepare_temprature_c/);
     assert.equal(await page.$$eval('tr[data-testid^="design-row-"]', (r) => r.length), 0);
     s.assertClean('unknown keys');
   } finally {

@@ -167,7 +167,7 @@ for (const [view, options] of [
           buffer: Buffer.from(JSON.stringify(bad)),
         });
         await p2.waitForSelector(tid('rg-notice'));
-        assert.match(await p2.textContent(tid('rg-notice')), /refused as a whole.*reagent\.system\.steps\[0\]\.pk25/);
+        assert.match(await p2.textContent(tid('rg-notice')), /refused as a whole.*step 1, pK at 25 °C: 99/);
         await p2.setInputFiles(`${ws('recipe')} ${tid('rg-import')}`, {
           name: 'my-acetate.bwreagent.json',
           mimeType: 'application/json',

@@ -67,7 +67,14 @@ export function startServer({ root, host = '127.0.0.1', port = 0, aliases = {}, 
         port: actual,
         origin,
         url: (p = '/') => origin + p,
-        close: () => new Promise((done) => server.close(() => done())),
+        // Also cuts kept-alive and in-flight connections: a browser (or its service worker)
+        // holding one open must never keep close() - and so a test file - waiting forever.
+        close: () => {
+          if (!server.listening) return Promise.resolve();
+          const done = new Promise((ok) => server.close(() => ok()));
+          server.closeAllConnections();
+          return done;
+        },
       });
     });
   });

@@ -1,6 +1,8 @@
 //! Between tabs: saving over a design another tab saved since (a conflict for the user), and following changes made elsewhere.
 
-use super::index::{clean_name, design_key, ids_for_write, new_id, put, quarantine};
+use super::index::{
+    clean_name, design_key, ids_for_write, new_id, put, quarantine, read_design, scan,
+};
 use super::kv::{KvStore, StoreError};
 use solver::document::{parse_design, Design, SCHEMA_VERSION};
 
@@ -129,17 +131,6 @@ pub fn save_design(
     })
 }
 
-/// Two designs hold the same inputs (save time and shown workspace aside).
-pub fn same_content(a: &Design, b: &Design) -> bool {
-    let norm = |d: &Design| {
-        let mut d = d.clone();
-        d.saved_at_ms = 0.0;
-        d.workspace = solver::document::Workspace::default();
-        d
-    };
-    norm(a) == norm(b)
-}
-
 /// What to do when another tab changed the design this page has open.
 #[derive(Debug, Clone, PartialEq)]
 pub enum External {
@@ -163,10 +154,52 @@ pub fn external_change(stored: Option<Design>, base_saved_at_ms: f64, dirty: boo
     }
 }
 
+/// Name of a copy: `X (copy)`, `X (copy 2)`, ... not clashing with `names`.
+pub fn copy_name(name: &str, names: &[String]) -> String {
+    let stem = name.trim();
+    let mut n = 1u32;
+    loop {
+        let candidate = if n == 1 {
+            format!("{stem} (copy)")
+        } else {
+            format!("{stem} (copy {n})")
+        };
+        if !names.contains(&candidate) || n > 999 {
+            return clean_name(&candidate);
+        }
+        n += 1;
+    }
+}
+
+/// Duplicate a saved design under a new id and a "(copy)" name.
+///
+/// # Errors
+/// [`StoreError::Missing`] or storage errors.
+pub fn duplicate_design(
+    kv: &mut dyn KvStore,
+    id: &str,
+    now_ms: f64,
+) -> Result<(String, Design), StoreError> {
+    let d = read_design(kv, id)?;
+    let names: Vec<String> = scan(kv, false, now_ms)?
+        .designs
+        .into_iter()
+        .map(|(_, d)| d.name)
+        .collect();
+    let mut copy = d;
+    copy.name = copy_name(&copy.name, &names);
+    copy.saved_at_ms = 0.0;
+    match save_design(kv, &SaveTarget::New, &copy, now_ms)? {
+        SaveOutcome::Saved { id, design, .. } => Ok((id, design)),
+        SaveOutcome::Conflict { id, .. } => Err(StoreError::Other(format!("id clash on {id}"))),
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::super::testkit::{named, saved};
     use super::*;
+    use crate::designs::index::same_content;
     use crate::designs::index::{delete_design, scan};
     use crate::designs::kv::MemStore;
 

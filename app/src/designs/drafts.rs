@@ -13,10 +13,9 @@
 //! set-aside draft under `bufferwright.draft.previous`; [`migrate_legacy`]
 //! moves them into this scheme.
 
-use super::conflicts::same_content;
-use super::index::{quarantine, read_design, to_base36, EntryKind, Quarantined};
+use super::index::{quarantine, read_design, same_content, to_base36, EntryKind, Quarantined};
 use super::kv::{KvStore, StoreError};
-use super::recovery::plain_json_reason;
+use super::reasons::{plain_json_reason, plain_reason};
 use serde::{Deserialize, Serialize};
 use solver::document::{demo_design, parse_design, Design};
 
@@ -149,8 +148,7 @@ pub fn draft_text(d: &Draft) -> String {
 /// Why it cannot be used, in plain words.
 pub fn parse_stored(text: &str) -> Result<StoredDraft, String> {
     let file: DraftFile = serde_json::from_str(text).map_err(|e| plain_json_reason(&e))?;
-    let design =
-        parse_design(&file.design.to_string()).map_err(|e| super::recovery::plain_reason(&e))?;
+    let design = parse_design(&file.design.to_string()).map_err(|e| plain_reason(&e))?;
     Ok(StoredDraft {
         draft: Draft {
             design,

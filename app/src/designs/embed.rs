@@ -64,6 +64,7 @@ pub fn workspace_from_name(name: &str) -> Option<Workspace> {
         "mixture" => Some(Workspace::Mixture),
         "species" => Some(Workspace::Species),
         "field" => Some(Workspace::Field),
+        "meter" => Some(Workspace::Meter),
         _ => None,
     }
 }
@@ -75,6 +76,7 @@ pub fn workspace_name(ws: Workspace) -> &'static str {
         Workspace::Mixture => "mixture",
         Workspace::Species => "species",
         Workspace::Field => "field",
+        Workspace::Meter => "meter",
     }
 }
 
@@ -110,12 +112,15 @@ pub fn EmbedBar() -> impl IntoView {
         let base = crate::designs::share::page_base(&here).to_string();
         format!("{base}#{}", crate::designs::share::encode_fragment(&d))
     };
-    let store = crate::designs::use_store();
+    let store = crate::designs::store::use_store();
     let edited = move || {
         store.is_some_and(|s| {
             s.preset.with(|p| {
-                p.as_ref()
-                    .is_some_and(|p| state.design.with(|d| !crate::designs::same_content(p, d)))
+                p.as_ref().is_some_and(|p| {
+                    state
+                        .design
+                        .with(|d| !crate::designs::index::same_content(p, d))
+                })
             })
         })
     };
@@ -191,6 +196,7 @@ mod tests {
             Workspace::Mixture,
             Workspace::Species,
             Workspace::Field,
+            Workspace::Meter,
         ] {
             assert_eq!(workspace_from_name(workspace_name(ws)), Some(ws));
         }

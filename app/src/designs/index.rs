@@ -1,8 +1,7 @@
 //! The list of saved designs: one key per design plus an index, the scan that reads them all, quarantine of unreadable entries, and writes (put, delete, rename, duplicate).
 
-use super::conflicts::{save_design, SaveOutcome, SaveTarget};
 use super::kv::{KvStore, StoreError};
-use super::recovery::plain_reason;
+use super::reasons::plain_reason;
 use serde::{Deserialize, Serialize};
 use solver::document::{parse_design, to_json, Design};
 
@@ -407,53 +406,24 @@ pub fn rename_design(
     Ok(d)
 }
 
-/// Name of a copy: `X (copy)`, `X (copy 2)`, ... not clashing with `names`.
-pub fn copy_name(name: &str, names: &[String]) -> String {
-    let stem = name.trim();
-    let mut n = 1u32;
-    loop {
-        let candidate = if n == 1 {
-            format!("{stem} (copy)")
-        } else {
-            format!("{stem} (copy {n})")
-        };
-        if !names.contains(&candidate) || n > 999 {
-            return clean_name(&candidate);
-        }
-        n += 1;
-    }
-}
-
-/// Duplicate a saved design under a new id and a "(copy)" name.
-///
-/// # Errors
-/// [`StoreError::Missing`] or storage errors.
-pub fn duplicate_design(
-    kv: &mut dyn KvStore,
-    id: &str,
-    now_ms: f64,
-) -> Result<(String, Design), StoreError> {
-    let d = read_design(kv, id)?;
-    let names: Vec<String> = scan(kv, false, now_ms)?
-        .designs
-        .into_iter()
-        .map(|(_, d)| d.name)
-        .collect();
-    let mut copy = d;
-    copy.name = copy_name(&copy.name, &names);
-    copy.saved_at_ms = 0.0;
-    match save_design(kv, &SaveTarget::New, &copy, now_ms)? {
-        SaveOutcome::Saved { id, design, .. } => Ok((id, design)),
-        SaveOutcome::Conflict { id, .. } => Err(StoreError::Other(format!("id clash on {id}"))),
-    }
-}
-
 // ---------------------------------------------------------------------------
+
+/// Two designs hold the same inputs (save time and shown workspace aside).
+pub fn same_content(a: &Design, b: &Design) -> bool {
+    let norm = |d: &Design| {
+        let mut d = d.clone();
+        d.saved_at_ms = 0.0;
+        d.workspace = solver::document::Workspace::default();
+        d
+    };
+    norm(a) == norm(b)
+}
 
 #[cfg(test)]
 mod tests {
     use super::super::testkit::{named, saved};
     use super::*;
+    use crate::designs::conflicts::duplicate_design;
     use crate::designs::conflicts::{save_design, SaveTarget};
     use crate::designs::kv::MemStore;
 
@@ -520,7 +490,7 @@ mod tests {
             .first()
             .map(|q| q.reason.clone())
             .unwrap_or_default();
-        assert!(reason.contains("recipe.target_ph"), "{reason}");
+        assert!(reason.contains("the Recipe, target pH"), "{reason}");
     }
 
     #[test]

@@ -4,10 +4,10 @@
 //! functions over a key-value store, tested natively) and
 //! [`crate::designs::share`]; this file only wires buttons to those functions.
 
-use crate::designs::{
-    export_many, export_one, file_name, local_when, use_store, NoticeAction, NoticeKind, Store,
-    Summary, FILE_EXTENSION, MAX_NAME_CHARS,
-};
+use crate::designs::index::{Summary, MAX_NAME_CHARS};
+use crate::designs::store::{use_store, NoticeAction, NoticeKind, Store};
+use crate::designs::transfer::{export_many, export_one, file_name, FILE_EXTENSION};
+use crate::designs::when::local_when;
 use crate::state::use_app;
 use leptos::prelude::*;
 use wasm_bindgen::{closure::Closure, JsCast, JsValue};
@@ -32,7 +32,7 @@ fn import_from_input(store: Store, input: web_sys::HtmlInputElement) {
         return;
     };
     let name = file.name();
-    if file.size() > crate::designs::MAX_IMPORT_BYTES as f64 {
+    if file.size() > crate::designs::transfer::MAX_IMPORT_BYTES as f64 {
         store.notify(
             NoticeKind::Error,
             format!("“{name}” was not imported: it is too large to be a design file. Nothing was changed."),
@@ -88,7 +88,7 @@ fn copy_text(store: Store, text: String) {
 }
 
 /// One notice with its buttons.
-fn notice_view(store: Store, n: crate::designs::Notice) -> impl IntoView {
+fn notice_view(store: Store, n: crate::designs::store::Notice) -> impl IntoView {
     let id = n.id;
     let state = store.state;
     let actions = match n.action {
@@ -276,8 +276,12 @@ fn focus_after_render(selectors: &[&str]) {
 }
 
 /// One line of the Recovery section.
-fn recovery_row(store: Store, index: usize, item: crate::designs::RecoveryItem) -> impl IntoView {
-    use crate::designs::RecoveryKind;
+fn recovery_row(
+    store: Store,
+    index: usize,
+    item: crate::designs::recovery::RecoveryItem,
+) -> impl IntoView {
+    use crate::designs::recovery::RecoveryKind;
     let kind = match &item.kind {
         RecoveryKind::SetAside => "Set aside",
         RecoveryKind::ClosedTab => "From a closed tab",
@@ -342,7 +346,7 @@ pub fn DesignsPanel() -> impl IntoView {
         }
         let dirty = store.dirty();
         let open = store.open.get();
-        crate::designs::status_line(open.as_ref(), dirty, &store.keeping.get())
+        crate::designs::store::status_line(open.as_ref(), dirty, &store.keeping.get())
     };
     let save_label = move || {
         if store.open.with(Option::is_some) {
@@ -351,17 +355,47 @@ pub fn DesignsPanel() -> impl IntoView {
             "Save"
         }
     };
+    let link_base = Memo::new(move |_| {
+        let href = window().location().href().unwrap_or_default();
+        crate::designs::address::link_base(&href, store.page_address.get().as_deref())
+    });
     let share_link = Memo::new(move |_| {
         let d = state.design.get();
-        let href = window().location().href().unwrap_or_default();
-        crate::designs::share::share_url(crate::designs::share::page_base(&href), &d)
+        crate::designs::share::share_url(&link_base.get(), &d)
     });
+    let address_text = RwSignal::new(store.page_address.get_untracked().unwrap_or_default());
+    let address_error = RwSignal::new(None::<String>);
+    let set_address = move || {
+        let typed = address_text.get_untracked();
+        match crate::designs::address::check_address(&typed) {
+            Ok(a) => {
+                address_error.set(None);
+                if let Err(why) = crate::designs::address::store(&a) {
+                    store.notify(
+                        NoticeKind::Warn,
+                        format!("The address is used in this tab but could not be kept ({why})."),
+                        None,
+                    );
+                }
+                store.page_address.set((!a.is_empty()).then_some(a));
+            }
+            Err(why) => address_error.set(Some(why)),
+        }
+    };
     let share_input = NodeRef::<leptos::html::Input>::new();
     let file_input = NodeRef::<leptos::html::Input>::new();
 
     let export_current = move |_| {
         let d = state.design.get_untracked();
-        crate::designs::download(&file_name(&d.name), &export_one(&d));
+        if let Some(why) = crate::designs::rules::document_problem(&d) {
+            store.notify(
+                NoticeKind::Error,
+                crate::designs::rules::refusal("exported", &why),
+                None,
+            );
+            return;
+        }
+        crate::designs::session::download(&file_name(&d.name), &export_one(&d));
     };
     let export_all = move |_| {
         let all = store.all_saved();
@@ -375,12 +409,23 @@ pub fn DesignsPanel() -> impl IntoView {
         }
         let day = local_when(js_sys::Date::now());
         let day = day.split(' ').next().unwrap_or("designs").to_string();
-        crate::designs::download(
+        crate::designs::session::download(
             &format!("bufferwright-saved-designs-{day}{FILE_EXTENSION}"),
             &export_many(&all),
         );
     };
     let copy_link = move |_| {
+        if let Some(why) = state
+            .design
+            .with_untracked(crate::designs::rules::document_problem)
+        {
+            store.notify(
+                NoticeKind::Error,
+                crate::designs::rules::refusal("shared", &why),
+                None,
+            );
+            return;
+        }
         if let Some(input) = share_input.get_untracked() {
             input.select();
         }
@@ -517,6 +562,27 @@ pub fn DesignsPanel() -> impl IntoView {
                     </button>
                 </div>
                 <p class="bw-hint">"The whole design travels inside the link (after the #); opening it shows the design. Nothing is uploaded."</p>
+                {move || crate::designs::address::local_note(&link_base.get()).map(|n| view! {
+                    <p class="bw-hint bw-warn" data-testid="share-local-note">{n}</p>
+                })}
+                <label for="bw-page-address" class="bw-sub">"Address this page is served from (for links and QR codes)"</label>
+                <div class="bw-current-row">
+                    <input id="bw-page-address" type="url" data-testid="page-address"
+                        placeholder="https://lab.example.org/bufferwright/"
+                        prop:value=move || address_text.get()
+                        aria-invalid=move || address_error.with(Option::is_some).to_string()
+                        on:input=move |ev| address_text.set(event_target_value(&ev))
+                        on:change=move |_| set_address()
+                        on:keydown=move |ev: leptos::ev::KeyboardEvent| {
+                            if ev.key() == "Enter" {
+                                set_address();
+                            }
+                        } />
+                </div>
+                {move || address_error.get().map(|e| view! {
+                    <p class="bw-error" role="alert" data-testid="error-page-address">{e}</p>
+                })}
+                <p class="bw-hint">"Kept in this browser. Leave it empty to use the address in the address bar."</p>
             </div>
         </section>
     }

@@ -1,100 +1,10 @@
-//! Recovery: everything kept aside (set-aside work, drafts of closed tabs, entries that could not be read) as one list, and read errors in plain words.
+//! Recovery: everything kept aside (set-aside work, drafts of closed tabs, entries that could not be read) as one list.
 
 use super::drafts::{closed_drafts, list_set_aside, parse_stored, StoredDraft};
 use super::index::{EntryKind, Quarantined, QUARANTINE_PREFIX};
 use super::kv::{KvStore, StoreError};
+use super::reasons::plain_reason;
 use solver::document::parse_design;
-use solver::error::SolverError;
-
-fn between(text: &str, open: char, close: char) -> Option<&str> {
-    let start = text.find(open)? + open.len_utf8();
-    let len = text.get(start..)?.find(close)?;
-    text.get(start..start + len)
-}
-
-fn where_in(field: &str) -> String {
-    let f = field.trim_matches('.');
-    if f.is_empty() || f == "document" {
-        String::new()
-    } else {
-        format!(" in “{f}”")
-    }
-}
-
-/// A serde message (`missing field \`name\` at line 1 column 9`) in plain words.
-fn plain_serde(msg: &str, field: &str) -> String {
-    let at = where_in(field);
-    if msg.contains("EOF while parsing") || msg.contains("unexpected end") {
-        return "the text is cut short: it ends in the middle".into();
-    }
-    if msg.starts_with("missing field") {
-        let name = between(msg, '`', '`').unwrap_or("a value");
-        return format!("a part is missing: “{name}”{at}");
-    }
-    if msg.starts_with("unknown field") {
-        let name = between(msg, '`', '`').unwrap_or("?");
-        return format!("it holds an entry “{name}”{at} that this page does not know");
-    }
-    if msg.starts_with("unknown variant") {
-        let name = between(msg, '`', '`').unwrap_or("?");
-        return format!("the value “{name}”{at} is not one this page knows");
-    }
-    if msg.starts_with("invalid type") {
-        let want = msg
-            .split("expected ")
-            .nth(1)
-            .map(|w| w.split(" at line").next().unwrap_or(w))
-            .unwrap_or("another kind");
-        let want = match want {
-            w if w.starts_with('f') || w.starts_with('u') || w.starts_with('i') => "a number",
-            w if w.contains("string") => "text",
-            w if w.contains("sequence") => "a list",
-            w if w.contains("bool") => "yes or no",
-            _ => "another kind of value",
-        };
-        return format!("a value{at} has the wrong kind (it should be {want})");
-    }
-    if msg.starts_with("expected") || msg.contains("key must be") || msg.contains("trailing") {
-        return "the text is not readable as a design (it is not well-formed JSON)".into();
-    }
-    if msg.starts_with("invalid value") || msg.starts_with("invalid length") {
-        return format!("a value{at} is not usable");
-    }
-    format!("it cannot be read{at}")
-}
-
-/// A JSON reading error in plain words.
-pub fn plain_json_reason(e: &serde_json::Error) -> String {
-    if e.is_eof() {
-        return "the text is cut short: it ends in the middle".into();
-    }
-    plain_serde(&e.to_string(), "")
-}
-
-/// Why a design could not be used, in plain words (field paths kept where a
-/// value is refused, so the user can find it).
-pub fn plain_reason(e: &SolverError) -> String {
-    match e {
-        SolverError::Document { field, reason } => {
-            if field == "document" {
-                if reason.contains("EOF while parsing") {
-                    "the text is cut short: it ends in the middle".into()
-                } else if reason.starts_with("not valid JSON") {
-                    "the text is not readable as a design (it is not well-formed JSON)".into()
-                } else if reason.contains("schema") {
-                    reason.clone()
-                } else {
-                    plain_serde(reason, "")
-                }
-            } else if reason.contains('`') || reason.starts_with("invalid") {
-                plain_serde(reason, field)
-            } else {
-                format!("{field}: {reason}")
-            }
-        }
-        other => other.to_string(),
-    }
-}
 
 /// What a recovery item is.
 #[derive(Debug, Clone, PartialEq)]
@@ -235,6 +145,7 @@ mod tests {
         draft_key, set_aside, stored_text, Draft, StoredDraft, SET_ASIDE_PREFIX,
     };
     use super::super::index::{design_key, quarantine_key, scan};
+    use super::super::reasons::{plain_json_reason, plain_place};
     use super::super::testkit::{named, saved};
     use super::*;
     use crate::designs::kv::MemStore;
@@ -263,12 +174,19 @@ mod tests {
         v["recipe"]["target_ph"] = serde_json::json!("seven");
         let r = plain_reason(&parse_design(&v.to_string()).unwrap_err());
         assert!(
-            r.contains("recipe.target_ph") && r.contains("a number"),
+            r.contains("the Recipe, target pH") && r.contains("a number"),
             "{r}"
         );
         v["recipe"]["target_ph"] = serde_json::json!(99.0);
         let r = plain_reason(&parse_design(&v.to_string()).unwrap_err());
-        assert!(r.contains("recipe.target_ph"), "{r}");
+        assert!(
+            r.contains("the Recipe, target pH") && !r.contains("recipe."),
+            "{r}"
+        );
+        assert_eq!(
+            plain_place("recipe.salts[1].conc_m"),
+            "the Recipe, salt row 2, amount"
+        );
         let e = serde_json::from_str::<serde_json::Value>("[1,").unwrap_err();
         assert_eq!(
             plain_json_reason(&e),

@@ -1,9 +1,23 @@
 //! Start-up and this tab's session: tab id and sign of life, autosave to this tab's draft, share links that set work aside, Recovery actions, changes made by other tabs.
 
+use super::conflicts::{external_change, External};
+use super::drafts::{
+    choose_tab_id, closed_drafts, draft_key, draft_worth_keeping, holds_work, load_stored,
+    mark_alive, mark_closed, migrate_legacy, new_tab_id, parse_stored, set_aside, stored_text,
+    Draft, StoredDraft, ALIVE_EVERY_MS, ALIVE_PREFIX, SET_ASIDE_PREFIX, TAB_DRAFT_PREFIX,
+    TAB_ID_KEY,
+};
 use super::embed::{parse_query, UrlOptions};
-use super::*;
+use super::index::{design_key, read_design, same_content, INDEX_KEY, PREFIX, QUARANTINE_PREFIX};
+use super::kv::{KvStore, LocalStore, StoreError};
+use super::store::{now_ms, Keeping, NoticeAction, NoticeKind, OpenRef, Store};
+use super::transfer::{export_one, file_name, import_designs};
+use super::when::local_when;
 use crate::designs::share;
+use crate::state::AppState;
 use crate::state::ViewOptions;
+use leptos::prelude::*;
+use solver::document::Design;
 
 impl Store {
     /// Load a draft, re-linking it to its saved design when that still matches.
@@ -164,18 +178,32 @@ impl Store {
 
     /// Write the working design to this tab's draft, and say honestly whether that worked.
     pub(crate) fn autosave(&self, design: &Design) {
+        // Never store what the reader would refuse: the last readable draft stays.
+        if let Some(why) = super::rules::document_problem(design) {
+            self.keeping.set(Keeping::Held(why));
+            return;
+        }
         let rec = self.draft_record(design);
         let key = draft_key(&self.tab.get_value());
         let result = LocalStore::open().and_then(|mut kv| kv.set(&key, &stored_text(&rec)));
         let was_failing = self
             .keeping
             .with_untracked(|k| matches!(k, Keeping::Failing(_)));
+        let was_held = self
+            .keeping
+            .with_untracked(|k| matches!(k, Keeping::Held(_)));
         match result {
             Ok(()) => {
                 if was_failing {
                     self.notify(
                         NoticeKind::Info,
                         "Automatic keeping of your work has resumed.",
+                        None,
+                    );
+                } else if was_held {
+                    self.notify(
+                        NoticeKind::Info,
+                        "Your work is kept automatically again.",
                         None,
                     );
                 }
@@ -514,7 +542,26 @@ fn draft_for_this_tab(store: &Store, kv: &mut LocalStore) -> Option<Draft> {
             return Some(s.draft);
         }
         Ok(Ok(None)) => {}
-        Ok(Err(q)) => store.report_quarantine(&[q]),
+        Ok(Err(q)) => {
+            // One unreadable workspace must not cost the others: bring back what reads.
+            let raw = q
+                .moved_to
+                .as_deref()
+                .and_then(|k| kv.get(k).ok().flatten())
+                .or_else(|| kv.get(&own).ok().flatten());
+            if let Some((s, refused)) = raw.as_deref().and_then(super::rules::salvage_stored) {
+                if kv.set(&own, &stored_text(&s)).is_ok() {
+                    store.notify(
+                        NoticeKind::Warn,
+                        super::rules::salvage_notice(&refused),
+                        None,
+                    );
+                    store.refresh_recovery(false);
+                    return Some(s.draft);
+                }
+            }
+            store.report_quarantine(&[q]);
+        }
         Err(e) => {
             store.fail(&e);
             return None;
@@ -530,6 +577,9 @@ fn draft_for_this_tab(store: &Store, kv: &mut LocalStore) -> Option<Draft> {
         return None; // it stays listed under Recovery
     }
     let _ = kv.remove(&first.key);
+    if let Some(old) = first.key.strip_prefix(TAB_DRAFT_PREFIX) {
+        super::side::move_side(kv, old, &tab);
+    }
     let more = closed.len() - 1;
     let rest = match more {
         0 => String::new(),
@@ -621,6 +671,7 @@ pub fn init(state: AppState) {
             let d = state.design.get();
             store.autosave(&d);
         });
+        super::side::keep_unfinished_reagent(store, state);
     }
 
     let _storage = window_event_listener(leptos::ev::storage, move |ev: web_sys::StorageEvent| {

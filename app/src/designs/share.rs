@@ -186,7 +186,7 @@ fn decode_checked(raw: &str) -> Result<Design, String> {
         .map_err(|_| "the link's design cannot be unpacked".to_string())?;
     let text = String::from_utf8(bytes)
         .map_err(|_| "the link's design is not readable text".to_string())?;
-    parse_design(&text).map_err(|e| e.to_string())
+    parse_design(&text).map_err(|e| super::reasons::plain_reason(&e))
 }
 
 fn decode_legacy(raw: &str) -> Result<Design, String> {
@@ -198,7 +198,7 @@ fn decode_legacy(raw: &str) -> Result<Design, String> {
     let text = String::from_utf8(bytes).map_err(|_| {
         "the link's design is not readable text: it was probably cut short".to_string()
     })?;
-    parse_design(&text).map_err(|e| e.to_string())
+    parse_design(&text).map_err(|e| super::reasons::plain_reason(&e))
 }
 
 /// The page address `href` with its fragment replaced by one carrying `design`.
@@ -367,14 +367,14 @@ mod tests {
         let err = decode_fragment(&link)
             .and_then(Result::err)
             .unwrap_or_default();
-        assert!(err.contains("recipe.target_ph"), "{err}");
+        assert!(err.contains("the Recipe, target pH"), "{err}");
         let packed = miniz_oxide::deflate::compress_to_vec(bad.as_bytes(), 9);
         let payload = base64url_encode(&packed);
         let link = format!("#z={payload}.{}", check_of(&payload));
         let err = decode_fragment(&link)
             .and_then(Result::err)
             .unwrap_or_default();
-        assert!(err.contains("recipe.target_ph"), "{err}");
+        assert!(err.contains("the Recipe, target pH"), "{err}");
     }
 
     #[test]

@@ -69,14 +69,19 @@ pub fn parse_import(text: &str) -> Result<Vec<Design>, String> {
         ));
     }
     let value: serde_json::Value = serde_json::from_str(text.trim_start_matches('\u{feff}'))
-        .map_err(|e| format!("the file is not JSON ({e})"))?;
+        .map_err(|e| {
+            format!(
+                "the file is not JSON ({})",
+                super::reasons::plain_json_reason(&e)
+            )
+        })?;
     let is_collection = value.get("format").and_then(serde_json::Value::as_str)
         == Some(COLLECTION_FORMAT)
         || (value.get("designs").is_some() && value.get("recipe").is_none());
     if !is_collection {
         return parse_design_value(value)
             .map(|d| vec![d])
-            .map_err(|e| format!("not a usable design: {e}"));
+            .map_err(|e| format!("not a usable design: {}", super::reasons::plain_reason(&e)));
     }
     // Each element is read once, as the JSON value it already is.
     let list = match value {
@@ -92,7 +97,15 @@ pub fn parse_import(text: &str) -> Result<Vec<Design>, String> {
     let n = list.len();
     list.into_iter()
         .enumerate()
-        .map(|(i, v)| parse_design_value(v).map_err(|e| format!("design {} of {n}: {e}", i + 1)))
+        .map(|(i, v)| {
+            parse_design_value(v).map_err(|e| {
+                format!(
+                    "design {} of {n}: {}",
+                    i + 1,
+                    super::reasons::plain_reason(&e)
+                )
+            })
+        })
         .collect()
 }
 
@@ -242,7 +255,7 @@ mod tests {
         let text = export_many(&[good, bad]);
         let e = parse_import(&text).unwrap_err();
         assert!(
-            e.contains("design 2 of 2") && e.contains("recipe.target_ph"),
+            e.contains("design 2 of 2") && e.contains("the Recipe, target pH"),
             "{e}"
         );
         let e = parse_import("{\"schema\":9}").unwrap_err();

@@ -98,6 +98,9 @@ pub struct PlotData {
     pub added_mm: Vec<f64>,
     /// Titration: pH at each added amount.
     pub titration_ph: Vec<f64>,
+    /// Each species' share of its system's total at the working pH (exact,
+    /// from the solved composition): (system index, species, fraction).
+    pub shares_at_ph: Vec<(usize, String, f64)>,
 }
 
 /// Whether the species plot shows fractions or concentrations.
@@ -149,6 +152,7 @@ fn compute_with(src: &Source, titration: bool) -> Result<PlotData, String> {
     let mut systems: Vec<SystemInfo> = Vec::new();
     let mut ids: Vec<&str> = Vec::new();
     let mut series = Vec::new();
+    let mut shares_at_ph = Vec::new();
     let mut curve_iter = curves.series.into_iter();
     for sp in &speciated {
         let chunk: Vec<(String, String, Vec<f64>)> =
@@ -160,6 +164,7 @@ fn compute_with(src: &Source, titration: bool) -> Result<PlotData, String> {
             continue;
         }
         let k = systems.len();
+        shares_at_ph.extend(sp.species.iter().map(|r| (k, r.name.clone(), r.fraction)));
         ids.push(&sp.system);
         systems.push(SystemInfo {
             name: sp.name.clone(),
@@ -192,6 +197,7 @@ fn compute_with(src: &Source, titration: bool) -> Result<PlotData, String> {
         capacity_mm: curves.capacity.iter().map(|b| b * 1000.0).collect(),
         added_mm,
         titration_ph,
+        shares_at_ph,
     })
 }
 
@@ -225,6 +231,34 @@ impl PlotData {
             Some(sys) if self.systems.len() > 1 => format!("{} ({})", s.name, sys.name),
             _ => s.name.clone(),
         }
+    }
+
+    /// The headline of the plotted composition: the main species' shares at
+    /// the working pH (those of 1 % or more, largest first, at most four) and β.
+    pub fn headline(&self) -> String {
+        let mut main: Vec<&(usize, String, f64)> = self
+            .shares_at_ph
+            .iter()
+            .filter(|(_, _, f)| *f >= 0.01)
+            .collect();
+        solver::order::sort_by(&mut main, |a, b| b.2.total_cmp(&a.2));
+        let shares = main
+            .iter()
+            .take(4)
+            .map(|(k, name, f)| {
+                let name = match self.systems.get(*k) {
+                    Some(sys) if self.systems.len() > 1 => format!("{name} ({})", sys.name),
+                    _ => name.clone(),
+                };
+                format!("{name} {}", crate::widgets::format::fmt_pct(*f))
+            })
+            .collect::<Vec<_>>()
+            .join(" · ");
+        format!(
+            "pH {:.2}: {shares} · β {}",
+            self.ph,
+            crate::widgets::format::fmt_capacity(self.capacity_at_ph)
+        )
     }
 
     /// Total of a series' system, mmol/L.

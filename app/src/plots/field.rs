@@ -5,7 +5,7 @@
 
 use super::data::nice_ceiling;
 use super::draw::{
-    axes, frame_of, legend, line, tick, Axes, DrawResult, Frame, Sc, Swatch, CAPACITY, INK, MUTED,
+    axes, frame_of, legend, line, tick, Axes, DrawResult, Frame, Sc, Swatch, CAPACITY, INK,
 };
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -14,6 +14,35 @@ use plotters::prelude::*;
 pub const LIMIT: RGBColor = RGBColor(0xb4, 0x23, 0x18);
 /// Colour of the curve at the sample temperature.
 pub const CURVE: RGBColor = CAPACITY;
+
+/// The curve 5 °C below the sample: solid, cool blue.
+pub const COLDER: RGBColor = RGBColor(0x2f, 0x5f, 0xb3);
+/// The curve 5 °C above the sample: dashed, warm brown.
+pub const WARMER: RGBColor = RGBColor(0xa8, 0x4b, 0x00);
+/// Grid points per dash of the warmer curve.
+const DASH: usize = 3;
+
+/// Which of the fraction plot's curves a temperature is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum CurveKind {
+    /// The sample's own temperature.
+    Sample,
+    /// Below it.
+    Colder,
+    /// Above it.
+    Warmer,
+}
+
+/// The kind of the curve at `t` for a sample at `sample` °C.
+pub fn curve_kind(t: f64, sample: f64) -> CurveKind {
+    if (t - sample).abs() < 1e-9 {
+        CurveKind::Sample
+    } else if t < sample {
+        CurveKind::Colder
+    } else {
+        CurveKind::Warmer
+    }
+}
 
 /// The fraction plot's data: curves at T−5, T, T+5 °C (those in range), the reading, the limit.
 #[derive(Debug, Clone, PartialEq)]
@@ -81,9 +110,12 @@ pub fn draw_fraction<DB: DrawingBackend>(
     let hi = v.ph.last().copied().unwrap_or(14.0).max(lo + 0.1);
     let mut entries = Vec::new();
     for (t, _) in &v.curves {
-        let main = (t - v.temperature_c).abs() < 1e-9;
-        let c = if main { CURVE } else { MUTED };
-        entries.push((Swatch::Line(c), format!("{} at {} °C", v.species, tick(*t))));
+        let swatch = match curve_kind(*t, v.temperature_c) {
+            CurveKind::Sample => Swatch::Line(CURVE),
+            CurveKind::Colder => Swatch::Line(COLDER),
+            CurveKind::Warmer => Swatch::Dashed(WARMER),
+        };
+        entries.push((swatch, format!("{} at {} °C", v.species, tick(*t))));
     }
     entries.push((
         Swatch::Dot(INK),
@@ -117,22 +149,25 @@ pub fn draw_fraction<DB: DrawingBackend>(
         },
     )?;
     for (t, f) in &v.curves {
-        let main = (t - v.temperature_c).abs() < 1e-9;
-        let style = if main {
-            line(s, CURVE, 3)
-        } else {
-            ShapeStyle {
-                color: MUTED.mix(0.45),
-                filled: false,
-                stroke_width: s.u(2),
-            }
-        };
         let pts: Vec<(f64, f64)> =
             v.ph.iter()
                 .zip(f.iter())
                 .map(|(x, y)| (*x, y.min(top)))
                 .collect();
-        chart.draw_series(LineSeries::new(pts, style))?;
+        match curve_kind(*t, v.temperature_c) {
+            CurveKind::Sample => {
+                chart.draw_series(LineSeries::new(pts, line(s, CURVE, 3)))?;
+            }
+            CurveKind::Colder => {
+                chart.draw_series(LineSeries::new(pts, line(s, COLDER, 2)))?;
+            }
+            CurveKind::Warmer => {
+                // Dashed: every other run of grid points (the grid is dense).
+                for dash in pts.windows(DASH + 1).step_by(2 * DASH) {
+                    chart.draw_series(LineSeries::new(dash.to_vec(), line(s, WARMER, 2)))?;
+                }
+            }
+        }
     }
     if let Some(l) = v.limit_fraction.filter(|l| *l <= top) {
         let n = 40;
@@ -296,6 +331,40 @@ mod tests {
         assert_eq!(rows.len(), 2);
         assert_eq!(rows[1][0], "8.00");
         assert_eq!(rows[1][2], "4.000 %");
+    }
+
+    #[test]
+    fn colder_and_warmer_curves_are_drawn_differently() {
+        assert_eq!(curve_kind(20.0, 20.0), CurveKind::Sample);
+        assert_eq!(curve_kind(15.0, 20.0), CurveKind::Colder);
+        assert_eq!(curve_kind(25.0, 20.0), CurveKind::Warmer);
+        let mut v = view();
+        v.ph = (0..60).map(|i| 6.0 + f64::from(i) * 0.05).collect();
+        v.curves = [15.0, 20.0, 25.0]
+            .iter()
+            .map(|t| {
+                (
+                    *t,
+                    v.ph.iter().map(|p| (p - 6.0) / 4.0 * t / 25.0).collect(),
+                )
+            })
+            .collect();
+        let mut buf = String::new();
+        {
+            let root =
+                plotters_svg::SVGBackend::with_string(&mut buf, (600, 400)).into_drawing_area();
+            draw_fraction(&root, &v, 1.0).unwrap();
+        }
+        let colour = |c: RGBColor| format!("#{:02X}{:02X}{:02X}", c.0, c.1, c.2);
+        let count = |c: RGBColor| buf.matches(&colour(c)).count();
+        assert!(count(COLDER) >= 2, "the colder curve and its legend swatch");
+        // The warmer curve is drawn as many dashes, the colder as one line.
+        assert!(
+            count(WARMER) > count(COLDER) + 3,
+            "{} vs {}",
+            count(WARMER),
+            count(COLDER)
+        );
     }
 
     #[test]

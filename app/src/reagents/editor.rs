@@ -272,7 +272,14 @@ pub fn ReagentEditor(
     let problems = move || checked.with(|c| c.messages.len());
     let steps_full = move || n_steps.get() >= solver::system::MAX_STEPS;
     view! {
-        <div class="rg-overlay" role="dialog" aria-modal="true" aria-label="Reagent editor">
+        <div class="rg-overlay" role="dialog" aria-modal="true" aria-label="Reagent editor"
+            on:keydown=move |ev: leptos::ev::KeyboardEvent| {
+                // Escape closes the editor as "Close" does: what is typed is kept.
+                if ev.key() == "Escape" {
+                    ev.prevent_default();
+                    on_done.run(None);
+                }
+            }>
         <section class="rg-editor" data-testid="reagent-editor">
             <h3>{title}</h3>
             <p class="hint">"Constants you type are yours: the page checks that they make sense, not that they are right. Thermodynamic values (I = 0) only; vendor “apparent” pK at 0.1 M are not."</p>
@@ -412,6 +419,19 @@ pub fn ReagentPanel(
         }
     };
     on_cleanup(keep_typed);
+    on_cleanup(|| crate::designs::side::set_open_reagent(None));
+    // What is typed in the open editor is kept across a reload too (`designs::side`).
+    Effect::new(move |was_open: Option<bool>| {
+        let open = editing
+            .get()
+            .map(|(typed, start)| (typed.get(), start))
+            .filter(|(typed, start)| typed != start);
+        let is_open = open.is_some();
+        if is_open || was_open == Some(true) {
+            crate::designs::side::set_open_reagent(open);
+        }
+        is_open
+    });
     let done = Callback::new(move |sys: Option<String>| {
         if sys.is_none() {
             keep_typed();
@@ -435,6 +455,11 @@ pub fn ReagentPanel(
         })
     };
     let use_one = move |r: Reagent| {
+        if let Some(why) = design.with_untracked(|d| crate::reagents::conflict::use_conflict(d, &r))
+        {
+            notice.set(Some(why));
+            return;
+        }
         let mut sys = String::new();
         design.update(|d| sys = add_to_design(d, &r));
         on_pick.run(sys);
@@ -466,7 +491,8 @@ pub fn ReagentPanel(
                     )));
                 }
                 Err(e) => notice.set(Some(format!(
-                    "“{name}” was refused as a whole, nothing was changed: {e}"
+                    "“{name}” was refused as a whole, nothing was changed: {}.",
+                    crate::reagents::conflict::plain_file_reason(&e)
                 ))),
             }
         });
@@ -477,8 +503,9 @@ pub fn ReagentPanel(
         Err(e) => view! { <p class="notice" data-testid="rg-shelf-error">{e}</p> }.into_any(),
         Ok(s) => {
             let aside = s.set_aside.iter().map(|(id, key, why)| {
-                let where_ = key.clone().map_or_else(|| "left in place".to_string(), |k| format!("kept under {k}"));
-                view! { <p class="notice" data-testid="rg-shelf-aside">{format!("A damaged shelf entry ({id}) was set aside ({where_}): {why}")}</p> }
+                let _ = id;
+                let where_ = if key.is_some() { "kept aside unchanged" } else { "left in place" };
+                view! { <p class="notice" data-testid="rg-shelf-aside">{format!("A damaged entry of your reagent shelf could not be read ({where_}): {why}")}</p> }
             }).collect_view();
             let rows = s.reagents.into_iter().map(|(sid, r)| {
                 let (r1, r2) = (r.clone(), r.clone());

@@ -5,6 +5,7 @@
 //! the solver would not. A reagent goes into the design (`custom_systems`, `custom_forms`), so
 //! it travels with exports and share links; the shelf only makes it easy to reuse.
 
+pub mod conflict;
 pub mod editor;
 pub mod model;
 pub mod shelf;

@@ -15,7 +15,7 @@ use solver::SolverError;
 use std::collections::BTreeMap;
 
 /// The typed text of one dissociation step.
-#[derive(Debug, Clone, PartialEq, Default)]
+#[derive(Debug, Clone, PartialEq, Default, serde::Serialize, serde::Deserialize)]
 pub struct StepText {
     /// pK at 25 °C and I = 0.
     pub pk: String,
@@ -26,7 +26,7 @@ pub struct StepText {
 }
 
 /// The typed text of one shelf form.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct FormText {
     /// Display name (the form's id is made from it).
     pub name: String,
@@ -56,7 +56,7 @@ impl Default for FormText {
 }
 
 /// What the editor makes.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
 pub enum Target {
     /// A new acid system with its forms.
     NewSystem,
@@ -65,7 +65,7 @@ pub enum Target {
 }
 
 /// Everything typed into the editor.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct EditorModel {
     /// What is being made.
     pub target: Target,
@@ -165,8 +165,9 @@ impl EditorModel {
             name: String::new(),
             z0: "0".into(),
             steps: vec![StepText::default()],
-            t_min: "15".into(),
-            t_max: "35".into(),
+            // Covers the recipe's usual 37 °C as well as room temperature.
+            t_min: "10".into(),
+            t_max: "40".into(),
             species: vec![],
             species_edited: vec![],
             forms: vec![FormText::default()],

@@ -216,12 +216,20 @@ pub fn check(text: &str, rule: Rule, factor: f64) -> Result<f64, String> {
 /// A message for the field.
 pub fn check_in(text: &str, rule: Rule, factor: f64, comma_elsewhere: bool) -> Result<f64, String> {
     let v = parse_number_in(text, comma_elsewhere)?;
-    if v < 0.0 {
+    // Only quantities that cannot be negative say so; a rule reaching below
+    // zero (millivolts) judges by its range.
+    if v < 0.0 && rule.min >= 0.0 {
         return Err("Must not be negative.".into());
     }
     let base = v * factor;
-    // A hair of slack so that "5000 mM" is still 5 M after the multiplication.
-    if base < rule.min * (1.0 - 1e-12) || base > rule.max * (1.0 + 1e-12) {
+    // A hair of slack so that "5000 mM" is still 5 M after the multiplication (outward at
+    // either end, also for a negative bound). Written so that a rule without bounds (NaN: a path
+    // the rulebook does not hold) refuses every value.
+    let (lo, hi) = (
+        rule.min - rule.min.abs() * 1e-12,
+        rule.max + rule.max.abs() * 1e-12,
+    );
+    if !(base >= lo && base <= hi) {
         return Err(rule.message.into());
     }
     Ok(base.clamp(rule.min, rule.max))
@@ -345,22 +353,41 @@ pub fn fmt_mg_l(v: f64) -> String {
 }
 
 /// A formula (or a sentence holding formulas) with subscript counts:
-/// `Na2HPO4·7H2O` → `Na₂HPO₄·7H₂O`. A digit is a count when it follows a
-/// letter, a closing bracket or another count; leading coefficients (`7H2O`)
-/// and numbers in prose (`500 mL`, `pH 7.4`) stay as they are.
+/// `Na2HPO4·7H2O` → `Na₂HPO₄·7H₂O`. Only words the solver reads as a chemical formula get
+/// subscripts (a user's name such as `lot A0` stays as typed); in them a digit is a count
+/// when it follows a letter, a closing bracket or another count, so leading coefficients
+/// (`7H2O`) stay as they are, as do numbers in prose (`500 mL`, `pH 7.4`).
 pub fn pretty_formula(text: &str) -> String {
-    const SUB: [char; 10] = ['₀', '₁', '₂', '₃', '₄', '₅', '₆', '₇', '₈', '₉'];
     let mut out = String::with_capacity(text.len() + 8);
-    let mut prev: Option<char> = None;
-    let mut in_count = false;
-    let mut word_has_upper = false;
+    let mut word = String::new();
     for c in text.chars() {
         if c.is_whitespace() {
-            word_has_upper = false;
+            out.push_str(&pretty_word(&word));
+            word.clear();
+            out.push(c);
+        } else {
+            word.push(c);
         }
+    }
+    out.push_str(&pretty_word(&word));
+    out
+}
+
+/// One word of [`pretty_formula`]: subscripts only when it is a formula.
+fn pretty_word(word: &str) -> String {
+    const SUB: [char; 10] = ['₀', '₁', '₂', '₃', '₄', '₅', '₆', '₇', '₈', '₉'];
+    let core = word.trim_end_matches(['.', ',', ';', ':']);
+    if !word.chars().any(|c| c.is_ascii_digit())
+        || solver::system::formula::molar_mass(core).is_err()
+    {
+        return word.to_string();
+    }
+    let mut out = String::with_capacity(word.len() + 8);
+    let mut prev: Option<char> = None;
+    let mut in_count = false;
+    for c in word.chars() {
         let count_here = c.is_ascii_digit()
-            && (in_count
-                || prev.is_some_and(|p| (p.is_ascii_alphabetic() || p == ')') && word_has_upper));
+            && (in_count || prev.is_some_and(|p| p.is_ascii_alphabetic() || p == ')' || p == ']'));
         if count_here {
             let d = c
                 .to_digit(10)
@@ -371,9 +398,6 @@ pub fn pretty_formula(text: &str) -> String {
         } else {
             out.push(c);
             in_count = false;
-        }
-        if c.is_ascii_uppercase() {
-            word_has_upper = true;
         }
         prev = Some(c);
     }
@@ -563,6 +587,11 @@ mod tests {
             "Weigh 733.5 mg of NaH₂PO₄·H₂O at pH 7.40 in 500.0 mL."
         );
         assert_eq!(pretty_formula("mes2 step2"), "mes2 step2");
+        assert_eq!(
+            pretty_formula("Weigh 1.2 g of C7H5NaO2 — lot A0 (K2 batch)."),
+            "Weigh 1.2 g of C₇H₅NaO₂ — lot A0 (K2 batch)."
+        );
+        assert_eq!(pretty_formula("(NH4)2SO4"), "(NH₄)₂SO₄");
     }
 
     #[test]

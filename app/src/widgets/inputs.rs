@@ -1,23 +1,57 @@
-//! Validated input widgets: a number field with inline messages and units, and a segmented choice.
+//! Validated input widgets: the one number field of the page, and a segmented choice.
 //!
-//! A [`NumberField`] keeps the raw text the user typed; the design holds only
-//! the last *valid* value. Valid text is written to the design from the input
-//! handler (never from an effect). When the design is replaced wholesale
-//! (`AppState::load` bumps `revision`), the typed text is forgotten and the
-//! field shows the design's value again.
+//! Every number input of every workspace is a [`NumberField`]: a described field (id, label,
+//! document path and so its limit, unit or unit choice, getter and setter). Focus, strict
+//! parsing (`1,000` refused as ambiguous), the limit, the unit rule (a picker converts) and the
+//! messages beside the field are written here once; the plain rules are in
+//! [`crate::widgets::field`].
+//!
+//! A field keeps the raw text the user typed, with the unit it was typed in; the design holds
+//! only the last *valid* value. Valid text is written to the design from the input handler (never
+//! from an effect). When the design is replaced wholesale (`AppState::load` bumps `revision`), the
+//! typed text is forgotten and the field shows the design's value again.
 
-use crate::state::use_app;
-use crate::widgets::format::{best_unit, check_in, fmt_input, uses_decimal_comma, Rule, Unit};
+use crate::state::{use_app, Parked};
+use crate::widgets::field::{convert_text, limit_for, unit_check, view_units, Plausible, UnitOpt};
+use crate::widgets::format::{
+    best_unit, check_in, fmt_input, parse_number_in, uses_decimal_comma, Unit,
+};
 use leptos::prelude::*;
 use solver::system::library::library;
 use solver::system::thermo::system_pks;
 use solver::system::AcidSystem;
+use wasm_bindgen::JsCast;
 
-/// A labelled number input with optional unit picker and an inline message.
+/// A unit that is part of the design (a field total's unit, an alkalinity's, a limit's): the
+/// options with their factors to a common base, the design's unit key, and the setter that
+/// receives a new unit with the value converted into it.
+#[derive(Debug, Clone, Copy)]
+pub struct StoredUnits {
+    /// The units the value may be in.
+    pub options: Signal<Vec<UnitOpt>>,
+    /// The design's unit key.
+    pub key: Signal<String>,
+    /// Receives (new unit key, the same amount in that unit).
+    pub on_unit: Callback<(String, f64)>,
+}
+
+/// The id of the focused element, with its selection when it is a text input.
+fn focused() -> Option<(String, u32, u32)> {
+    let el = web_sys::window()?.document()?.active_element()?;
+    let id = el.id();
+    let input = el.dyn_into::<web_sys::HtmlInputElement>().ok()?;
+    let a = input.selection_start().ok().flatten().unwrap_or(0);
+    let b = input.selection_end().ok().flatten().unwrap_or(a);
+    Some((id, a, b))
+}
+
+/// The one number field: a labelled input with its unit (fixed, a display choice, or a unit
+/// stored in the design) and the message beside it.
 ///
-/// The message is the parser's (empty, not a number, negative, out of range)
-/// or, when the text is valid, `error` (a solver message for this field).
-/// The message element carries `data-testid="error-<id>"`.
+/// The message is the parser's (empty, not a number, ambiguous, negative, out of the path's
+/// limit) or, when the text is valid, `error` (a solver message for this field); a number far
+/// outside `plausible` adds a "check the unit" note. Ids: the message is `error-<id>`, the note
+/// `check-<id>`. A field rebuilt while it has the focus takes the focus and the caret back.
 #[component]
 pub fn NumberField(
     /// DOM id of the input; the message is `error-<id>`.
@@ -26,17 +60,21 @@ pub fn NumberField(
     /// Visible label.
     #[prop(into)]
     label: String,
-    /// Current value in the base unit, read from the design.
+    /// Document path of the value (`recipe.target_ph`, `recipe.salts[].conc_m`): the field's
+    /// limit comes from [`limit_for`], one lookup for the page.
+    path: &'static str,
+    /// Current value, read from the design: in the base unit of `units`, or in the stored unit.
     #[prop(into)]
     value: Signal<f64>,
-    /// Receives each valid value (base unit).
+    /// Receives each valid value (base unit, or the stored unit).
     #[prop(into)]
     on_value: Callback<f64>,
-    /// What the field accepts.
-    rule: Rule,
-    /// Unit choices; empty for a unitless field.
+    /// Display-only unit choices (the design holds the base unit); empty for none.
     #[prop(optional)]
     units: &'static [Unit],
+    /// A unit stored in the design (in place of `units`).
+    #[prop(optional)]
+    stored: Option<StoredUnits>,
     /// Fixed unit text after the input (when there is no unit choice).
     #[prop(optional, into)]
     suffix: Option<String>,
@@ -51,36 +89,97 @@ pub fn NumberField(
     /// follow every passing keystroke.
     #[prop(optional, into)]
     on_commit: Option<Callback<f64>>,
+    /// Where numbers usually lie (base unit): outside, a "check the unit" note.
+    #[prop(optional)]
+    plausible: Option<Plausible>,
 ) -> impl IntoView {
     let app = use_app();
     let rev = app.revision;
-    let unit = RwSignal::new(best_unit(units, value.get_untracked()));
-    let factor = move |i: usize| units.get(i).map_or(1.0, |u| u.factor);
-    // Text typed by the user, tagged with the revision it was typed against.
-    // Text typed before a tab switch comes back from the page state.
-    let typed: RwSignal<Option<(u64, String)>> =
-        RwSignal::new(app.take_parked(&id).map(|t| (rev.get_untracked(), t)));
-    let text = Memo::new(move |_| match typed.get() {
-        Some((r, t)) if r == rev.get() => t,
-        _ => fmt_input(value.get() / factor(unit.get())),
-    });
     let comma = app.decimal_comma;
-    let parsed = Memo::new(move |_| check_in(&text.get(), rule, factor(unit.get()), comma.get()));
+    let rule = limit_for(path);
+    let is_stored = stored.is_some();
+    let parked = app.take_parked(&id);
+    let view_opts = view_units(units);
+    let first_unit = parked
+        .as_ref()
+        .filter(|p| view_opts.iter().any(|o| o.key == p.unit))
+        .map(|p| p.unit.clone())
+        .or_else(|| {
+            view_opts
+                .get(best_unit(units, value.get_untracked()))
+                .map(|o| o.key.clone())
+        })
+        .unwrap_or_default();
+    let local_unit = RwSignal::new(first_unit);
+    let options: Signal<Vec<UnitOpt>> = match stored {
+        Some(s) => s.options,
+        None => Signal::stored(view_opts),
+    };
+    let unit_key = Signal::derive(move || match stored {
+        Some(s) => s.key.get(),
+        None => local_unit.get(),
+    });
+    let factor_of = move |key: &str| {
+        options
+            .try_with_untracked(|o| o.iter().find(|u| u.key == key).map(|u| u.factor))
+            .flatten()
+            .unwrap_or(1.0)
+    };
+    // Shown number × scale = the design's value: the unit's factor for a
+    // display choice, 1 for a stored unit (the design holds the shown unit).
+    let scale = move |key: &str| if is_stored { 1.0 } else { factor_of(key) };
+    // Text typed by the user: (revision, unit key, text). Text typed before a
+    // tab switch or a rebuild comes back from the page state, in its unit.
+    let typed: RwSignal<Option<(u64, String, String)>> =
+        RwSignal::new(parked.map(|p| (rev.get_untracked(), p.unit, p.text)));
+    let text = Memo::new(move |_| {
+        let key = unit_key.get();
+        match typed.get() {
+            Some((r, u, t)) if r == rev.get() && u == key => t,
+            _ => fmt_input(
+                value.get()
+                    / options.with(|o| {
+                        if is_stored {
+                            1.0
+                        } else {
+                            o.iter().find(|u| u.key == key).map_or(1.0, |u| u.factor)
+                        }
+                    }),
+            ),
+        }
+    });
+    let parsed = Memo::new(move |_| {
+        let key = unit_key.get();
+        check_in(&text.get(), rule, scale(&key), comma.get())
+    });
     let message = move || match parsed.get() {
         Err(m) => Some(m),
         Ok(_) => error.and_then(|e| e.get()),
     };
     let invalid = move || message().is_some();
     let readonly = move || app.view.with(|v| v.readonly);
+    let unit_note = move || {
+        let p = plausible?;
+        parsed.get().ok()?;
+        let shown = parse_number_in(&text.get(), comma.get()).ok()?;
+        let key = unit_key.get();
+        options.with(|o| {
+            let i = o.iter().position(|u| u.key == key)?;
+            unit_check(shown, i, o, p)
+        })
+    };
 
     let accept = {
         let id = id.clone();
-        move |t: String, i: usize| {
-            if uses_decimal_comma(&t) && !comma.get_untracked() {
+        move |t: String, key: String| {
+            let Some(c) = comma.try_get_untracked() else {
+                return;
+            };
+            if uses_decimal_comma(&t) && !c {
                 comma.set(true);
             }
-            let result = check_in(&t, rule, factor(i), comma.get_untracked());
-            typed.set(Some((rev.get_untracked(), t)));
+            let result = check_in(&t, rule, scale(&key), comma.get_untracked());
+            typed.set(Some((rev.get_untracked(), key, t)));
             app.mark_field(&id, result.is_ok());
             if let Ok(v) = result {
                 on_value.run(v);
@@ -89,49 +188,105 @@ pub fn NumberField(
     };
     let on_input = {
         let accept = accept.clone();
-        move |ev: leptos::ev::Event| accept(event_target_value(&ev), unit.get_untracked())
-    };
-    let on_change = move |_ev: leptos::ev::Event| {
-        if let (Some(cb), Ok(v)) = (on_commit, parsed.get_untracked()) {
-            cb.run(v);
-        }
-    };
-    // One rule for every unit picker: picking a unit converts the quantity on
-    // screen (500 mL -> 0.5 L), whether it was typed or not; the amount never
-    // changes by picking a unit. Text that is not a number yet stays as typed.
-    let on_unit = {
-        let accept = accept.clone();
         move |ev: leptos::ev::Event| {
-            let i: usize = event_target_value(&ev).parse().unwrap_or(0);
-            let old = unit.get_untracked();
-            let current = text.get_untracked();
-            let shown = check_in(&current, rule, factor(old), comma.get_untracked());
-            unit.set(i);
-            match shown {
-                Ok(base) => {
-                    typed.set(None);
-                    accept(fmt_input(base / factor(i)), i);
-                }
-                Err(_) => accept(current, i),
+            if let Some(key) = unit_key.try_get_untracked() {
+                accept(event_target_value(&ev), key);
             }
         }
     };
+    let on_change = move |_ev: leptos::ev::Event| {
+        if let (Some(cb), Some(Ok(v))) = (on_commit, parsed.try_get_untracked()) {
+            cb.run(v);
+        }
+    };
+    // The unit rule, for every unit picker: picking a unit converts the
+    // number on screen (500 mL -> 0.5 L), typed or not; the amount never
+    // changes by picking a unit. Text that is not a number stays as typed.
+    let on_unit = {
+        let accept = accept.clone();
+        let id = id.clone();
+        move |ev: leptos::ev::Event| {
+            let new = event_target_value(&ev);
+            let (Some(old), Some(current), Some(c)) = (
+                unit_key.try_get_untracked(),
+                text.try_get_untracked(),
+                comma.try_get_untracked(),
+            ) else {
+                return;
+            };
+            let (from, to) = (factor_of(&old), factor_of(&new));
+            let number = parse_number_in(&current, c).ok();
+            match stored {
+                None => {
+                    local_unit.set(new.clone());
+                    if check_in(&current, rule, scale(&old), c).is_ok() {
+                        // The design holds this amount: show it in the new unit, exactly.
+                        typed.set(None);
+                        app.mark_field(&id, true);
+                    } else {
+                        accept(convert_text(&current, c, from, to).unwrap_or(current), new);
+                    }
+                }
+                Some(s) => {
+                    // The design's value and unit change together, to the same amount,
+                    // at full precision (the box shows it to six figures).
+                    let amount = number.unwrap_or_else(|| value.get_untracked()) * from / to;
+                    let ok = number.is_some() && check_in(&fmt_input(amount), rule, 1.0, c).is_ok();
+                    typed.set(
+                        number
+                            .is_none()
+                            .then(|| (rev.get_untracked(), new.clone(), current)),
+                    );
+                    app.mark_field(&id, ok);
+                    s.on_unit.run((new, amount));
+                }
+            }
+        }
+    };
+    let node = NodeRef::<leptos::html::Input>::new();
+    {
+        // A field rebuilt while it had the focus takes it back with the caret.
+        let id = id.clone();
+        Effect::new(move |_| {
+            let Some(el) = node.get() else { return };
+            let mine = app
+                .refocus
+                .try_get_value()
+                .flatten()
+                .filter(|(r, _, _)| *r == id);
+            if let Some((_, a, b)) = mine {
+                app.refocus.set_value(None);
+                let _ = el.focus();
+                let _ = el.set_selection_range(a, b);
+            }
+        });
+    }
     {
         // A field that goes away takes its typed text with it, unless only
-        // its tab went off screen: then the text is parked for its return.
+        // its tab went off screen or it is being rebuilt: then the text is
+        // parked, with its unit, for its return.
         let id = id.clone();
         on_cleanup(move || {
             let t = typed
                 .try_get_untracked()
                 .flatten()
-                .filter(|(r, _)| rev.try_get_untracked() == Some(*r))
-                .map(|(_, t)| t);
+                .filter(|(r, _, _)| rev.try_get_untracked() == Some(*r))
+                .map(|(_, unit, text)| Parked { text, unit });
+            if let Some(f) = focused().filter(|f| f.0 == id) {
+                app.refocus.try_set_value(Some(f));
+                let refocus = app.refocus;
+                set_timeout(
+                    move || drop(refocus.try_set_value(None)),
+                    std::time::Duration::ZERO,
+                );
+            }
             app.field_gone(&id, t);
         });
     }
 
     let msg_id = format!("error-{id}");
     let hint_id = format!("hint-{id}");
+    let check_id = format!("check-{id}");
     let described = {
         let msg_id = msg_id.clone();
         let hint_id = hint_id.clone();
@@ -147,22 +302,23 @@ pub fn NumberField(
             (!parts.is_empty()).then(|| parts.join(" "))
         }
     };
-    let unit_picker = (!units.is_empty()).then(|| {
+    let has_units = !units.is_empty() || is_stored;
+    let unit_picker = has_units.then(|| {
         let unit_label = format!("{label}: unit");
         view! {
             <select class="unit" aria-label=unit_label disabled=readonly on:change=on_unit
-                prop:value=move || unit.get().to_string()>
-                {units
-                    .iter()
-                    .enumerate()
-                    .map(|(i, u)| {
-                        view! {
-                            <option value=i.to_string() selected=move || unit.get() == i>
-                                {u.label}
-                            </option>
-                        }
-                    })
-                    .collect_view()}
+                prop:value=move || unit_key.get()>
+                {move || {
+                    let cur = unit_key.get();
+                    options
+                        .get()
+                        .into_iter()
+                        .map(|u| {
+                            let sel = u.key == cur;
+                            view! { <option value=u.key selected=sel>{u.label}</option> }
+                        })
+                        .collect_view()
+                }}
             </select>
         }
     });
@@ -176,6 +332,7 @@ pub fn NumberField(
             <div class="field-row">
                 <input
                     id=id
+                    node_ref=node
                     type="text"
                     inputmode="decimal"
                     autocomplete="off"
@@ -199,6 +356,10 @@ pub fn NumberField(
                             </p>
                         }
                     })
+            }}
+            {move || {
+                unit_note()
+                    .map(|m| view! { <p class="hint unit-check" data-testid=check_id.clone() role="status">{m}</p> })
             }}
         </div>
     }

@@ -3,8 +3,11 @@
 
 pub mod answer;
 pub mod cautions;
+pub mod field;
 pub mod format;
 pub mod inputs;
+mod roundtrip;
+pub mod rows;
 pub mod uncertainty;
 
 #[cfg(test)]

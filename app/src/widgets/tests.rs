@@ -3,6 +3,7 @@
 //! page's number check and from the solver reading a design that holds the value.
 
 use crate::widgets::format::check;
+use solver::atmosphere::Atmosphere;
 use solver::document::{demo_design, parse_design_value, Design};
 use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
 use solver::field::limit::{Limit as UserLimit, LimitUnit};
@@ -11,8 +12,53 @@ use solver::limits::{self, Limit};
 use solver::mixture::{Additive, AdditiveSpec};
 use solver::recipe::Method;
 
-/// Puts `v` into the field a limit names, in a design that is otherwise the demo.
+/// A design whose recipe, mixture and field hold carbonate under a gas (the invented
+/// incubator example), for the limits of [`limits::GAS`].
+fn gassed_design() -> Design {
+    solver::document::parse_design(include_str!("../../../solver/examples/incubator.json"))
+        .expect("the incubator example reads")
+}
+
+/// Puts `v` into the atmosphere field a gas limit names, in the incubator example.
+fn gas_design_with(limit: &Limit, v: f64) -> Design {
+    let mut d = gassed_design();
+    let (part, key) = limit.path.rsplit_once('.').unwrap_or_default();
+    let slot = match part {
+        "recipe.atmosphere" => &mut d.recipe.atmosphere,
+        "mixture.atmosphere" => &mut d.mixture.atmosphere,
+        "field.atmosphere" => &mut d.field.atmosphere,
+        "what_if" => {
+            match key {
+                "room_co2_uatm" => d.what_if.room_co2_uatm = Some(v),
+                "co2_percent" => d.what_if.co2_percent = Some(v),
+                other => panic!("no way to set what_if.{other} in the test: add it"),
+            }
+            return d;
+        }
+        other => panic!("no way to set {other} in the test: add it"),
+    };
+    let a = slot.get_or_insert(Atmosphere::percent(5.0));
+    match key {
+        "co2_percent" => {
+            a.co2_percent = Some(v);
+            a.co2_uatm = None;
+        }
+        "co2_uatm" => {
+            a.co2_uatm = Some(v);
+            a.co2_percent = None;
+        }
+        "pressure_kpa" => a.pressure_kpa = Some(v),
+        other => panic!("no way to set atmosphere.{other} in the test: add it"),
+    }
+    d
+}
+
+/// Puts `v` into the field a limit names, in a design that is otherwise the demo (the
+/// incubator example for a gas limit).
 fn design_with(limit: &Limit, v: f64) -> Design {
+    if limits::GAS.contains(limit) {
+        return gas_design_with(limit, v);
+    }
     let mut d = demo_design();
     let (r, m, w, f, u) = (
         &mut d.recipe,
@@ -101,14 +147,14 @@ fn edges(l: &Limit) -> [f64; 4] {
 #[test]
 fn the_page_and_the_solver_give_each_edge_value_the_same_verdict() {
     let mut checked = 0;
-    for l in limits::ALL {
+    for l in limits::ALL.iter().chain(limits::GAS) {
         // Also bounded by the chosen system's own data, which only the solver knows.
         if l.path == limits::PREPARE_TEMPERATURE_C.path {
             continue;
         }
         assert!(
             parse_design_value(serde_json::to_value(design_with(l, l.min)).unwrap()).is_ok(),
-            "{}: the demo with the minimum should be valid",
+            "{}: the demo (or the incubator example) with the minimum should be valid",
             l.path
         );
         for v in edges(l) {
@@ -134,5 +180,5 @@ fn the_page_and_the_solver_give_each_edge_value_the_same_verdict() {
             checked += 1;
         }
     }
-    assert!(checked >= 4 * 30, "only {checked} values checked");
+    assert!(checked >= 4 * 40, "only {checked} values checked");
 }

@@ -6,7 +6,7 @@
 //! `design.uncertainty` through [`NumberField`].
 
 use crate::state::use_app;
-use crate::widgets::format::{error_message, fmt_sig, Rule};
+use crate::widgets::format::{error_message, fmt_sig};
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField};
 use leptos::prelude::*;
 use solver::field::{FieldResult, FieldSpec};
@@ -259,13 +259,6 @@ pub fn FieldFractionU(
     }
 }
 
-/// Ranges of the user's figures: the solver's rulebook, as `UncertaintyInputs::validate` reads it.
-const BALANCE: Rule = solver::limits::U_BALANCE_MG;
-const FLASK: Rule = solver::limits::U_FLASK_ML;
-const TEMP_PM: Rule = solver::limits::U_TEMPERATURE_K;
-const PERCENT: Rule = solver::limits::U_STOCK_PERCENT;
-const METER: Rule = solver::limits::U_PH_METER;
-
 /// The user's own ± figures (balance, flask, thermometer, stocks, pH meter),
 /// written into `design.uncertainty`; folded in a `<details class="more">`.
 /// Suggestions come from the solver's defaults and class A tables.
@@ -300,7 +293,7 @@ pub fn UncertaintyFields(
                     hint=format!("Common practice: ± {} mg for a top-loading balance; an analytical balance reads to 0.1 mg.", defaults.balance_mg)
                     value=Signal::derive(move || u.with(|x| x.balance_mg))
                     on_value=Callback::new(move |v| set(Box::new(move |x: &mut UncertaintyInputs| x.balance_mg = v)))
-                    rule=BALANCE
+                    path="uncertainty.balance_mg"
                     suffix="± mg"
                 />
                 <NumberField
@@ -309,7 +302,7 @@ pub fn UncertaintyFields(
                     hint=format!("Common practice: ± {} K for a lab thermometer.", defaults.temperature_k)
                     value=Signal::derive(move || u.with(|x| x.temperature_k))
                     on_value=Callback::new(move |v| set(Box::new(move |x: &mut UncertaintyInputs| x.temperature_k = v)))
-                    rule=TEMP_PM
+                    path="uncertainty.temperature_k"
                     suffix="± K"
                 />
             </div>
@@ -335,7 +328,7 @@ pub fn UncertaintyFields(
                     label="Your flask"
                     value=Signal::derive(move || u.with(|x| x.flask_ml.unwrap_or_else(|| suggested.get())))
                     on_value=Callback::new(move |v| set(Box::new(move |x: &mut UncertaintyInputs| x.flask_ml = Some(v))))
-                    rule=FLASK
+                    path="uncertainty.flask_ml"
                     suffix="± mL"
                 />
             </Show>
@@ -346,7 +339,7 @@ pub fn UncertaintyFields(
                     hint=format!("Estimate: ± {} % for a stock made by weighing; a standardised titrant is better.", defaults.stock_percent)
                     value=Signal::derive(move || u.with(|x| x.stock_percent))
                     on_value=Callback::new(move |v| set(Box::new(move |x: &mut UncertaintyInputs| x.stock_percent = v)))
-                    rule=PERCENT
+                    path="uncertainty.stock_percent"
                     suffix="± %"
                 />
                 <NumberField
@@ -355,7 +348,7 @@ pub fn UncertaintyFields(
                     hint=format!("Common practice: ± {} pH after a two-point calibration (used by the field reading).", defaults.ph_meter)
                     value=Signal::derive(move || u.with(|x| x.ph_meter))
                     on_value=Callback::new(move |v| set(Box::new(move |x: &mut UncertaintyInputs| x.ph_meter = v)))
-                    rule=METER
+                    path="uncertainty.ph_meter"
                     suffix="± pH"
                 />
             </div>

@@ -6,26 +6,28 @@
 //! parts (alkalinity, the user's limit, warnings, the plot, a day's log)
 //! live in the submodules.
 
-mod extras;
+pub(crate) mod extras;
 mod log;
 mod log_data;
+mod log_keep;
 mod plot;
 
 use crate::state::use_app;
 use crate::widgets::cautions::{cautions_for, corrosive_only_if, CautionPanel};
+use crate::widgets::field::UnitOpt;
 use crate::widgets::format::{
     error_field, error_message, fmt_conc, fmt_input, fmt_mg_l, fmt_pct, fmt_ph, fmt_sig,
-    CONDUCTIVITY, FIELD_TOTAL, IONIC, PH, TDS, TEMPERATURE,
 };
-use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
+use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, StoredUnits, SystemPicker};
 use extras::{
     fit_to_system, other_bases_text, AlkalinityInputs, CarbonateFacts, FieldWarnings, LimitInputs,
-    LimitVerdict, SALINITY,
+    LimitVerdict,
 };
 use leptos::prelude::*;
 use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
 use solver::field::{
-    field_reading, reporting_basis, target_species, FieldResult, FieldSpec, IonicSource, TotalUnit,
+    field_reading, reporting_basis, target_species, total_to_molar, FieldResult, FieldSpec,
+    IonicSource, TotalUnit,
 };
 use solver::mixture::lookup;
 use solver::SolverError;
@@ -54,20 +56,118 @@ fn ionic_key(i: &IonicSource) -> &'static str {
     }
 }
 
-fn total_key(spec: &FieldSpec) -> &'static str {
+/// Whether the reading has a total, an alkalinity in its place, or neither.
+fn total_kind(spec: &FieldSpec) -> &'static str {
     if spec.alkalinity.is_some() {
-        return "alk";
+        "alk"
+    } else if spec.total.is_some() {
+        "measured"
+    } else {
+        "none"
     }
-    match (spec.total, spec.total_unit) {
-        (None, _) => "none",
-        (Some(_), TotalUnit::MgPerLAs) => "mg",
-        (Some(_), TotalUnit::MmolPerL) => "mmol",
-        (Some(_), TotalUnit::UmolPerL) => "umol",
-        (Some(_), TotalUnit::MgPerLNh3) => "mg_nh3",
-        (Some(_), TotalUnit::MgPerLH2s) => "mg_h2s",
-        (Some(_), TotalUnit::MgPerLCaco3) => "mg_caco3",
-        (Some(_), TotalUnit::MgPerLCo2) => "mg_co2",
+}
+
+/// The key of a total unit in the total's unit picker.
+pub fn total_unit_key(u: TotalUnit) -> &'static str {
+    match u {
+        TotalUnit::MgPerLAs => "mg",
+        TotalUnit::MmolPerL => "mmol",
+        TotalUnit::UmolPerL => "umol",
+        TotalUnit::MgPerLNh3 => "mg_nh3",
+        TotalUnit::MgPerLH2s => "mg_h2s",
+        TotalUnit::MgPerLCaco3 => "mg_caco3",
+        TotalUnit::MgPerLCo2 => "mg_co2",
     }
+}
+
+/// The total unit of a picker key (mg/L as the basis for an unknown key).
+pub fn total_unit_from_key(k: &str) -> TotalUnit {
+    match k {
+        "mmol" => TotalUnit::MmolPerL,
+        "umol" => TotalUnit::UmolPerL,
+        k => EXTRA_TOTAL_UNITS
+            .iter()
+            .find(|(key, _)| *key == k)
+            .map_or(TotalUnit::MgPerLAs, |(_, u)| *u),
+    }
+}
+
+/// The units a total of `system` may be in, each with its factor to mol/L
+/// (the solver's `total_to_molar`), so that picking one converts the total.
+pub fn total_units(system: &str) -> Vec<UnitOpt> {
+    let factor = |u: TotalUnit| total_to_molar(system, 1.0, u).unwrap_or(f64::NAN);
+    let basis = reporting_basis(system).0;
+    let mut v = Vec::new();
+    if basis != "mmol" {
+        v.push(UnitOpt::new(
+            "mg",
+            format!("mg/L as {basis}"),
+            factor(TotalUnit::MgPerLAs),
+        ));
+    }
+    for (k, u, label) in extra_total_units(system) {
+        v.push(UnitOpt::new(k, format!("mg/L as {label}"), factor(u)));
+    }
+    v.push(UnitOpt::new("mmol", "mmol/L", factor(TotalUnit::MmolPerL)));
+    v.push(UnitOpt::new("umol", "µmol/L", factor(TotalUnit::UmolPerL)));
+    v
+}
+
+/// The total choice: `none` (not measured), `measured` (the total comes
+/// back as it was last, in its unit), or `alk` (an alkalinity in its place).
+/// `last_total` keeps a total that is put away.
+pub fn set_total_kind(f: &mut FieldSpec, k: &str, last_total: &mut f64) {
+    if let Some(t) = f.total {
+        *last_total = t;
+    }
+    if k != "alk" {
+        f.alkalinity = None;
+    }
+    match k {
+        "none" => f.total = None,
+        "alk" => {
+            f.total = None;
+            f.alkalinity.get_or_insert(Alkalinity {
+                value: 100.0,
+                unit: AlkalinityUnit::MgPerLCaco3,
+            });
+        }
+        _ => f.total = Some(f.total.unwrap_or(*last_total)),
+    }
+}
+
+/// Another system is picked: a total or alkalinity measured for the old one
+/// is not a total of the new one (120 mg/L as CaCO₃ is not 120 mg/L as Cl₂),
+/// so it is taken away, and the sentence that says so is returned.
+pub fn change_system(f: &mut FieldSpec, id: &str, old_name: &str) -> Option<String> {
+    if f.system == id {
+        return None;
+    }
+    let had = match (f.total, f.alkalinity) {
+        (_, Some(a)) => Some(format!(
+            "an alkalinity of {} {}",
+            fmt_input(a.value),
+            match a.unit {
+                AlkalinityUnit::MeqPerL => "meq/L",
+                AlkalinityUnit::MgPerLCaco3 => "mg/L as CaCO₃",
+            }
+        )),
+        (Some(t), None) => {
+            let unit = total_units(&f.system)
+                .into_iter()
+                .find(|u| u.key == total_unit_key(f.total_unit))
+                .map_or_else(String::new, |u| u.label);
+            Some(format!("a total of {} {unit}", fmt_input(t)))
+        }
+        (None, None) => None,
+    };
+    f.system = id.to_string();
+    f.total = None;
+    f.alkalinity = None;
+    fit_to_system(f);
+    had.map(|h| {
+        format!("The reading had {h} for {old_name}: a total is measured for one substance, so enter this water's total for the new system.")
+    })
 }
 
 /// The extra mg/L bases a total may be typed in, per system: (choice key, unit).
@@ -123,62 +223,42 @@ pub fn FieldWorkspace() -> impl IntoView {
             })
         })
     };
+    let total_notice: RwSignal<Option<String>> = RwSignal::new(None);
     let set_system = move |id: String| {
-        design.update(|d| {
-            d.field.system = id;
-            fit_to_system(&mut d.field);
-        })
+        let old = result.with_untracked(|r| {
+            r.as_ref().map_or_else(
+                |_| spec.with_untracked(|s| s.system.clone()),
+                |r| r.system_name.clone(),
+            )
+        });
+        let mut note = None;
+        design.update(|d| note = change_system(&mut d.field, &id, &old));
+        total_notice.set(note);
     };
+    let system = Memo::new(move |_| spec.with(|s| s.system.clone()));
+    let kind = Memo::new(move |_| spec.with(total_kind));
+    let t_units = Memo::new(move |_| total_units(&system.get()));
+    let t_unit = Memo::new(move |_| spec.with(|s| total_unit_key(s.total_unit).to_string()));
+    let ionic_kind = Memo::new(move |_| spec.with(|s| ionic_key(&s.ionic)));
     let other_system =
         Memo::new(move |_| spec.with(|s| !QUICK.iter().any(|(id, _)| *id == s.system)));
-    let basis = Memo::new(move |_| spec.with(|s| reporting_basis(&s.system).0.to_string()));
 
     let total_options = move || {
-        let b = basis.get();
-        let mut v = vec![ChoiceOption::new("none", "Not measured")];
-        if b != "mmol" {
-            v.push(ChoiceOption::new("mg", format!("mg/L as {b}")));
-        }
-        for (k, _, label) in spec.with(|s| extra_total_units(&s.system)) {
-            v.push(ChoiceOption::new(k, format!("mg/L as {label}")));
-        }
-        v.push(ChoiceOption::new("mmol", "mmol/L"));
-        v.push(ChoiceOption::new("umol", "µmol/L"));
-        if spec.with(|s| s.system == "carbonate") {
+        let mut v = vec![
+            ChoiceOption::new("none", "Not measured"),
+            ChoiceOption::new("measured", "Measured"),
+        ];
+        if system.get() == "carbonate" {
             v.push(ChoiceOption::new("alk", "Alkalinity instead"));
         }
         v
     };
-    let on_total_unit = Callback::new(move |k: String| {
+    let on_total_kind = Callback::new(move |k: String| {
+        total_notice.set(None);
         design.update(|d| {
-            let f = &mut d.field;
-            if let Some(t) = f.total {
-                last_total.set_value(t);
-            }
-            if k != "alk" {
-                f.alkalinity = None;
-            }
-            match k.as_str() {
-                "none" => f.total = None,
-                "alk" => {
-                    f.total = None;
-                    f.alkalinity.get_or_insert(Alkalinity {
-                        value: 100.0,
-                        unit: AlkalinityUnit::MgPerLCaco3,
-                    });
-                }
-                other => {
-                    f.total = Some(f.total.unwrap_or_else(|| last_total.get_value()));
-                    f.total_unit = match other {
-                        "mmol" => TotalUnit::MmolPerL,
-                        "umol" => TotalUnit::UmolPerL,
-                        k => EXTRA_TOTAL_UNITS
-                            .iter()
-                            .find(|(key, _)| *key == k)
-                            .map_or(TotalUnit::MgPerLAs, |(_, u)| *u),
-                    };
-                }
-            }
+            let mut last = last_total.get_value();
+            set_total_kind(&mut d.field, &k, &mut last);
+            last_total.set_value(last);
         })
     });
     let on_ionic_kind = Callback::new(move |k: String| {
@@ -195,20 +275,15 @@ pub fn FieldWorkspace() -> impl IntoView {
         })
     });
     let ionic_field = move || {
-        let kind = spec.with(|s| ionic_key(&s.ionic));
-        let (label, rule, suffix) = match kind {
-            "direct" => ("Ionic strength", IONIC, "mol/L"),
-            "conductivity" => ("Conductivity", CONDUCTIVITY, "µS/cm"),
-            "tds" => ("Total dissolved solids", TDS, "mg/L"),
-            "salinity" => ("Salinity", SALINITY, "PSU"),
+        let kind = ionic_kind.get();
+        let (label, suffix, doc_path) = match kind {
+            "direct" => ("Ionic strength", "mol/L", "field.ionic.ionic_strength"),
+            "conductivity" => ("Conductivity", "µS/cm", "field.ionic.us_cm"),
+            "tds" => ("Total dissolved solids", "mg/L", "field.ionic.mg_l"),
+            "salinity" => ("Salinity", "PSU", "field.ionic.psu"),
             _ => return None,
         };
-        let path = match kind {
-            "direct" => "ionic.ionic_strength",
-            "conductivity" => "ionic.us_cm",
-            "salinity" => "ionic.psu",
-            _ => "ionic.mg_l",
-        };
+        let path = doc_path.trim_start_matches("field.");
         Some(view! {
             <NumberField
                 id=format!("field-ionic-{kind}-value")
@@ -231,7 +306,7 @@ pub fn FieldWorkspace() -> impl IntoView {
                         IonicSource::Zero => {}
                     })
                 })
-                rule=rule
+                path=doc_path
                 suffix=suffix
                 error=err_for(path)
             />
@@ -312,7 +387,7 @@ pub fn FieldWorkspace() -> impl IntoView {
                             label="Measured pH"
                             value=Signal::derive(move || spec.with(|s| s.ph))
                             on_value=Callback::new(move |v| design.update(|d| d.field.ph = v))
-                            rule=PH
+                            path="field.ph"
                             error=err_for("ph")
                         />
                         <NumberField
@@ -320,7 +395,7 @@ pub fn FieldWorkspace() -> impl IntoView {
                             label="Sample temperature"
                             value=Signal::derive(move || spec.with(|s| s.temperature_c))
                             on_value=Callback::new(move |v| design.update(|d| d.field.temperature_c = v))
-                            rule=TEMPERATURE
+                            path="field.temperature_c"
                             suffix="°C"
                             error=err_for("temperature_c")
                         />
@@ -329,38 +404,35 @@ pub fn FieldWorkspace() -> impl IntoView {
                         let opts = total_options();
                         view! {
                             <Choice
-                                name="field-total-unit"
+                                name="field-total-kind"
                                 legend="Total concentration (optional)"
                                 options=opts
-                                selected=Signal::derive(move || spec.with(|s| total_key(s).to_string()))
-                                on_change=on_total_unit
+                                selected=Signal::derive(move || kind.get().to_string())
+                                on_change=on_total_kind
                             />
                         }
                     }}
-                    {move || {
-                        let key = spec.with(total_key);
-                        (key != "none" && key != "alk")
-                            .then(|| {
-                                let suffix = match key {
-                                    "mmol" => "mmol/L".to_string(),
-                                    "umol" => "µmol/L".to_string(),
-                                    "mg" => format!("mg/L as {}", basis.get()),
-                                    _ => spec.with(|s| s.total_unit.fixed_basis())
-                                        .map_or_else(|| format!("mg/L as {}", basis.get()), |(_, l, _)| format!("mg/L as {l}")),
-                                };
-                                view! {
-                                    <NumberField
-                                        id="field-total"
-                                        label="Total"
-                                        value=Signal::derive(move || spec.with(|s| s.total.unwrap_or(0.0)))
-                                        on_value=Callback::new(move |v| design.update(|d| d.field.total = Some(v)))
-                                        rule=FIELD_TOTAL
-                                        suffix=suffix
-                                        error=err_for("total")
-                                    />
-                                }
-                            })
-                    }}
+                    {move || total_notice.get().map(|n| view! {
+                        <p class="notice" data-testid="field-total-notice" role="status">{n}</p>
+                    })}
+                    {move || (kind.get() == "measured").then(|| view! {
+                        <NumberField
+                            id="field-total"
+                            label="Total"
+                            path="field.total"
+                            value=Signal::derive(move || spec.with(|s| s.total.unwrap_or(0.0)))
+                            on_value=Callback::new(move |v| design.update(|d| d.field.total = Some(v)))
+                            stored=StoredUnits {
+                                options: t_units.into(),
+                                key: t_unit.into(),
+                                on_unit: Callback::new(move |(k, v): (String, f64)| design.update(|d| {
+                                    d.field.total_unit = total_unit_from_key(&k);
+                                    d.field.total = Some(v);
+                                })),
+                            }
+                            error=err_for("total")
+                        />
+                    })}
                     <Choice
                         name="field-ionic"
                         legend="Ionic strength from"

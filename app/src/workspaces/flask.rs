@@ -8,9 +8,10 @@ use crate::state::use_app;
 use crate::widgets::cautions::{cautions_for_many, corrosive_only_if, CautionPanel};
 use crate::widgets::format::{
     error_field, error_message, fmt_capacity, fmt_conc, fmt_dph, fmt_pct, fmt_ph, pretty_formula,
-    AMOUNT, CONC_UNITS, DILUTION, TEMPERATURE,
+    CONC_UNITS,
 };
 use crate::widgets::inputs::{all_systems, system_label, Choice, ChoiceOption, NumberField};
+use crate::widgets::rows;
 use leptos::prelude::*;
 use solver::document::PlotSource;
 use solver::equilibrium::activity::ActivityModel;
@@ -22,6 +23,28 @@ use solver::mixture::{
 use solver::system::library::find_form;
 use solver::system::{AcidSystem, ReagentForm};
 use solver::SolverError;
+
+/// Prefix of the buffer component rows' field ids (`mixture-comp-<key>-conc`).
+const COMP_PREFIX: &str = "mixture-comp-";
+/// Prefix of the acid/base/salt rows' field ids (`mixture-add-<key>-conc`).
+const ADD_PREFIX: &str = "mixture-add-";
+
+/// The solver's message for `field` of row `pos` of `list` (`components[1].conc_m`).
+fn row_error(
+    result: Memo<Result<MixtureResult, SolverError>>,
+    pos: Memo<Option<usize>>,
+    list: &'static str,
+    field: &'static str,
+) -> Signal<Option<String>> {
+    Signal::derive(move || {
+        let i = pos.get()?;
+        let path = format!("{list}[{i}].{field}");
+        result.with(|r| match r {
+            Err(e) if error_field(e).as_deref() == Some(path.as_str()) => Some(error_message(e)),
+            _ => None,
+        })
+    })
+}
 
 /// Value of the "as the free acid" form option.
 const FREE: &str = "__free";
@@ -98,14 +121,15 @@ pub fn FlaskWorkspace() -> impl IntoView {
     let pending_wi = Memo::new(move |_| !app.pending_in("whatif-").is_empty());
     let n_comp = Memo::new(move |_| spec.with(|s| s.components.len()));
     let n_add = Memo::new(move |_| spec.with(|s| s.additives.len()));
+    // Rows are keyed by a stable id, never by position (see `widgets::rows`).
+    let comp_keys = rows::keyed(COMP_PREFIX, n_comp, app.rows, app.revision);
+    let add_keys = rows::keyed(ADD_PREFIX, n_add, app.rows, app.revision);
     let readonly = move || app.view.with(|v| v.readonly);
 
-    let err_for = move |path: String| -> Signal<Option<String>> {
+    let err_for = move |path: &'static str| -> Signal<Option<String>> {
         Signal::derive(move || {
             result.with(|r| match r {
-                Err(e) if error_field(e).as_deref() == Some(path.as_str()) => {
-                    Some(error_message(e))
-                }
+                Err(e) if error_field(e).as_deref() == Some(path) => Some(error_message(e)),
                 _ => None,
             })
         })
@@ -163,12 +187,9 @@ pub fn FlaskWorkspace() -> impl IntoView {
                 <h2 class="card-title">"In the flask"</h2>
                 <h3 id="mixture-components-title">"Buffer components"</h3>
                 <div class="rows" role="group" aria-labelledby="mixture-components-title">
-                    {move || {
-                        let n = n_comp.get();
-                        (0..n)
-                            .map(|i| view! { <ComponentRow i=i spec=spec custom=custom err_for=err_for /> })
-                            .collect_view()
-                    }}
+                    <rows::KeyedRows keys=comp_keys row=Callback::new(move |k| view! {
+                        <ComponentRow row=k pos=rows::position(comp_keys, k) spec=spec custom=custom result=result />
+                    }.into_any()) />
                     {move || {
                         (n_comp.get() == 0)
                             .then(|| view! { <p class="hint">"No buffer components yet."</p> })
@@ -187,12 +208,9 @@ pub fn FlaskWorkspace() -> impl IntoView {
                 })}
                 <h3 id="mixture-additives-title">"Strong acids, bases and salts"</h3>
                 <div class="rows" role="group" aria-labelledby="mixture-additives-title">
-                    {move || {
-                        let n = n_add.get();
-                        (0..n)
-                            .map(|i| view! { <AdditiveRow i=i spec=spec err_for=err_for /> })
-                            .collect_view()
-                    }}
+                    <rows::KeyedRows keys=add_keys row=Callback::new(move |k| view! {
+                        <AdditiveRow row=k pos=rows::position(add_keys, k) spec=spec result=result />
+                    }.into_any()) />
                 </div>
                 <button type="button" class="btn secondary" data-testid="mixture-add-additive"
                     disabled=readonly on:click=add_additive>
@@ -204,9 +222,9 @@ pub fn FlaskWorkspace() -> impl IntoView {
                         label="Temperature"
                         value=Signal::derive(move || spec.with(|s| s.temperature_c))
                         on_value=Callback::new(move |v| design.update(|d| d.mixture.temperature_c = v))
-                        rule=TEMPERATURE
+                        path="mixture.temperature_c"
                         suffix="°C"
-                        error=err_for("temperature_c".into())
+                        error=err_for("temperature_c")
                     />
                     <Choice
                         name="mixture-activity"
@@ -245,25 +263,33 @@ pub fn FlaskWorkspace() -> impl IntoView {
 }
 
 /// One buffer component row: system, form (or free acid), concentration, remove.
+/// `row` is its stable key (its field ids), `pos` where it is now.
 #[component]
-fn ComponentRow<F>(
-    i: usize,
+fn ComponentRow(
+    row: u64,
+    pos: Memo<Option<usize>>,
     spec: Memo<MixtureSpec>,
     custom: Memo<Vec<AcidSystem>>,
-    err_for: F,
-) -> impl IntoView
-where
-    F: Fn(String) -> Signal<Option<String>> + Copy + 'static,
-{
+    result: Memo<Result<MixtureResult, SolverError>>,
+) -> impl IntoView {
     let app = use_app();
     let design = app.design;
     let readonly = move || app.view.with(|v| v.readonly);
-    let row = move || spec.with(|s| s.components.get(i).cloned());
-    let system = move || row().map(|c| c.system).unwrap_or_default();
+    let comp = move || spec.with(|s| pos.get().and_then(|i| s.components.get(i).cloned()));
+    let system = move || comp().map(|c| c.system).unwrap_or_default();
     let form = move || {
-        row()
+        comp()
             .and_then(|c| c.form)
             .unwrap_or_else(|| FREE.to_string())
+    };
+    let edit = move |f: Box<dyn FnOnce(&mut ComponentSpec)>| {
+        if let Some(i) = pos.get_untracked() {
+            design.update(|d| {
+                if let Some(c) = d.mixture.components.get_mut(i) {
+                    f(c);
+                }
+            });
+        }
     };
     let t = move || spec.with(|s| s.temperature_c);
     let systems = Memo::new(move |_| custom.with(|c| all_systems(c)));
@@ -290,25 +316,23 @@ where
                 .unwrap_or_default()
         })
     });
-    let sys_id = format!("mixture-comp-{i}-system");
-    let form_id = format!("mixture-comp-{i}-form");
-    let remove_label = format!("Remove buffer component {}", i + 1);
+    let n = move || pos.get().map_or(0, |i| i + 1);
+    let sys_id = format!("{COMP_PREFIX}{row}-system");
+    let form_id = format!("{COMP_PREFIX}{row}-form");
     view! {
-        <div class="row-card" data-testid=format!("mixture-comp-{i}")>
+        <div class="row-card" data-testid=format!("{COMP_PREFIX}{row}")>
             <div class="field">
-                <label for=sys_id.clone()>{format!("Component {} system", i + 1)}</label>
+                <label for=sys_id.clone()>{move || format!("Component {} system", n())}</label>
                 <select
                     id=sys_id
                     disabled=readonly
                     prop:value=system
                     on:change=move |ev| {
                         let v = event_target_value(&ev);
-                        design.update(|d| {
-                            if let Some(c) = d.mixture.components.get_mut(i) {
-                                c.system = v;
-                                c.form = None;
-                            }
-                        });
+                        edit(Box::new(move |c: &mut ComponentSpec| {
+                            c.system = v;
+                            c.form = None;
+                        }));
                     }
                 >
                     {move || {
@@ -337,11 +361,9 @@ where
                     prop:value=form
                     on:change=move |ev| {
                         let v = event_target_value(&ev);
-                        design.update(|d| {
-                            if let Some(c) = d.mixture.components.get_mut(i) {
-                                c.form = if v == FREE { None } else { Some(v) };
-                            }
-                        });
+                        edit(Box::new(move |c: &mut ComponentSpec| {
+                            c.form = if v == FREE { None } else { Some(v) };
+                        }));
                     }
                 >
                     {move || {
@@ -358,42 +380,40 @@ where
                 </select>
             </div>
             <RowEnd
-                prefix="mixture-comp-"
-                i=i
-                remove_label=remove_label
-                value=Signal::derive(move || row().map_or(0.0, |c| c.conc_m))
-                on_value=Callback::new(move |v| {
-                    design.update(|d| {
-                        if let Some(c) = d.mixture.components.get_mut(i) {
-                            c.conc_m = v;
-                        }
-                    })
-                })
-                on_remove=Callback::new(move |()| {
+                prefix=COMP_PREFIX
+                row=row
+                pos=pos
+                path="mixture.components[].conc_m"
+                remove_label=Signal::derive(move || format!("Remove buffer component {}", n()))
+                value=Signal::derive(move || comp().map_or(0.0, |c| c.conc_m))
+                on_value=Callback::new(move |v| edit(Box::new(move |c: &mut ComponentSpec| c.conc_m = v)))
+                on_remove=Callback::new(move |i: usize| {
                     design.update(|d| {
                         if i < d.mixture.components.len() {
                             d.mixture.components.remove(i);
                         }
                     })
                 })
-                error=err_for(format!("components[{i}].conc_m"))
+                error=row_error(result, pos, "components", "conc_m")
             />
         </div>
     }
 }
 
-/// The end of a flask row: its concentration and its remove button, shared by
-/// buffer components and acid/base/salt rows. Ids are `{prefix}{i}-conc` and
-/// `{prefix}{i}-remove`; removing a row renumbers the typed text of the rows
-/// after it (see `AppState::rows_removed`).
+/// The end of a row: its concentration and its remove button, shared by the
+/// flask's rows and the recipe's salts. Ids are `{prefix}{row}-conc` and
+/// `{prefix}{row}-remove` with the row's stable key; removing the row takes
+/// its key with it (see `widgets::rows`), so no other row inherits its text or unit.
 #[component]
 pub(crate) fn RowEnd(
     prefix: &'static str,
-    i: usize,
-    remove_label: String,
+    row: u64,
+    pos: Memo<Option<usize>>,
+    path: &'static str,
+    remove_label: Signal<String>,
     value: Signal<f64>,
     on_value: Callback<f64>,
-    on_remove: Callback<()>,
+    on_remove: Callback<usize>,
     error: Signal<Option<String>>,
 ) -> impl IntoView {
     let app = use_app();
@@ -401,11 +421,11 @@ pub(crate) fn RowEnd(
     view! {
         <div class="row-end">
             <NumberField
-                id=format!("{prefix}{i}-conc")
+                id=format!("{prefix}{row}-conc")
                 label="Concentration"
+                path=path
                 value=value
                 on_value=on_value
-                rule=AMOUNT
                 units=CONC_UNITS
                 error=error
             />
@@ -413,11 +433,13 @@ pub(crate) fn RowEnd(
                 type="button"
                 class="btn icon"
                 aria-label=remove_label
-                data-testid=format!("{prefix}{i}-remove")
+                data-testid=format!("{prefix}{row}-remove")
                 disabled=readonly
                 on:click=move |_| {
-                    app.rows_removed(prefix, i);
-                    on_remove.run(());
+                    if let Some(i) = pos.get_untracked() {
+                        app.rows.update_value(|r| r.removed(prefix, i));
+                        on_remove.run(i);
+                    }
                 }
             >
                 "✕"
@@ -426,34 +448,41 @@ pub(crate) fn RowEnd(
     }
 }
 
-/// One strong acid / base / salt row.
+/// One strong acid / base / salt row (`row` its stable key, `pos` where it is now).
 #[component]
-fn AdditiveRow<F>(i: usize, spec: Memo<MixtureSpec>, err_for: F) -> impl IntoView
-where
-    F: Fn(String) -> Signal<Option<String>> + Copy + 'static,
-{
+fn AdditiveRow(
+    row: u64,
+    pos: Memo<Option<usize>>,
+    spec: Memo<MixtureSpec>,
+    result: Memo<Result<MixtureResult, SolverError>>,
+) -> impl IntoView {
     let app = use_app();
     let design = app.design;
     let readonly = move || app.view.with(|v| v.readonly);
-    let row = move || spec.with(|s| s.additives.get(i).copied());
-    let key = move || row().map_or("nacl", |a| additive_key(a.additive));
-    let sel_id = format!("mixture-add-{i}-kind");
-    let remove_label = format!("Remove acid, base or salt {}", i + 1);
+    let item = move || spec.with(|s| pos.get().and_then(|i| s.additives.get(i).copied()));
+    let key = move || item().map_or("nacl", |a| additive_key(a.additive));
+    let edit = move |f: Box<dyn FnOnce(&mut AdditiveSpec)>| {
+        if let Some(i) = pos.get_untracked() {
+            design.update(|d| {
+                if let Some(x) = d.mixture.additives.get_mut(i) {
+                    f(x);
+                }
+            });
+        }
+    };
+    let n = move || pos.get().map_or(0, |i| i + 1);
+    let sel_id = format!("{ADD_PREFIX}{row}-kind");
     view! {
-        <div class="row-card" data-testid=format!("mixture-add-{i}")>
+        <div class="row-card" data-testid=format!("{ADD_PREFIX}{row}")>
             <div class="field">
-                <label for=sel_id.clone()>{format!("Addition {}", i + 1)}</label>
+                <label for=sel_id.clone()>{move || format!("Addition {}", n())}</label>
                 <select
                     id=sel_id
                     disabled=readonly
                     prop:value=key
                     on:change=move |ev| {
                         let a = additive_from_key(&event_target_value(&ev));
-                        design.update(|d| {
-                            if let Some(x) = d.mixture.additives.get_mut(i) {
-                                x.additive = a;
-                            }
-                        });
+                        edit(Box::new(move |x: &mut AdditiveSpec| x.additive = a));
                     }
                 >
                     {Additive::ALL
@@ -466,25 +495,21 @@ where
                 </select>
             </div>
             <RowEnd
-                prefix="mixture-add-"
-                i=i
-                remove_label=remove_label
-                value=Signal::derive(move || row().map_or(0.0, |a| a.conc_m))
-                on_value=Callback::new(move |v| {
-                    design.update(|d| {
-                        if let Some(x) = d.mixture.additives.get_mut(i) {
-                            x.conc_m = v;
-                        }
-                    })
-                })
-                on_remove=Callback::new(move |()| {
+                prefix=ADD_PREFIX
+                row=row
+                pos=pos
+                path="mixture.additives[].conc_m"
+                remove_label=Signal::derive(move || format!("Remove acid, base or salt {}", n()))
+                value=Signal::derive(move || item().map_or(0.0, |a| a.conc_m))
+                on_value=Callback::new(move |v| edit(Box::new(move |x: &mut AdditiveSpec| x.conc_m = v)))
+                on_remove=Callback::new(move |i: usize| {
                     design.update(|d| {
                         if i < d.mixture.additives.len() {
                             d.mixture.additives.remove(i);
                         }
                     })
                 })
-                error=err_for(format!("additives[{i}].conc_m"))
+                error=row_error(result, pos, "additives", "conc_m")
             />
         </div>
     }
@@ -685,7 +710,7 @@ fn WhatIfPanel(
                         label="Dilute by a factor of"
                         value=Signal::derive(move || wi.get().dilution_factor)
                         on_value=Callback::new(move |v| design.update(|d| d.what_if.dilution_factor = v))
-                        rule=DILUTION
+                        path="what_if.dilution_factor"
                         suffix="×"
                     />
                     {outcome(0, "whatif-dilution-result")}
@@ -696,7 +721,7 @@ fn WhatIfPanel(
                         label="Add strong acid (HCl)"
                         value=Signal::derive(move || wi.get().add_acid_m)
                         on_value=Callback::new(move |v| design.update(|d| d.what_if.add_acid_m = v))
-                        rule=AMOUNT
+                        path="what_if.add_acid_m"
                         units=CONC_UNITS
                     />
                     {outcome(1, "whatif-acid-result")}
@@ -707,7 +732,7 @@ fn WhatIfPanel(
                         label="Add strong base (NaOH)"
                         value=Signal::derive(move || wi.get().add_base_m)
                         on_value=Callback::new(move |v| design.update(|d| d.what_if.add_base_m = v))
-                        rule=AMOUNT
+                        path="what_if.add_base_m"
                         units=CONC_UNITS
                     />
                     {outcome(2, "whatif-base-result")}
@@ -718,7 +743,7 @@ fn WhatIfPanel(
                         label="Change temperature to"
                         value=Signal::derive(move || wi.get().temperature_c)
                         on_value=Callback::new(move |v| design.update(|d| d.what_if.temperature_c = v))
-                        rule=TEMPERATURE
+                        path="what_if.temperature_c"
                         suffix="°C"
                     />
                     {outcome(3, "whatif-temp-result")}

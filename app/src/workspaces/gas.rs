@@ -3,7 +3,7 @@
 use crate::plots::canvas::{CanvasArea, PlotCanvas};
 use crate::plots::co2::{co2_summary, draw_co2, Co2View};
 use crate::state::use_app;
-use crate::widgets::format::{error_field, error_message, fmt_dph, fmt_ph, Rule};
+use crate::widgets::format::{error_field, error_message, fmt_dph, fmt_ph};
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField};
 use leptos::prelude::*;
 use solver::atmosphere::field::FieldGas;
@@ -13,13 +13,32 @@ use solver::mixture::MixtureSpec;
 use solver::system::AcidSystem;
 use solver::SolverError;
 
-const PERCENT: Rule = solver::limits::CO2_PERCENT;
-const UATM: Rule = solver::limits::CO2_UATM;
-const KPA: Rule = solver::limits::PRESSURE_KPA;
 /// The other CO₂ percentage tried when the design names none.
 const OTHER_PERCENT: f64 = 10.0;
 /// The plot's highest CO₂ %.
 const CURVE_MAX: f64 = 20.0;
+
+/// The document paths of a workspace's atmosphere (CO₂ %, CO₂ µatm, total pressure): the
+/// fields' limits come from the rulebook by these paths (`solver::limits::GAS`).
+fn gas_paths(prefix: &str) -> (&'static str, &'static str, &'static str) {
+    match prefix {
+        "recipe" => (
+            "recipe.atmosphere.co2_percent",
+            "recipe.atmosphere.co2_uatm",
+            "recipe.atmosphere.pressure_kpa",
+        ),
+        "field" => (
+            "field.atmosphere.co2_percent",
+            "field.atmosphere.co2_uatm",
+            "field.atmosphere.pressure_kpa",
+        ),
+        _ => (
+            "mixture.atmosphere.co2_percent",
+            "mixture.atmosphere.co2_uatm",
+            "mixture.atmosphere.pressure_kpa",
+        ),
+    }
+}
 
 fn kind_of(a: Option<Atmosphere>) -> &'static str {
     match a {
@@ -89,14 +108,15 @@ pub fn GasInput(
     };
     // Rebuilt only when the kind changes, so typing in a field keeps its text.
     let kind = Memo::new(move |_| kind_of(value.get()));
+    let (percent_path, uatm_path, kpa_path) = gas_paths(prefix);
     let fields = move || {
         let k = kind.get();
         (k != "closed").then(|| {
             let uatm = k == "uatm";
-            let (label, rule, suffix, testid_suffix) = if uatm {
-                ("CO₂ partial pressure", UATM, "µatm", "co2_uatm")
+            let (label, co2_path, suffix, testid_suffix) = if uatm {
+                ("CO₂ partial pressure", uatm_path, "µatm", "co2_uatm")
             } else {
-                ("CO₂ (% of the dry gas, humidified)", PERCENT, "%", "co2_percent")
+                ("CO₂ (% of the dry gas, humidified)", percent_path, "%", "co2_percent")
             };
             let shown = Signal::derive(move || {
                 value
@@ -115,7 +135,7 @@ pub fn GasInput(
                         label=label
                         value=shown
                         on_value=on_co2
-                        rule=rule
+                        path=co2_path
                         suffix=suffix
                         error=msg_for(testid_suffix)
                     />
@@ -124,7 +144,7 @@ pub fn GasInput(
                         label="Total pressure"
                         value=Signal::derive(move || value.get().and_then(|a| a.pressure_kpa).unwrap_or(STANDARD_KPA))
                         on_value=set(|a, v| a.pressure_kpa = (v != STANDARD_KPA).then_some(v))
-                        rule=KPA
+                        path=kpa_path
                         suffix="kPa"
                         error=msg_for("pressure_kpa")
                     />
@@ -266,7 +286,7 @@ pub fn GasPanel(
                                 label="In room air"
                                 value=Signal::derive(move || wi.get().room_co2_uatm.unwrap_or(solver::atmosphere::ROOM_AIR_UATM))
                                 on_value=Callback::new(move |v| design.update(|d| d.what_if.room_co2_uatm = Some(v)))
-                                rule=UATM
+                                path="what_if.room_co2_uatm"
                                 suffix="µatm"
                             />
                             <p class="whatif-out" data-testid=format!("{prefix}-gas-room-result")>{line(true)}</p>
@@ -277,7 +297,7 @@ pub fn GasPanel(
                                 label="At another CO₂"
                                 value=Signal::derive(move || wi.get().co2_percent.unwrap_or(OTHER_PERCENT))
                                 on_value=Callback::new(move |v| design.update(|d| d.what_if.co2_percent = Some(v)))
-                                rule=PERCENT
+                                path="what_if.co2_percent"
                                 suffix="%"
                             />
                             <p class="whatif-out" data-testid=format!("{prefix}-gas-other-result")>{line(false)}</p>

@@ -226,7 +226,21 @@ pub fn SpeciesWorkspace() -> impl IntoView {
         })
     };
 
+    // The headline answer, kept in view on a phone as the other workspaces' are.
+    let answer = Signal::derive(move || {
+        if stale.get() {
+            return (
+                false,
+                "Correct the marked fields to see the species.".to_string(),
+            );
+        }
+        plot.with(|d| match d {
+            Ok(d) => (true, d.headline()),
+            Err(e) => (false, format!("No plot: {e}")),
+        })
+    });
     view! {
+        <crate::widgets::answer::AnswerBar text=Signal::derive(move || answer.get().1) ok=Signal::derive(move || answer.get().0) />
         <div class="species-ws">
             <h2 class="card-title">"Species and capacity"</h2>
             <div class="plot-controls">

@@ -13,8 +13,8 @@
 //! free CO₂ over K₀; the CO₂ it would gain (positive) or lose (negative) is
 //! the change of dissolved inorganic carbon, as mg/L of CO₂.
 
-use super::{gas_at, no_carbonate, GasState, CARBONATE};
 use crate::equilibrium::activity::ActivityModel;
+use crate::equilibrium::gas::{gas_at, no_carbonate, validate, GasState, CARBONATE};
 use crate::equilibrium::{open::system_total, solve_at_ionic_strength, Acid, Composition};
 use crate::error::{Result, SolverError};
 use crate::field::carbonate::carbonate_from_alkalinity;
@@ -55,7 +55,7 @@ pub fn validate_field_gas(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<()>
     let Some(a) = &spec.atmosphere else {
         return Ok(());
     };
-    super::validate(a)?;
+    validate(a)?;
     if lookup(&spec.system, custom)?.id != CARBONATE {
         return Err(no_carbonate("atmosphere"));
     }

@@ -12,4 +12,8 @@
 pub mod field;
 pub mod what_if;
 
-pub use crate::equilibrium::gas::*;
+pub use crate::equilibrium::gas::{
+    equilibrium_uatm, gas_at, hold_by_gas, k0_weiss, no_carbonate, validate, vapour_pressure_atm,
+    Atmosphere, GasState, CARBONATE, PRESSURE_MAX_KPA, PRESSURE_MIN_KPA, ROOM_AIR_UATM,
+    STANDARD_KPA, T_MAX_C, T_MIN_C,
+};

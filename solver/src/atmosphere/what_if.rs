@@ -1,6 +1,6 @@
 //! What-ifs under a gas: the same solution in room air or at another CO₂ percentage, and pH against CO₂ %.
 
-use super::{Atmosphere, ROOM_AIR_UATM};
+use crate::equilibrium::gas::{Atmosphere, ROOM_AIR_UATM};
 use crate::equilibrium::solve_hinted;
 use crate::error::{in_range, Result, SolverError};
 use crate::mixture::{prepare, MixtureSpec, WhatIf};

@@ -6,24 +6,25 @@
 //! bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]
 //! bufferwright self-check [--json|--csv]
 //! bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]
+//! bufferwright calibrate --temp T --point STANDARD=MV ... [--sample-mv MV] [--json]   (see solver::meter)
 //! ```
 //!
 //! Prints JSON by default (every part of the design: recipe, mixture,
 //! what-if, field reading, curves); `--table` prints a readable summary.
 //! `--demo` prints the demo design document instead of reading one.
 //! `--co2` puts a CO₂ atmosphere over every workspace of the design that holds
-//! carbonate (`solver::document::gas::with_co2`; refused when none does).
+//! carbonate (`solver::document::report::with_co2`; refused when none does).
 //! `self-check` runs the reference cases of `solver::selfcheck` (exit 1 if any fails);
 //! `uncertainty` prints the uncertainty budgets of a design (`solver::uncertainty`).
 //! Exit codes: 0 success, 1 unreadable or invalid document, 2 usage.
 
 use solver::document::{demo_design, parse_design, report, to_json_pretty, Report};
 use solver::fmt::{format_mass, format_volume_ml, sig, sig_trim};
-use solver::recipe::METER_NOTE;
+use solver::recipe::{MeterSolution, METER_NOTE};
 use std::io::Read;
 use std::process::ExitCode;
 
-const USAGE: &str = "usage: bufferwright [--table] [--demo] [--co2 5%|420uatm] [FILE|-]\n       bufferwright log --system ID [options] FILE.csv|-\n       bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]\n       bufferwright self-check [--json|--csv]\n       bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]";
+const USAGE: &str = "usage: bufferwright [--table] [--demo] [--co2 5%|420uatm] [FILE|-]\n       bufferwright log --system ID [options] FILE.csv|-\n       bufferwright grid --system ID --ph A:B:S --temp A:B:S [options]\n       bufferwright self-check [--json|--csv]\n       bufferwright uncertainty [--table] [--inputs FILE] [FILE|-]\n       bufferwright calibrate --temp T --point STANDARD=MV ... [--sample-mv MV] [--json]";
 
 fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
@@ -31,6 +32,7 @@ fn main() -> ExitCode {
     match args.first().map(String::as_str) {
         Some("log") => return emit(solver::cli::log_command(rest, &mut read_limited)),
         Some("grid") => return emit(solver::cli::grid_command(rest)),
+        Some("calibrate") => return emit(solver::meter::calibrate_command(rest)),
         _ => {}
     }
     if args.first().map(String::as_str) == Some("self-check") {
@@ -115,7 +117,7 @@ fn main() -> ExitCode {
     };
     if let Some(v) = co2 {
         use solver::cli::co2::parse_co2;
-        use solver::document::gas::with_co2;
+        use solver::document::report::with_co2;
         match parse_co2(&v).and_then(|a| with_co2(&design, &a)) {
             Ok((d, changed)) => {
                 eprintln!("CO₂ atmosphere put over: {}", changed.join(", "));
@@ -195,16 +197,24 @@ fn render_table(r: &Report) -> String {
                 sig(rec.equilibrium.ionic_strength, 3),
                 sig(rec.equilibrium.capacity * 1000.0, 3)
             ));
+            let of = match rec.meter.solution {
+                MeterSolution::WorkingBuffer => "",
+                MeterSolution::Concentrate => " (the concentrate)",
+                MeterSolution::DilutedPortion => " (a portion diluted to working strength)",
+            };
             out.push_str(&format!(
-                "  meter reads       pH {:.2} at {} °C\n",
+                "  meter reads       pH {:.2} at {} °C{of}\n",
                 rec.meter.ph,
                 sig(rec.meter.temperature_c, 3)
             ));
             if let Some(c) = &rec.concentrate {
+                let ph = c.ph.map_or_else(
+                    || "pH not predicted (past the activity model)".to_string(),
+                    |p| format!("pH {p:.2}"),
+                );
                 out.push_str(&format!(
-                    "  concentrate {:>4}×  pH {:.2}, ionic strength {} M\n",
+                    "  concentrate {:>4}×  {ph}, ionic strength {} M\n",
                     sig_trim(c.factor, 3),
-                    c.ph,
                     sig(c.ionic_strength, 3)
                 ));
             }

@@ -6,7 +6,7 @@
 
 use super::docpath;
 use crate::document::reagent::{systems_with_forms, validate_custom_forms, validate_user_system};
-use crate::error::{in_range, Result, SolverError};
+use crate::error::{Result, SolverError};
 use crate::field::FieldSpec;
 use crate::limits;
 use crate::mixture::{lookup, MixtureSpec, WhatIf};
@@ -35,6 +35,8 @@ pub enum Workspace {
     Species,
     /// Field reading.
     Field,
+    /// The pH meter bench (standards, calibration check, sample from mV).
+    Meter,
 }
 
 /// Which composition the species plots show.
@@ -84,6 +86,10 @@ pub struct Design {
     /// The user's ± figures for the uncertainty budgets (optional; omitted when default).
     #[serde(default, skip_serializing_if = "UncertaintyInputs::is_default")]
     pub uncertainty: UncertaintyInputs,
+    /// The pH meter calibration (optional; omitted when absent, so older
+    /// documents read and write unchanged). See `solver::meter`.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub calibration: Option<crate::meter::CalibrationSpec>,
 }
 
 impl Design {
@@ -107,7 +113,7 @@ fn doc_err(field: &str, reason: impl Into<String>) -> SolverError {
 /// Each version adds one arm here that rewrites the JSON value from `n` to
 /// `n + 1`, and a test with stored version-`n` documents
 /// (`solver/tests/data/schema1/`, `solver/tests/migration.rs`).
-fn migrate(mut value: serde_json::Value) -> Result<serde_json::Value> {
+pub(crate) fn migrate(mut value: serde_json::Value) -> Result<serde_json::Value> {
     let version = value
         .get("schema")
         .and_then(serde_json::Value::as_u64)
@@ -184,6 +190,11 @@ pub fn parse_design_value(value: serde_json::Value) -> Result<Design> {
         ));
     }
     validate_design(&design)?;
+    let mut design = design;
+    // The fit is a record of the inputs: recompute it, never trust it.
+    design.calibration = design
+        .calibration
+        .map(crate::meter::CalibrationSpec::with_fit);
     Ok(design)
 }
 
@@ -215,9 +226,11 @@ pub fn validate_design(d: &Design) -> Result<()> {
     limits::TOTAL_CONC_M.check(r.total_conc_m).map_err(rp)?;
     limits::VOLUME_L.check(r.volume_l).map_err(rp)?;
     limits::TOLERANCE_PH.check(r.tolerance_ph).map_err(rp)?;
+    // The preparation temperature is checked against the system's data range by the
+    // recipe (as the working temperature is), not here: a design whose system changed
+    // under it still opens, and the recipe says why beside the field.
     if let Some(t) = r.prepare_temperature_c {
         limits::PREPARE_TEMPERATURE_C.check(t).map_err(rp)?;
-        in_range("prepare_temperature_c", t, sys.t_min_c, sys.t_max_c).map_err(rp)?;
     }
     limits::CONCENTRATE_FACTOR
         .check(r.concentrate_factor)
@@ -304,8 +317,11 @@ pub fn validate_design(d: &Design) -> Result<()> {
     // Field: system, pH, temperature, total, ionic source, alkalinity, limit.
     let fp = |e| prefixed("field", e);
     crate::field::validate_field(&d.field, custom).map_err(fp)?;
-    super::gas::validate_design_gas(d, custom)?;
+    super::gas::validate_design_gas(&d.recipe, &d.mixture, &d.what_if, &d.field, custom)?;
     d.uncertainty.validate()?;
+    if let Some(c) = &d.calibration {
+        crate::meter::calibration::validate_spec(c)?;
+    }
     Ok(())
 }
 

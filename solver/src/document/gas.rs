@@ -1,11 +1,15 @@
-//! A design's CO₂ atmospheres: their checks when a document is read, their part of the report, and a gas put over a whole design.
+//! A design's CO₂ atmospheres: their checks when a document is read and their part of the
+//! report, over the design's parts (recipe, mixture, what-ifs, field), so the design can call
+//! the checks without this file naming the design; a gas put over a whole design (`--co2`) is
+//! [`super::report::with_co2`].
 
-use super::design::Design;
 use crate::atmosphere::field::{field_gas, validate_field_gas, FieldGas};
 use crate::atmosphere::what_if::{co2_curve, gas_what_if, Co2Curve, GasWhatIf};
 use crate::equilibrium::gas::{gas_at, no_carbonate, validate, Atmosphere, CARBONATE};
 use crate::error::{Result, SolverError};
-use crate::mixture::{lookup, MixtureSpec};
+use crate::field::FieldSpec;
+use crate::mixture::{lookup, MixtureSpec, WhatIf};
+use crate::recipe::RecipeSpec;
 use crate::system::AcidSystem;
 use serde::Serialize;
 
@@ -28,26 +32,32 @@ fn gas_ok(a: &Atmosphere, t_c: f64) -> Result<()> {
 /// The first bad field: a CO₂ percentage outside 0–100, a partial pressure
 /// above the total pressure, an atmosphere over a solution with no
 /// carbonate, a temperature outside the gas constants' range (0–40 °C).
-pub fn validate_design_gas(d: &Design, custom: &[AcidSystem]) -> Result<()> {
-    if let Some(a) = &d.recipe.atmosphere {
+pub fn validate_design_gas(
+    recipe: &RecipeSpec,
+    mixture: &MixtureSpec,
+    what_if: &WhatIf,
+    field: &FieldSpec,
+    custom: &[AcidSystem],
+) -> Result<()> {
+    if let Some(a) = &recipe.atmosphere {
         let rp = under("recipe");
-        gas_ok(a, d.recipe.temperature_c).map_err(&rp)?;
-        if lookup(&d.recipe.system, custom)?.id != CARBONATE {
+        gas_ok(a, recipe.temperature_c).map_err(&rp)?;
+        if lookup(&recipe.system, custom)?.id != CARBONATE {
             return Err(rp(no_carbonate("atmosphere")));
         }
     }
-    if let Some(a) = &d.mixture.atmosphere {
+    if let Some(a) = &mixture.atmosphere {
         let mp = under("mixture");
-        gas_ok(a, d.mixture.temperature_c).map_err(&mp)?;
-        if !has_carbonate(&d.mixture, custom) {
+        gas_ok(a, mixture.temperature_c).map_err(&mp)?;
+        if !has_carbonate(mixture, custom) {
             return Err(mp(no_carbonate("atmosphere")));
         }
     }
-    validate_field_gas(&d.field, custom).map_err(under("field"))?;
-    if let Some(u) = d.what_if.room_co2_uatm {
+    validate_field_gas(field, custom).map_err(under("field"))?;
+    if let Some(u) = what_if.room_co2_uatm {
         crate::limits::ROOM_CO2_UATM.check_path(u)?;
     }
-    if let Some(x) = d.what_if.co2_percent {
+    if let Some(x) = what_if.co2_percent {
         crate::limits::WHAT_IF_CO2_PERCENT.check_path(x)?;
     }
     Ok(())
@@ -94,12 +104,12 @@ pub const CURVE_POINTS: usize = 41;
 pub fn gas_parts(
     m: &MixtureSpec,
     custom: &[AcidSystem],
-    d: &Design,
+    what_if: &WhatIf,
     target: Option<f64>,
 ) -> GasParts {
     let s = |e: SolverError| e.to_string();
     GasParts {
-        what_if: gas_what_if(m, custom, &d.what_if).map_err(s),
+        what_if: gas_what_if(m, custom, what_if).map_err(s),
         curve: co2_curve(m, custom, target, CURVE_MAX_PERCENT, CURVE_POINTS).map_err(s),
     }
 }
@@ -107,19 +117,21 @@ pub fn gas_parts(
 /// The gas part of a report; `recipe_mixture` is the recipe's finished
 /// solution when it solved. `None` when no workspace has an atmosphere.
 pub fn gas_report(
-    d: &Design,
+    recipe: &RecipeSpec,
+    mixture: &MixtureSpec,
+    what_if: &WhatIf,
+    field: &FieldSpec,
     custom: &[AcidSystem],
     recipe_mixture: Option<&MixtureSpec>,
 ) -> Option<GasReport> {
-    let recipe = match (d.recipe.atmosphere, recipe_mixture) {
-        (Some(_), Some(m)) => Some(gas_parts(m, custom, d, Some(d.recipe.target_ph))),
+    let recipe = match (recipe.atmosphere, recipe_mixture) {
+        (Some(_), Some(m)) => Some(gas_parts(m, custom, what_if, Some(recipe.target_ph))),
         _ => None,
     };
-    let mixture = d
-        .mixture
+    let mixture = mixture
         .atmosphere
-        .map(|_| gas_parts(&d.mixture, custom, d, None));
-    let field = match field_gas(&d.field, custom) {
+        .map(|_| gas_parts(mixture, custom, what_if, None));
+    let field = match field_gas(field, custom) {
         Ok(None) => None,
         Ok(Some(f)) => Some(Ok(f)),
         Err(e) => Some(Err(e.to_string())),
@@ -132,50 +144,4 @@ pub fn gas_report(
         mixture,
         field,
     })
-}
-
-/// A design with the gas `a` put over every workspace that holds carbonate
-/// (a carbonate recipe, a mixture listing carbonate, a carbonate field
-/// reading with an alkalinity), keeping a pressure already given there.
-/// Returns the design and the workspaces changed, checked as a document.
-///
-/// # Errors
-///
-/// [`SolverError::Infeasible`] on `--co2` when no workspace holds carbonate
-/// (none is added); the design's own checks with the gas in place.
-pub fn with_co2(d: &Design, a: &Atmosphere) -> Result<(Design, Vec<&'static str>)> {
-    validate(a).map_err(|e| e.map_field(|_| "--co2".into()))?;
-    let systems = d.systems();
-    let custom = &systems;
-    let mut out = d.clone();
-    let mut changed = Vec::new();
-    let put = |slot: &mut Option<Atmosphere>| {
-        let pressure_kpa = slot.and_then(|s| s.pressure_kpa);
-        *slot = Some(Atmosphere { pressure_kpa, ..*a });
-    };
-    if lookup(&d.recipe.system, custom).is_ok_and(|s| s.id == CARBONATE) {
-        put(&mut out.recipe.atmosphere);
-        changed.push("recipe");
-    }
-    if has_carbonate(&d.mixture, custom) {
-        put(&mut out.mixture.atmosphere);
-        changed.push("mixture");
-    }
-    if d.field.alkalinity.is_some()
-        && lookup(&d.field.system, custom).is_ok_and(|s| s.id == CARBONATE)
-    {
-        put(&mut out.field.atmosphere);
-        changed.push("field");
-    }
-    if changed.is_empty() {
-        return Err(SolverError::Infeasible {
-            field: "--co2".into(),
-            reason: "no workspace of this design holds carbonate (a carbonate recipe, carbonate \
-                     in the mixture, a carbonate field reading with an alkalinity), so a CO₂ \
-                     atmosphere changes nothing and none is added"
-                .into(),
-        });
-    }
-    super::design::validate_design(&out)?;
-    Ok((out, changed))
 }

@@ -9,9 +9,10 @@
 use crate::error::{Result, SolverError};
 use crate::fmt::{clip, quote, QUOTE_MAX};
 use crate::mixture::lookup;
+use crate::system::formula::element_count;
 use crate::system::library::{counter_charge, find_system};
 use crate::system::thermo::validate_system;
-use crate::system::{AcidSystem, CustomForm, ReagentForm, Step, TempModel};
+use crate::system::{AcidSystem, CustomForm, Ion, ReagentForm, Step, TempModel};
 use serde::{Deserialize, Serialize};
 
 /// Version of the standalone reagent file ([`ReagentFile::bufferwright_reagent`]).
@@ -49,16 +50,114 @@ fn check_form_charges(sys: &AcidSystem, from: usize) -> Result<()> {
     Ok(())
 }
 
+/// Each form from index `from` on must declare the spectator ions its formula holds: as
+/// many Na⁺ and K⁺ per formula unit as the formula has Na and K atoms (a sodium salt
+/// declared without its Na⁺ would be taken for the free acid), and no more Cl⁻ than the
+/// formula has Cl atoms (a system's own species may hold chlorine, as HOCl does, so
+/// fewer is allowed). A formula that cannot be read is left to [`validate_system`].
+fn check_form_formulas(sys: &AcidSystem, from: usize) -> Result<()> {
+    for (j, form) in sys.forms.iter().enumerate().skip(from) {
+        for ion in Ion::ALL {
+            let element = ion_element(ion);
+            let Ok(atoms) = element_count(&form.formula, element) else {
+                continue;
+            };
+            let declared: f64 = form
+                .counter_ions
+                .iter()
+                .filter(|(i, _)| *i == ion)
+                .fold(0.0, |sum, &(_, n)| sum + n);
+            let fits = match ion {
+                Ion::Cl => declared <= atoms + 1e-9,
+                Ion::Na | Ion::K => (declared - atoms).abs() <= 1e-9,
+            };
+            if !fits {
+                let formula = quote(&form.formula);
+                let symbol = ion.symbol();
+                return Err(SolverError::Document {
+                    field: format!("system.forms[{j}].counter_ions"),
+                    reason: if atoms > declared {
+                        format!(
+                            "the formula {formula} holds {atoms} {element} per formula unit, \
+                             but the counter-ions declare {declared} {symbol}: declare \
+                             {atoms} {symbol} (a salt of the system), or correct the formula"
+                        )
+                    } else {
+                        format!(
+                            "the counter-ions declare {declared} {symbol} per formula unit, \
+                             but the formula {formula} holds {atoms} {element}: correct \
+                             the counter-ions or the formula"
+                        )
+                    },
+                });
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Longest name a user's system or form may have, characters.
+pub const NAME_MAX: usize = 80;
+
+/// A user's name: at most [`NAME_MAX`] characters.
+fn check_name(field: String, name: &str) -> Result<()> {
+    let n = name.chars().count();
+    if n > NAME_MAX {
+        return Err(SolverError::Document {
+            field,
+            reason: format!("the name is {n} characters long: at most {NAME_MAX}"),
+        });
+    }
+    Ok(())
+}
+
+/// A user's system is named by its own name: not too long, and not the name of a library
+/// system (it would print as that system).
+fn check_system_name(sys: &AcidSystem) -> Result<()> {
+    check_name("system.name".into(), &sys.name)?;
+    let name = sys.name.trim();
+    if let Some(lib) = crate::system::library::library()
+        .iter()
+        .find(|l| l.id != sys.id && l.name.trim().eq_ignore_ascii_case(name))
+    {
+        return Err(SolverError::Document {
+            field: "system.name".into(),
+            reason: format!(
+                "{} is the name of a library system: give your reagent a name of its own \
+                 (for example {})",
+                quote(&lib.name),
+                quote(&format!("{} (my own)", lib.name))
+            ),
+        });
+    }
+    Ok(())
+}
+
+/// The element symbol of a spectator ion (`Na`, `K`, `Cl`).
+fn ion_element(ion: Ion) -> &'static str {
+    match ion {
+        Ion::Na => "Na",
+        Ion::K => "K",
+        Ion::Cl => "Cl",
+    }
+}
+
 /// Check a user-defined system: everything [`validate_system`] checks (fields
-/// named `system.…`), then each form's counter-ions against the charges the
-/// system's species can carry (`system.forms[j].counter_ions`).
+/// named `system.…`), then each form's counter-ions against its formula (the Na and
+/// K atoms it holds are declared, no more Cl⁻ than it holds) and against the charges
+/// the system's species can carry (`system.forms[j].counter_ions`).
 ///
 /// # Errors
 ///
 /// The first problem found, naming its field.
 pub fn validate_user_system(sys: &AcidSystem) -> Result<()> {
     validate_system(sys)?;
-    check_form_charges(sys, 0)
+    check_system_name(sys)?;
+    for (j, f) in sys.forms.iter().enumerate() {
+        check_name(format!("system.forms[{j}].name"), &f.name)?;
+    }
+    check_form_charges(sys, 0)?;
+    check_form_formulas(sys, 0)
 }
 
 /// Check added shelf forms against the systems they extend (the design's
@@ -89,7 +188,9 @@ pub fn validate_custom_forms(forms: &[CustomForm], systems: &[AcidSystem]) -> Re
         probe.forms.push(cf.form.clone());
         let own = format!("system.forms[{j}]");
         validate_system(&probe)
+            .and_then(|()| check_name(format!("system.forms[{j}].name"), &cf.form.name))
             .and_then(|()| check_form_charges(&probe, j))
+            .and_then(|()| check_form_formulas(&probe, j))
             .map_err(|e| {
                 e.map_field(|f| match f.strip_prefix(own.as_str()) {
                     Some(rest) => format!("{root}.form{rest}"),
@@ -189,7 +290,8 @@ fn file_err(field: &str, reason: impl Into<String>) -> SolverError {
 /// use solver::document::reagent::{parse_reagent, reagent_to_json, Reagent};
 /// let lib = solver::system::library::find_system("acetate").cloned().ok_or(solver::SolverError::Unknown {
 ///     kind: "system".into(), name: "acetate".into() })?;
-/// let r = Reagent::System(solver::system::AcidSystem { id: "my_acetate".into(), ..lib });
+/// let r = Reagent::System(solver::system::AcidSystem {
+///     id: "my_acetate".into(), name: "My acetate".into(), ..lib });
 /// assert_eq!(parse_reagent(&reagent_to_json(&r))?, r);
 /// assert!(parse_reagent("{\"bufferwright_reagent\": 1}").is_err());
 /// # Ok::<(), solver::SolverError>(())

@@ -1,13 +1,16 @@
 //! What a whole design gives: the command line's report of every part, the uncertainty of
 //! every part, and the demo design loaded on a first visit.
 
-use super::design::{Design, PlotSource, Workspace, SCHEMA_VERSION};
+use super::design::{validate_design, Design, PlotSource, Workspace, SCHEMA_VERSION};
+use super::gas::{gas_report, has_carbonate};
 use crate::equilibrium::activity::ActivityModel;
-use crate::error::SolverError;
+use crate::equilibrium::gas::{validate, Atmosphere, CARBONATE};
+use crate::error::{Result, SolverError};
 use crate::field::{field_reading, FieldResult, FieldSpec, IonicSource, TotalUnit};
 use crate::mixture::{
-    prepare, solve_mixture, species_curves, titration_curve, what_if, Additive, AdditiveSpec,
-    ComponentSpec, MixtureResult, MixtureSpec, SpeciesCurves, TitrationCurve, WhatIf, WhatIfResult,
+    lookup, prepare, solve_mixture, species_curves, titration_curve, what_if, Additive,
+    AdditiveSpec, ComponentSpec, MixtureResult, MixtureSpec, SpeciesCurves, TitrationCurve, WhatIf,
+    WhatIfResult,
 };
 use crate::recipe::{solve_recipe, Method, RecipeResult, RecipeSpec};
 use crate::uncertainty::{
@@ -84,6 +87,7 @@ pub fn demo_design() -> Design {
         custom_systems: vec![],
         custom_forms: vec![],
         uncertainty: UncertaintyInputs::default(),
+        calibration: None,
     }
 }
 
@@ -129,7 +133,14 @@ pub fn report(d: &Design) -> Report {
         let span = (c * 2.0).max(0.001);
         titration_curve(&p, span, span, 41)
     });
-    let gas = super::gas::gas_report(d, custom, recipe.as_ref().ok().map(|r| &r.mixture));
+    let gas = gas_report(
+        &d.recipe,
+        &d.mixture,
+        &d.what_if,
+        &d.field,
+        custom,
+        recipe.as_ref().ok().map(|r| &r.mixture),
+    );
     let s = |e: SolverError| e.to_string();
     Report {
         name: d.name.clone(),
@@ -188,4 +199,50 @@ mod tests {
         assert!(r.recipe.is_ok() && r.mixture.is_ok() && r.field.is_ok());
         assert!(r.what_if.is_ok() && r.curves.is_ok() && r.titration.is_ok());
     }
+}
+
+/// A design with the gas `a` put over every workspace that holds carbonate
+/// (a carbonate recipe, a mixture listing carbonate, a carbonate field
+/// reading with an alkalinity), keeping a pressure already given there.
+/// Returns the design and the workspaces changed, checked as a document.
+///
+/// # Errors
+///
+/// [`SolverError::Infeasible`] on `--co2` when no workspace holds carbonate
+/// (none is added); the design's own checks with the gas in place.
+pub fn with_co2(d: &Design, a: &Atmosphere) -> Result<(Design, Vec<&'static str>)> {
+    validate(a).map_err(|e| e.map_field(|_| "--co2".into()))?;
+    let systems = d.systems();
+    let custom = &systems;
+    let mut out = d.clone();
+    let mut changed = Vec::new();
+    let put = |slot: &mut Option<Atmosphere>| {
+        let pressure_kpa = slot.and_then(|s| s.pressure_kpa);
+        *slot = Some(Atmosphere { pressure_kpa, ..*a });
+    };
+    if lookup(&d.recipe.system, custom).is_ok_and(|s| s.id == CARBONATE) {
+        put(&mut out.recipe.atmosphere);
+        changed.push("recipe");
+    }
+    if has_carbonate(&d.mixture, custom) {
+        put(&mut out.mixture.atmosphere);
+        changed.push("mixture");
+    }
+    if d.field.alkalinity.is_some()
+        && lookup(&d.field.system, custom).is_ok_and(|s| s.id == CARBONATE)
+    {
+        put(&mut out.field.atmosphere);
+        changed.push("field");
+    }
+    if changed.is_empty() {
+        return Err(SolverError::Infeasible {
+            field: "--co2".into(),
+            reason: "no workspace of this design holds carbonate (a carbonate recipe, carbonate \
+                     in the mixture, a carbonate field reading with an alkalinity), so a CO₂ \
+                     atmosphere changes nothing and none is added"
+                .into(),
+        });
+    }
+    validate_design(&out)?;
+    Ok((out, changed))
 }

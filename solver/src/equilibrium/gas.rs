@@ -35,7 +35,7 @@
 //! for water open to the air): an atmosphere on a solution with no
 //! carbonate is refused rather than adding carbonate silently.
 
-use super::Acid;
+use super::acid::Acid;
 use crate::error::{finite, Result, SolverError};
 use crate::water::KELVIN;
 use serde::{Deserialize, Serialize};

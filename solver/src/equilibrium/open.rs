@@ -20,7 +20,7 @@
 //! iteration are the closed system's own; only these sums change, so one
 //! solver serves both.
 
-use super::{fractions_into, Acid};
+use super::acid::{fractions_into, Acid};
 use crate::system::MAX_STEPS;
 
 /// Charge, β/ln 10 share and Σz²c of an open acid from its moments s₁, s₂.

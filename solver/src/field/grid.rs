@@ -252,9 +252,6 @@ pub fn species_grid(spec: &GridSpec, custom: &[AcidSystem]) -> Result<Grid> {
             warnings.push(outside_note(psu, t));
         }
     }
-    if ionic > crate::equilibrium::activity::DAVIES_LIMIT && !columns.iter().all(sea) {
-        warnings.push(super::sample::beyond_davies_warning(ionic));
-    }
     Ok(Grid {
         system_name: sys.name.clone(),
         species: sys.species.get(index).cloned().unwrap_or_default(),

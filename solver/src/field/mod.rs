@@ -21,4 +21,4 @@ pub use reading::{
     field_reading, field_reading_cached, reporting_bases, reporting_basis, total_to_molar,
     validate_field, BasisAmount, FieldResult, FieldSpec, FieldSpecies, TotalUnit,
 };
-pub use sample::{beyond_davies_warning, target_species, AtTemperature, FieldCache, FieldSample};
+pub use sample::{target_species, AtTemperature, FieldCache, FieldSample};

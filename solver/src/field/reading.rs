@@ -13,8 +13,9 @@
 //! (1995) gives the constant ([`crate::field::seawater`], total pH scale, salinity
 //! 0–40, −2 to 40 °C); the result names the model used ([`PkModel`]). Every
 //! other system, and ammonia outside that range, uses the Davies equation at
-//! the salinity's ionic strength; past the Davies range ([`DAVIES_LIMIT`])
-//! the result carries a warning that the value is indicative.
+//! the salinity's ionic strength; past the Davies range
+//! ([`crate::equilibrium::activity::DAVIES_LIMIT`]) the reading is refused
+//! on the ionic source's field rather than given biased.
 //!
 //! Optional parts of a reading: an alkalinity for the carbonate system
 //! ([`crate::field::carbonate`]), and a user's limit for the form that
@@ -23,9 +24,8 @@
 use super::carbonate::{carbonate_from_alkalinity, Alkalinity, CarbonateResult};
 use super::ionic::{ionic_from, IonicSource};
 use super::limit::{evaluate_limit, validate_limit, Limit, LimitResult};
-use super::sample::{beyond_davies_warning, target_species, AtTemperature, FieldCache};
+use super::sample::{target_species, AtTemperature, FieldCache};
 use super::seawater::{outside_note, seawater_note, seawater_use, PkModel, SeawaterUse};
-use crate::equilibrium::activity::DAVIES_LIMIT;
 use crate::error::{non_negative, Result, SolverError};
 use crate::limits;
 use crate::mixture::lookup;
@@ -233,12 +233,19 @@ pub fn validate_field(spec: &FieldSpec, custom: &[AcidSystem]) -> Result<()> {
     }
     if let Some(l) = &spec.limit {
         validate_limit(l, &sys.id)?;
-        if spec.total.is_none() && spec.alkalinity.is_none() {
-            return Err(SolverError::Infeasible {
-                field: "limit".into(),
-                reason: "a limit needs a total (or, for carbonate, an alkalinity)".into(),
-            });
-        }
+    }
+    Ok(())
+}
+
+/// A limit is judged against a total (or an alkalinity): refused by the reading, not by
+/// the document, so a limit left set while the total is "not measured" is kept with the
+/// design and the reading says why it cannot be judged.
+fn check_limit_has_total(spec: &FieldSpec) -> Result<()> {
+    if spec.limit.is_some() && spec.total.is_none() && spec.alkalinity.is_none() {
+        return Err(SolverError::Infeasible {
+            field: "limit".into(),
+            reason: "a limit needs a total (or, for carbonate, an alkalinity)".into(),
+        });
     }
     Ok(())
 }
@@ -335,6 +342,7 @@ fn reading(
     cache: Option<&mut FieldCache>,
 ) -> Result<FieldResult> {
     validate_field(spec, custom)?;
+    check_limit_has_total(spec)?;
     let ph = spec.ph;
     let ionic = ionic_from(&spec.ionic)?;
     let sys = lookup(&spec.system, custom)?;
@@ -347,16 +355,13 @@ fn reading(
             &fresh
         }
     };
-    let sample = at.sample_for_source(sys, &spec.ionic, ionic);
+    let sample = at.sample_for_source(sys, &spec.ionic, ionic)?;
     let mut warnings = Vec::new();
     let sea = seawater_use(&sys.id, &spec.ionic, spec.temperature_c);
     if let SeawaterUse::Within(s) = sea {
         warnings.push(seawater_note(s));
     } else if let SeawaterUse::Outside(s) = sea {
         warnings.push(outside_note(s, spec.temperature_c));
-    }
-    if ionic > DAVIES_LIMIT && sample.model == PkModel::Davies {
-        warnings.push(beyond_davies_warning(ionic));
     }
     if matches!(spec.ionic, IonicSource::Salinity { .. }) && sample.model == PkModel::Davies {
         warnings.push(

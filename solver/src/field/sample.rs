@@ -4,7 +4,9 @@
 //! reuse.
 
 use super::ionic::{ionic_from, IonicSource};
-use super::seawater::{pk_ammonium_seawater, seawater_use, PkModel, SeawaterUse};
+use super::seawater::{
+    pk_ammonium_seawater, seawater_use, PkModel, SeawaterUse, SEAWATER_S_MAX, SEAWATER_T_MAX_C,
+};
 use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{fractions_into, Acid};
 use crate::error::{Result, SolverError};
@@ -23,15 +25,6 @@ pub fn target_species(system_id: &str) -> Option<(usize, &'static str)> {
         "carbonate" => Some((0, "Dissolved (free) CO₂")),
         _ => None,
     }
-}
-
-/// Warning text for an ionic strength past the Davies range.
-pub fn beyond_davies_warning(ionic: f64) -> String {
-    format!(
-        "Ionic strength {ionic:.3} mol/L is beyond the range the Davies activity model is \
-         trusted in (about {DAVIES_LIMIT} mol/L) and no seawater model is used: the fractions \
-         are indicative only."
-    )
 }
 
 /// What a [`FieldSample`] needs from the temperature alone: the system's
@@ -89,20 +82,75 @@ impl AtTemperature {
     /// The sample for an ionic-strength source whose ionic strength is
     /// `ionic` (= [`ionic_from`] of it): the seawater ammonia model when the
     /// source is a salinity in its range, Davies otherwise.
+    ///
+    /// # Errors
+    ///
+    /// [`SolverError::Infeasible`] on the source's field when Davies would be
+    /// used past its range ([`DAVIES_LIMIT`]): there the fractions are not
+    /// just rough but biased (ammonia just past the seawater model's edge
+    /// comes out 20–30 % low), so no value is given rather than a wrong one.
     pub fn sample_for_source(
         &self,
         sys: &AcidSystem,
         source: &IonicSource,
         ionic: f64,
-    ) -> FieldSample {
+    ) -> Result<FieldSample> {
         let mut sample = self.sample(ionic);
-        if let SeawaterUse::Within(s) = seawater_use(&sys.id, source, self.temperature_c) {
-            sample.acid =
-                Acid::from_pks(sys.z0, &[pk_ammonium_seawater(self.temperature_c, s)], 1.0);
-            sample.gamma1 = 1.0;
-            sample.model = PkModel::CleggWhitfield1995;
+        match seawater_use(&sys.id, source, self.temperature_c) {
+            SeawaterUse::Within(s) => {
+                sample.acid =
+                    Acid::from_pks(sys.z0, &[pk_ammonium_seawater(self.temperature_c, s)], 1.0);
+                sample.gamma1 = 1.0;
+                sample.model = PkModel::CleggWhitfield1995;
+            }
+            sea if ionic > DAVIES_LIMIT => {
+                return Err(beyond_davies(sys, source, ionic, self.temperature_c, sea))
+            }
+            _ => {}
         }
-        sample
+        Ok(sample)
+    }
+}
+
+/// The refusal of a reading whose ionic strength is past the Davies range
+/// with no salt-water model for it, named on the source's field.
+fn beyond_davies(
+    sys: &AcidSystem,
+    source: &IonicSource,
+    ionic: f64,
+    temperature_c: f64,
+    sea: SeawaterUse,
+) -> SolverError {
+    let (field, given) = match source {
+        IonicSource::Salinity { psu } => ("field.ionic.psu", format!("salinity {psu}")),
+        IonicSource::Conductivity { us_cm } => {
+            ("field.ionic.us_cm", format!("conductivity {us_cm} µS/cm"))
+        }
+        IonicSource::Tds { mg_l } => ("field.ionic.mg_l", format!("dissolved solids {mg_l} mg/L")),
+        IonicSource::Direct { .. } | IonicSource::Zero => (
+            "field.ionic.ionic_strength",
+            "the ionic strength".to_string(),
+        ),
+    };
+    let why = if matches!(sea, SeawaterUse::Outside(_)) {
+        format!(
+            "at {temperature_c} °C this is outside the seawater ammonia model (salinity 0–{SEAWATER_S_MAX} \
+             at 0–{SEAWATER_T_MAX_C} °C here), and past the Davies activity model's range \
+             (about {DAVIES_LIMIT} mol/L) the un-ionized share would come out 20–30 % low"
+        )
+    } else {
+        format!(
+            "this is past the range the Davies activity model holds in (about {DAVIES_LIMIT} \
+             mol/L), and {} has no salt-water model here",
+            sys.name
+        )
+    };
+    SolverError::Infeasible {
+        field: field.into(),
+        reason: format!(
+            "{given} gives an ionic strength of {ionic:.3} mol/L: {why}. No value is given rather \
+             than a wrong one."
+        ),
     }
 }
 
@@ -203,11 +251,13 @@ impl FieldSample {
     ///
     /// # Errors
     ///
-    /// A bad source reading; temperature outside 0–60 °C or the system's data.
+    /// A bad source reading; temperature outside 0–60 °C or the system's
+    /// data; an ionic strength past the Davies range with no salt-water
+    /// model ([`AtTemperature::sample_for_source`]).
     pub fn for_source(sys: &AcidSystem, temperature_c: f64, source: &IonicSource) -> Result<Self> {
         let ionic = ionic_from(source)?;
         let at = AtTemperature::new(sys, temperature_c)?;
-        Ok(at.sample_for_source(sys, source, ionic))
+        at.sample_for_source(sys, source, ionic)
     }
 
     /// Apparent (concentration-scale) pK values at the sample's ionic

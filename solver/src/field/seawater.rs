@@ -32,8 +32,12 @@
 //! result says in words.
 //!
 //! Outside S 0–40 or −2 to 40 °C the model is not used: the Davies equation
-//! at the salinity's ionic strength is used instead and the result says the
-//! value is indicative. No other system has a seawater model here.
+//! at the salinity's ionic strength is used instead while that ionic
+//! strength is within the Davies range (the result says the value is
+//! indicative), and the reading is refused past it (salinity above about
+//! 24.5), where Davies would give 20–30 % less NH₃ than the model at its
+//! edge. Readings here start at 0 °C (the field's temperature rule). No
+//! other system has a seawater model here.
 
 use super::ionic::IonicSource;
 use serde::{Deserialize, Serialize};

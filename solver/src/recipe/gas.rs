@@ -19,9 +19,9 @@ use crate::equilibrium::{solve, solve_addition};
 use crate::error::{Result, SolverError};
 use crate::fmt::{format_mass, sig, sig_fixed, sig_trim};
 use crate::mixture::{lookup, prepare, tolerance, ComponentSpec, MixtureSpec};
-use crate::recipe::spec::{CONCENTRATE_MAX_M, METER_NOTE};
-use crate::recipe::{
-    Estimate, Ingredient, MeterReading, Method, RecipeResult, RecipeSpec, RecipeWarning,
+use crate::recipe::spec::{
+    titrant_name, weigh, Estimate, Ingredient, MeterReading, MeterSolution, Method, RecipeResult,
+    RecipeSpec, RecipeWarning, CONCENTRATE_MAX_M, METER_NOTE,
 };
 use crate::system::library::{counter_charge, find_form};
 use crate::system::thermo::system_pks;
@@ -185,6 +185,7 @@ pub fn solve_gas_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<Reci
     let meter = MeterReading {
         temperature_c: t_prep,
         ph: meter_ph,
+        solution: MeterSolution::WorkingBuffer,
     };
     let steps = gas_steps(spec, &ingredients, &gas, &atm, &meter);
     Ok(RecipeResult {
@@ -205,12 +206,12 @@ pub fn solve_gas_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<Reci
 /// The form at `x` mol/L and the recipe's salts, for the final volume.
 fn weighed(spec: &RecipeSpec, formula: &str, name: &str, x: f64) -> Result<Vec<Ingredient>> {
     let v = spec.volume_l;
-    let mut out = vec![crate::recipe::weigh(formula, name, x * v)?];
+    let mut out = vec![weigh(formula, name, x * v)?];
     for s in &spec.salts {
         if s.conc_m > 0.0 {
-            out.push(crate::recipe::weigh(
+            out.push(weigh(
                 s.additive.formula(),
-                crate::recipe::titrant_name(s.additive),
+                titrant_name(s.additive),
                 s.conc_m * v,
             )?);
         }

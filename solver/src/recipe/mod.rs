@@ -20,21 +20,21 @@ pub mod gas;
 pub mod spec;
 pub mod steps;
 
+use spec::{titrant_name, weigh};
 pub use spec::{
-    ConcentrateResult, Estimate, Ingredient, MeterReading, Method, RecipeResult, RecipeSpec,
-    RecipeWarning, CONCENTRATE_FACTOR_MAX, CONCENTRATE_MAX_M, METER_NOTE,
+    ConcentrateResult, Estimate, Ingredient, MeterReading, MeterSolution, Method, RecipeResult,
+    RecipeSpec, RecipeWarning, CONCENTRATE_FACTOR_MAX, CONCENTRATE_MAX_M, METER_NOTE,
 };
 use steps::{bench_steps, steps_text};
 
 use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::{solve, solve_addition};
 use crate::error::{in_range, non_negative, Result, SolverError};
-use crate::fmt::{clip, sig, sig_trim, QUOTE_MAX};
+use crate::fmt::{clip, format_volume_ml, sig, sig_trim, QUOTE_MAX};
 use crate::limits;
 use crate::mixture::{
     lookup, prepare, tolerance, Additive, AdditiveSpec, ComponentSpec, MixtureSpec,
 };
-use crate::system::formula::molar_mass;
 use crate::system::library::{counter_charge, find_form};
 use crate::system::thermo::system_pks;
 use crate::system::{AcidSystem, ReagentForm};
@@ -173,8 +173,11 @@ fn validate(spec: &RecipeSpec) -> Result<()> {
     // the salts (the forms and titrant are checked once the recipe is known).
     let n = spec.concentrate_factor;
     if spec.total_conc_m * n > CONCENTRATE_MAX_M {
-        let what = format!("{} (buffer total)", clip(&spec.system, QUOTE_MAX));
-        return Err(too_concentrated(n, &what, spec.total_conc_m * n));
+        return Err(too_concentrated(
+            n,
+            "the buffer (all its forms together)",
+            spec.total_conc_m * n,
+        ));
     }
     for s in &spec.salts {
         if s.conc_m * n > CONCENTRATE_MAX_M {
@@ -225,8 +228,11 @@ pub fn validate_salts(salts: &[AdditiveSpec]) -> Result<()> {
             return Err(SolverError::Infeasible {
                 field: format!("salts[{i}]"),
                 reason: format!(
-                    "{} is listed twice (also salts[{j}]): merge them into one entry",
-                    s.additive.formula()
+                    "{} is listed twice (rows {} and {}): a salt listed twice is refused, \
+                     not merged; change or remove one of the two rows",
+                    s.additive.formula(),
+                    j + 1,
+                    i + 1
                 ),
             });
         }
@@ -312,19 +318,6 @@ fn component(sys: &AcidSystem, f: &FormInfo<'_>, conc_m: f64) -> ComponentSpec {
         form: Some(f.form.id.clone()),
         conc_m,
     }
-}
-
-pub(crate) fn weigh(formula: &str, name: &str, mol: f64) -> Result<Ingredient> {
-    let mm = molar_mass(formula)?;
-    Ok(Ingredient {
-        formula: formula.into(),
-        name: name.into(),
-        mol,
-        molar_mass: Some(mm),
-        grams: Some(mol * mm),
-        ml: None,
-        stock_m: None,
-    })
 }
 
 fn pour(formula: &str, name: &str, mol: f64, stock_m: f64) -> Ingredient {
@@ -432,11 +425,18 @@ fn finish(
                 x * amt,
                 *titrant_m,
             );
-            if check && t.ml.unwrap_or(0.0) > v * 1000.0 {
+            let t_ml = t.ml.unwrap_or(0.0);
+            if check && steps::dissolving_ml(v * 1000.0, t_ml).is_none() {
                 return Err(SolverError::Infeasible {
                     field: "method.titrant_m".into(),
-                    reason: "the titrant is too dilute: it would need more than the final volume"
-                        .into(),
+                    reason: format!(
+                        "the titrant is too dilute: {} of it leaves too little of the {} mL \
+                         for dissolving the solids; use a stronger titrant (about {} M or \
+                         more) or a smaller batch or concentrate",
+                        format_volume_ml(t_ml),
+                        sig(v * 1000.0, 4),
+                        sig_trim(steps::titrant_that_fits(v * 1000.0, t_ml, *titrant_m), 2)
+                    ),
                 });
             }
             ing.push(t);
@@ -487,13 +487,17 @@ fn concentrate_of(
     let too_much = |what: &str, c: f64| too_concentrated(factor, what, c);
     let total = spec.total_conc_m * factor;
     if total > CONCENTRATE_MAX_M {
-        let what = format!("{} (buffer total)", clip(&sys.name, QUOTE_MAX));
+        let what = format!("{} (all its forms together)", clip(&sys.name, QUOTE_MAX));
         return Err(too_much(&what, total));
     }
     for c in &mut m.components {
         c.conc_m *= factor;
         if c.conc_m > CONCENTRATE_MAX_M {
-            let what = c.form.as_deref().unwrap_or(c.system.as_str());
+            let what = c
+                .form
+                .as_deref()
+                .and_then(|f| find_form(sys, f))
+                .map_or(sys.name.as_str(), |f| f.name.as_str());
             return Err(too_much(&clip(what, QUOTE_MAX), c.conc_m));
         }
     }
@@ -504,16 +508,6 @@ fn concentrate_of(
         }
     }
     Ok(Some(m))
-}
-
-pub(crate) fn titrant_name(a: Additive) -> &'static str {
-    match a {
-        Additive::Hcl => "hydrochloric acid",
-        Additive::Naoh => "sodium hydroxide",
-        Additive::Koh => "potassium hydroxide",
-        Additive::Nacl => "sodium chloride",
-        Additive::Kcl => "potassium chloride",
-    }
 }
 
 fn setup(spec: &RecipeSpec, sys: &AcidSystem, forms: &Forms<'_>) -> Setup {
@@ -590,12 +584,16 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
     let p = prepare(&mixture, custom)?;
     let eq = solve(&p.composition, spec.target_ph)?;
     let tol = tolerance(&p, &eq, spec.tolerance_ph)?;
+    // Past the activity model's range the concentrate's own pH is not
+    // predicted (a wrong number is worse than none): the meter check moves
+    // to a portion diluted to working strength, which is the working buffer.
     let concentrate = match &concentrated {
         Some(m) => {
             let e = prepare(m, custom)?.solve()?;
+            let beyond = spec.activity == ActivityModel::Davies && e.ionic_strength > DAVIES_LIMIT;
             Some(ConcentrateResult {
                 factor: spec.concentrate_factor,
-                ph: e.ph,
+                ph: (!beyond).then_some(e.ph),
                 ionic_strength: e.ionic_strength,
             })
         }
@@ -604,17 +602,22 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
     // The meter reads the solution being made (the concentrate, if any) at
     // the preparation temperature.
     let t_prep = spec.prepare_temperature_c.unwrap_or(spec.temperature_c);
-    let vessel_ph = concentrate.map_or(eq.ph, |c| c.ph);
+    let (read, solution, vessel_ph) = match (concentrated, concentrate.and_then(|c| c.ph)) {
+        (Some(m), Some(ph)) => (m, MeterSolution::Concentrate, ph),
+        (Some(_), None) => (mixture.clone(), MeterSolution::DilutedPortion, eq.ph),
+        (None, _) => (mixture.clone(), MeterSolution::WorkingBuffer, eq.ph),
+    };
     let meter_ph = if t_prep == spec.temperature_c {
         vessel_ph
     } else {
-        let mut m = concentrated.unwrap_or_else(|| mixture.clone());
+        let mut m = read;
         m.temperature_c = t_prep;
         solve(&prepare(&m, custom)?.composition, vessel_ph)?.ph
     };
     let meter = MeterReading {
         temperature_c: t_prep,
         ph: meter_ph,
+        solution,
     };
 
     // Henderson–Hasselbalch: share f of level k, rest at k−1, spectator
@@ -663,20 +666,21 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
             warnings.push(RecipeWarning::EstimateOff { difference: d });
         }
     }
-    let indicative = match concentrate {
-        Some(c) if spec.activity == ActivityModel::Davies && c.ionic_strength > DAVIES_LIMIT => {
-            warnings.push(RecipeWarning::ConcentrateBeyondModel {
-                factor: c.factor,
-                ionic_strength: c.ionic_strength,
-            });
-            true
-        }
-        _ => false,
-    };
+    if let Some(c) = concentrate.filter(|c| c.ph.is_none()) {
+        warnings.push(RecipeWarning::ConcentrateBeyondModel {
+            factor: c.factor,
+            ionic_strength: c.ionic_strength,
+        });
+    }
     let steps = if concentrate.is_none() && t_prep == spec.temperature_c {
         steps_text(spec, &ingredients)
     } else {
-        bench_steps(spec, &ingredients, &meter, indicative)
+        bench_steps(
+            spec,
+            &ingredients,
+            &meter,
+            concentrate.map(|c| c.ionic_strength),
+        )
     };
     Ok(RecipeResult {
         ingredients,

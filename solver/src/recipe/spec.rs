@@ -2,8 +2,10 @@
 
 use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::Equilibrium;
+use crate::error::Result;
 use crate::fmt::{sig, sig_trim};
 use crate::mixture::{Additive, AdditiveSpec, MixtureSpec, Tolerance};
+use crate::system::formula::molar_mass;
 use serde::{Deserialize, Serialize};
 
 /// How the buffer is made.
@@ -114,6 +116,27 @@ pub struct MeterReading {
     /// that temperature: same total composition, pK(T), Kw(T) and
     /// Debye–Hückel A(T), ionic strength solved again.
     pub ph: f64,
+    /// Which solution the reading is of: the buffer as made, the
+    /// concentrate, or a portion of the concentrate diluted to working
+    /// strength when the concentrate's own reading cannot be predicted.
+    /// Absent in output saved before it existed: read as the buffer.
+    #[serde(default)]
+    pub solution: MeterSolution,
+}
+
+/// The solution a [`MeterReading`] is of.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum MeterSolution {
+    /// The buffer as made (no concentrate).
+    #[default]
+    WorkingBuffer,
+    /// The concentrate itself, within the activity model's range.
+    Concentrate,
+    /// A portion of the concentrate diluted N-fold with water: the
+    /// concentrate's ionic strength is past the activity model's range, so
+    /// its own reading is not predicted and the check is made on a dilution.
+    DilutedPortion,
 }
 
 /// The concentrate itself, before dilution.
@@ -121,9 +144,10 @@ pub struct MeterReading {
 pub struct ConcentrateResult {
     /// Concentrate factor N.
     pub factor: f64,
-    /// Predicted pH of the concentrate at the working temperature
-    /// (indicative when its ionic strength is beyond the activity model).
-    pub ph: f64,
+    /// Predicted pH of the concentrate at the working temperature; `None`
+    /// (JSON `null`) when its ionic strength is past the activity model's
+    /// range, where no pH is predicted rather than a wrong one.
+    pub ph: Option<f64>,
     /// Ionic strength of the concentrate, mol/L.
     pub ionic_strength: f64,
 }
@@ -169,7 +193,8 @@ pub enum RecipeWarning {
         difference: f64,
     },
     /// The concentrate's ionic strength is past the Davies model's range:
-    /// its predicted pH is indicative, the diluted buffer's is exact.
+    /// its own pH is not predicted; the meter check is made on a portion
+    /// diluted to working strength, whose pH is exact.
     ConcentrateBeyondModel {
         /// Concentrate factor.
         factor: f64,
@@ -197,7 +222,7 @@ impl RecipeWarning {
                 factor,
                 ionic_strength,
             } => format!(
-                "The {}× concentrate's ionic strength, {} M, is beyond the range the Davies equation is trusted in (about {DAVIES_LIMIT} M): its predicted pH and meter reading are indicative; the diluted buffer's pH is exact.",
+                "The {}× concentrate's ionic strength, {} M, is beyond the range the Davies equation is trusted in (about {DAVIES_LIMIT} M): its own pH is not predicted, so do not adjust the concentrate by the meter; check a portion diluted to working strength instead (its pH is exact).",
                 sig_trim(*factor, 3),
                 sig(*ionic_strength, 3)
             ),
@@ -244,4 +269,29 @@ pub struct RecipeResult {
     pub meter: MeterReading,
     /// The concentrate, when one is made (factor above 1).
     pub concentrate: Option<ConcentrateResult>,
+}
+
+/// One weighed ingredient: `mol` of `formula`, its mass from the formula's molar mass.
+pub(crate) fn weigh(formula: &str, name: &str, mol: f64) -> Result<Ingredient> {
+    let mm = molar_mass(formula)?;
+    Ok(Ingredient {
+        formula: formula.into(),
+        name: name.into(),
+        mol,
+        molar_mass: Some(mm),
+        grams: Some(mol * mm),
+        ml: None,
+        stock_m: None,
+    })
+}
+
+/// The name of a titrant or salt in the steps and the ingredient list.
+pub(crate) fn titrant_name(a: Additive) -> &'static str {
+    match a {
+        Additive::Hcl => "hydrochloric acid",
+        Additive::Naoh => "sodium hydroxide",
+        Additive::Koh => "potassium hydroxide",
+        Additive::Nacl => "sodium chloride",
+        Additive::Kcl => "potassium chloride",
+    }
 }

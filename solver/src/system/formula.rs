@@ -67,21 +67,60 @@ pub fn atomic_weight(symbol: &str) -> Option<f64> {
 /// # Ok::<(), solver::SolverError>(())
 /// ```
 pub fn molar_mass(formula: &str) -> Result<f64> {
-    Parser {
-        text: formula,
-        chars: formula.char_indices().collect(),
-        i: 0,
+    Parser::new(formula, "").parse().map(|t| t.mass)
+}
+
+/// How many atoms of `symbol` one formula unit holds, water of hydration
+/// included (`Na2HPO4·7H2O`, `Na`: 2; `C4H11NO3·HCl`, `Cl`: 1; `KH2PO4`, `Na`: 0).
+///
+/// # Errors
+///
+/// [`SolverError::BadFormula`] when the formula cannot be read (as [`molar_mass`]).
+///
+/// # Example
+///
+/// ```
+/// # use solver::system::formula::element_count;
+/// assert_eq!(element_count("C7H5NaO2", "Na")?, 1.0);
+/// assert_eq!(element_count("(NH4)2SO4", "H")?, 8.0);
+/// # Ok::<(), solver::SolverError>(())
+/// ```
+pub fn element_count(formula: &str, symbol: &str) -> Result<f64> {
+    Parser::new(formula, symbol).parse().map(|t| t.count)
+}
+
+/// What a formula adds up to: its mass, and the atoms of the one element asked for.
+#[derive(Clone, Copy, Default)]
+struct Tally {
+    mass: f64,
+    count: f64,
+}
+
+impl Tally {
+    fn add(&mut self, other: Tally, n: f64) {
+        self.mass += other.mass * n;
+        self.count += other.count * n;
     }
-    .parse()
 }
 
 struct Parser<'a> {
     text: &'a str,
     chars: Vec<(usize, char)>,
     i: usize,
+    /// The element whose atoms [`Tally::count`] counts ("" for none).
+    target: &'a str,
 }
 
-impl Parser<'_> {
+impl<'a> Parser<'a> {
+    fn new(text: &'a str, target: &'a str) -> Self {
+        Parser {
+            text,
+            chars: text.char_indices().collect(),
+            i: 0,
+            target,
+        }
+    }
+
     fn bad(&self) -> SolverError {
         let position = self.chars.get(self.i).map_or(self.text.len(), |&(p, _)| p);
         SolverError::BadFormula {
@@ -108,11 +147,12 @@ impl Parser<'_> {
         matches!(c, '·' | '.' | '•' | '*' | '⋅')
     }
 
-    fn parse(mut self) -> Result<f64> {
-        let mut total = 0.0;
+    fn parse(mut self) -> Result<Tally> {
+        let mut total = Tally::default();
         self.skip_ws();
         loop {
-            total += self.part()?;
+            let part = self.part()?;
+            total.add(part, 1.0);
             self.skip_ws();
             match self.peek() {
                 None => break,
@@ -123,7 +163,7 @@ impl Parser<'_> {
                 Some(_) => return Err(self.bad()),
             }
         }
-        if total.is_finite() && total > 0.0 {
+        if total.mass.is_finite() && total.mass > 0.0 {
             Ok(total)
         } else {
             Err(self.bad())
@@ -131,14 +171,14 @@ impl Parser<'_> {
     }
 
     /// `[coefficient] item+`
-    fn part(&mut self) -> Result<f64> {
+    fn part(&mut self) -> Result<Tally> {
         let coefficient = if self.peek().is_some_and(|c| c.is_ascii_digit()) {
             self.coefficient()?
         } else {
             1.0
         };
         // Stack of partial sums: one per open bracket, plus the part itself.
-        let mut stack: Vec<(f64, char)> = vec![(0.0, ' ')];
+        let mut stack: Vec<(Tally, char)> = vec![(Tally::default(), ' ')];
         let mut items_in_part = 0usize;
         loop {
             match self.peek() {
@@ -146,14 +186,14 @@ impl Parser<'_> {
                     let w = self.element()?;
                     let n = self.count()?;
                     let top = stack.last_mut().ok_or_else(|| self.bad())?;
-                    top.0 += w * n;
+                    top.0.add(w, n);
                     items_in_part += 1;
                 }
                 Some(open @ ('(' | '[')) => {
                     if stack.len() > MAX_DEPTH {
                         return Err(self.bad());
                     }
-                    stack.push((0.0, open));
+                    stack.push((Tally::default(), open));
                     self.i += 1;
                 }
                 Some(close @ (')' | ']')) => {
@@ -162,14 +202,14 @@ impl Parser<'_> {
                         Some(&(inner, open)) if stack.len() > 1 => (inner, open),
                         _ => return Err(self.bad()),
                     };
-                    if open != want || inner <= 0.0 {
+                    if open != want || inner.mass <= 0.0 {
                         return Err(self.bad());
                     }
                     stack.pop();
                     self.i += 1;
                     let n = self.count()?;
                     let top = stack.last_mut().ok_or_else(|| self.bad())?;
-                    top.0 += inner * n;
+                    top.0.add(inner, n);
                 }
                 _ => break,
             }
@@ -177,12 +217,15 @@ impl Parser<'_> {
         if stack.len() != 1 || items_in_part == 0 {
             return Err(self.bad());
         }
-        let sum = stack.first().map_or(0.0, |&(s, _)| s);
-        Ok(coefficient * sum)
+        let mut sum = Tally::default();
+        if let Some(&(s, _)) = stack.first() {
+            sum.add(s, coefficient);
+        }
+        Ok(sum)
     }
 
     /// Element symbol: uppercase letter, optional lowercase letter.
-    fn element(&mut self) -> Result<f64> {
+    fn element(&mut self) -> Result<Tally> {
         let start = self.i;
         let mut symbol = String::new();
         if let Some(c) = self.peek() {
@@ -193,10 +236,14 @@ impl Parser<'_> {
             symbol.push(c);
             self.i += 1;
         }
-        atomic_weight(&symbol).ok_or_else(|| {
-            self.i = start;
-            self.bad()
-        })
+        let count = if symbol == self.target { 1.0 } else { 0.0 };
+        match atomic_weight(&symbol) {
+            Some(mass) => Ok(Tally { mass, count }),
+            None => {
+                self.i = start;
+                Err(self.bad())
+            }
+        }
     }
 
     /// Optional integer subscript (ASCII or Unicode subscript digits); 1 if absent.
@@ -344,6 +391,18 @@ mod tests {
         assert_eq!(pos("na"), 0);
         assert_eq!(pos("H99999999"), 1);
         assert_eq!(pos("H2 O"), 3);
+    }
+
+    #[test]
+    fn element_counts() {
+        let n = |f: &str, e: &str| element_count(f, e).unwrap();
+        assert_eq!(n("Na2HPO4·7H2O", "Na"), 2.0);
+        assert_eq!(n("Na2HPO4·7H2O", "H"), 15.0);
+        assert_eq!(n("C6H6Na2O7·1.5H2O", "H"), 9.0);
+        assert_eq!(n("[Na(H2O)2]2SO4", "Na"), 2.0);
+        assert_eq!(n("K2CO3", "Na"), 0.0);
+        assert_eq!(n("C4H11NO3·HCl", "Cl"), 1.0);
+        assert!(element_count("NaQ", "Na").is_err());
     }
 
     #[test]

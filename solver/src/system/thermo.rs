@@ -243,9 +243,12 @@ pub fn validate_system(sys: &AcidSystem) -> Result<()> {
     let t_min = finite("system.t_min_c", sys.t_min_c)?;
     let t_max = finite("system.t_max_c", sys.t_max_c)?;
     in_range("system.t_min_c", t_min, T_MIN_C, T_MAX_C)?;
-    in_range("system.t_max_c", t_max, t_min, T_MAX_C)?;
+    in_range("system.t_max_c", t_max, T_MIN_C, T_MAX_C)?;
     if t_max <= t_min {
-        return Err(out_of_range("system.t_max_c".into(), t_max, t_min, T_MAX_C));
+        return Err(document(
+            "system.t_max_c".into(),
+            &format!("the highest temperature ({t_max} °C) must be above the lowest ({t_min} °C)"),
+        ));
     }
     let mut prev: Option<f64> = None;
     for (i, step) in sys.steps.iter().enumerate() {

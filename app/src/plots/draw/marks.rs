@@ -1,13 +1,13 @@
 //! Marks on the species and capacity plots (target pH, tolerance window, meter reading) and the recipe's compact plot.
 //!
-//! The compact plot beside the recipe is the Species tab's two plots drawn
-//! by the same panel code ([`super::species_panel`], [`super::capacity_panel`])
-//! over a narrower pH range, with these marks instead of the working-pH line.
+//! The compact plot beside the recipe ([`super::draw_recipe_chemistry`]) is the Species
+//! tab's two plots drawn by the same panel code ([`super::species_panel`],
+//! [`super::capacity_panel`]) over a narrower pH range, with these marks instead of the
+//! working-pH line.
 
-use super::{capacity_panel, font, line, species_panel, DrawResult, Sc, Swatch, INK, SMALL_PX};
+use super::style::{font, line, DrawResult, Sc, Swatch, INK, SMALL_PX};
 use crate::plots::data::{nearest, PlotData, Quantity, PH_MAX, PH_MIN};
 use plotters::coord::types::RangedCoordf64;
-use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
@@ -162,33 +162,6 @@ pub fn recipe_window(target: f64) -> (f64, f64) {
     let t = if target.is_finite() { target } else { 7.0 };
     let lo = (t - WINDOW_PH / 2.0).clamp(PH_MIN, PH_MAX - WINDOW_PH);
     (lo, lo + WINDOW_PH)
-}
-
-/// The recipe's compact plot: species fractions above, buffer capacity
-/// below, both over [`recipe_window`] with the marks. Returns the species
-/// panel's frame.
-///
-/// # Errors
-///
-/// Backend drawing errors.
-pub fn draw_recipe_chemistry<DB: DrawingBackend>(
-    area: &DrawingArea<DB, Shift>,
-    data: &PlotData,
-    marks: &Marks,
-    scale: f64,
-) -> DrawResult<super::Frame, DB> {
-    let s = Sc::new(scale);
-    area.fill(&WHITE)?;
-    let h = area.dim_in_pixel().1;
-    let split = i32::try_from(h).unwrap_or(0) * 3 / 5;
-    let (top, bottom) = area.split_vertically(split);
-    let p = Panel {
-        x: recipe_window(marks.target),
-        marks: Some(marks),
-    };
-    let frame = species_panel(s, &top, data, Quantity::Fraction, None, &p)?;
-    capacity_panel(s, &bottom, data, None, &p)?;
-    Ok(frame)
 }
 
 /// Text for the compact plot's `aria-label`.

@@ -5,136 +5,22 @@
 //! pointer position back to a pH or an added amount. Sizes are in CSS pixels:
 //! the page's canvas backend scales to device pixels underneath.
 
-use super::data::{short, sig, PlotData, Quantity, PH_MAX, PH_MIN};
+use super::data::{sig, PlotData, Quantity, PH_MAX, PH_MIN};
 use plotters::coord::types::RangedCoordf64;
 use plotters::coord::{CoordTranslate, Shift};
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 mod marks;
+mod style;
 mod summary;
-pub use marks::{
-    draw_recipe_chemistry, recipe_summary, recipe_table, recipe_window, Marks, TableRow, BAND,
-    METER,
-};
+pub use marks::{recipe_summary, recipe_table, recipe_window, Marks, TableRow, BAND, METER};
 pub(crate) use marks::{Panel, BAND_ALPHA};
+pub(crate) use style::{font, line, DrawResult, Sc, Swatch, FONT_PX};
+pub use style::{species_color, Frame, CAPACITY, CURSOR, GRID, INK, MUTED, PALETTE, TITRATION};
+use style::{LEGEND_ROW, SMALL_PX};
+use summary::pk_legend;
 pub use summary::{capacity_summary, species_summary, titration_summary};
-
-/// Species colours: our own palette, each at least 3:1 against white.
-/// Species of the second and later systems are also drawn dashed.
-pub const PALETTE: [RGBColor; 12] = [
-    RGBColor(0x1d, 0x5f, 0xa6),
-    RGBColor(0xc0, 0x4a, 0x0b),
-    RGBColor(0x0e, 0x7c, 0x5a),
-    RGBColor(0x9c, 0x27, 0x7b),
-    RGBColor(0x5b, 0x45, 0xb8),
-    RGBColor(0x8a, 0x6a, 0x00),
-    RGBColor(0xb4, 0x23, 0x3c),
-    RGBColor(0x2c, 0x6e, 0x7f),
-    RGBColor(0x4a, 0x7a, 0x12),
-    RGBColor(0xc2, 0x18, 0x6e),
-    RGBColor(0x6b, 0x4a, 0x2b),
-    RGBColor(0x3f, 0x51, 0x6b),
-];
-/// Text and the working-pH marker.
-pub const INK: RGBColor = RGBColor(0x1b, 0x1f, 0x24);
-/// Axis labels and pK markers.
-pub const MUTED: RGBColor = RGBColor(0x5f, 0x66, 0x70);
-/// Grid lines.
-pub const GRID: RGBColor = RGBColor(0xe3, 0xe7, 0xeb);
-/// Pointer cursor.
-pub const CURSOR: RGBColor = RGBColor(0x8a, 0x93, 0x9e);
-/// Buffer capacity curve.
-pub const CAPACITY: RGBColor = RGBColor(0x0f, 0x6b, 0x74);
-/// Titration curve.
-pub const TITRATION: RGBColor = RGBColor(0x3d, 0x3a, 0x9e);
-
-/// Font family for every plot label: generic, measured by the browser.
-const FAMILY: &str = "sans-serif";
-pub(crate) const FONT_PX: f64 = 13.0;
-const SMALL_PX: f64 = 12.0;
-const LEGEND_ROW: i32 = 20;
-
-/// Species colour for series `i`.
-pub fn species_color(i: usize) -> RGBColor {
-    PALETTE.get(i % PALETTE.len()).copied().unwrap_or(INK)
-}
-
-/// The plotting rectangle (CSS px) and the data ranges it shows.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct Frame {
-    /// Left edge, px.
-    pub left: i32,
-    /// Right edge, px.
-    pub right: i32,
-    /// Top edge, px.
-    pub top: i32,
-    /// Bottom edge, px.
-    pub bottom: i32,
-    /// Data x at the left and right edges.
-    pub x: (f64, f64),
-}
-
-impl Frame {
-    /// Data x under pixel column `px` (clamped to the range), or `None` when the
-    /// frame is degenerate.
-    pub fn x_at(&self, px: f64) -> Option<f64> {
-        let w = f64::from(self.right - self.left);
-        if w < 1.0 {
-            return None;
-        }
-        let t = ((px - f64::from(self.left)) / w).clamp(0.0, 1.0);
-        Some(self.x.0 + t * (self.x.1 - self.x.0))
-    }
-}
-
-/// What a legend entry's swatch looks like.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub(crate) enum Swatch {
-    Line(RGBColor),
-    Dashed(RGBColor),
-    Dot(RGBColor),
-    /// A light filled box (the tolerance window).
-    Band(RGBColor),
-}
-
-pub(crate) type DrawResult<T, DB> =
-    Result<T, DrawingAreaErrorKind<<DB as DrawingBackend>::ErrorType>>;
-
-/// Size factor from CSS pixels to backend pixels (the device pixel ratio on
-/// the page's canvas, 1 in SVG tests): every length, width and font size goes through it.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub(crate) struct Sc(f64);
-
-impl Sc {
-    pub(crate) fn new(scale: f64) -> Self {
-        Sc(if scale.is_finite() && scale > 0.0 {
-            scale.clamp(0.25, 8.0)
-        } else {
-            1.0
-        })
-    }
-    /// A length in backend pixels.
-    pub(crate) fn i(self, css_px: i32) -> i32 {
-        (f64::from(css_px) * self.0).round() as i32
-    }
-    /// A width or radius in backend pixels (at least 1).
-    pub(crate) fn u(self, css_px: u32) -> u32 {
-        (f64::from(css_px) * self.0).round().max(1.0) as u32
-    }
-}
-
-pub(crate) fn font(s: Sc, px: f64) -> TextStyle<'static> {
-    TextStyle::from((FAMILY, px * s.0).into_font()).color(&INK)
-}
-
-pub(crate) fn line(s: Sc, color: RGBColor, width: u32) -> ShapeStyle {
-    ShapeStyle {
-        color: color.to_rgba(),
-        filled: false,
-        stroke_width: s.u(width),
-    }
-}
 
 /// Short axis tick text: at most three decimals, trailing zeros dropped.
 pub fn tick(v: f64) -> String {
@@ -254,42 +140,6 @@ pub(crate) fn frame_of<DB: DrawingBackend, CT: CoordTranslate>(
         bottom: yr.end,
         x,
     }
-}
-
-/// pK legend entries: one line for a single system ("pKa at 37 °C, I = 0: 2.21, 7.18,
-/// 12.25"), one per system when there are several.
-fn pk_legend(data: &PlotData) -> Vec<(Swatch, String)> {
-    let t = short(data.temperature_c, 3);
-    let list = |pks: &[f64]| {
-        pks.iter()
-            .map(|pk| format!("{pk:.2}"))
-            .collect::<Vec<_>>()
-            .join(", ")
-    };
-    match data.systems.as_slice() {
-        [one] => vec![(
-            Swatch::Dashed(MUTED),
-            format!("pKa at {t} °C, I = 0: {}", list(&one.pks)),
-        )],
-        many => many
-            .iter()
-            .map(|sys| {
-                (
-                    Swatch::Dashed(MUTED),
-                    format!("pKa {} ({t} °C, I = 0): {}", sys.name, list(&sys.pks)),
-                )
-            })
-            .collect(),
-    }
-}
-
-/// Text of the pK legend for summaries.
-fn pk_text(data: &PlotData) -> String {
-    pk_legend(data)
-        .into_iter()
-        .map(|e| e.1)
-        .collect::<Vec<_>>()
-        .join("; ")
 }
 
 /// Draw the dashed pK lines (vertical, on a pH x-axis) with their values in the top margin.
@@ -648,6 +498,33 @@ pub(crate) fn capacity_panel<DB: DrawingBackend>(
         }
     }
     Ok(frame_of(chart.plotting_area(), p.x))
+}
+
+/// The recipe's compact plot: species fractions above, buffer capacity
+/// below, both over [`recipe_window`] with the marks. Returns the species
+/// panel's frame.
+///
+/// # Errors
+///
+/// Backend drawing errors.
+pub fn draw_recipe_chemistry<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    data: &PlotData,
+    marks: &Marks,
+    scale: f64,
+) -> DrawResult<Frame, DB> {
+    let s = Sc::new(scale);
+    area.fill(&WHITE)?;
+    let h = area.dim_in_pixel().1;
+    let split = i32::try_from(h).unwrap_or(0) * 3 / 5;
+    let (top, bottom) = area.split_vertically(split);
+    let p = Panel {
+        x: recipe_window(marks.target),
+        marks: Some(marks),
+    };
+    let frame = species_panel(s, &top, data, Quantity::Fraction, None, &p)?;
+    capacity_panel(s, &bottom, data, None, &p)?;
+    Ok(frame)
 }
 
 /// Titration plot: pH against strong acid (left, HCl) or base (right, NaOH)

@@ -1,7 +1,43 @@
 //! Text summaries of the plots for the canvases' `aria-label`s.
 
-use super::pk_text;
-use crate::plots::data::{added_label, sig, PlotData};
+use super::style::{Swatch, MUTED};
+use crate::plots::data::{added_label, short, sig, PlotData};
+
+/// pK legend entries: one line for a single system ("pKa at 37 °C, I = 0: 2.21, 7.18,
+/// 12.25"), one per system when there are several.
+pub(super) fn pk_legend(data: &PlotData) -> Vec<(Swatch, String)> {
+    let t = short(data.temperature_c, 3);
+    let list = |pks: &[f64]| {
+        pks.iter()
+            .map(|pk| format!("{pk:.2}"))
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    match data.systems.as_slice() {
+        [one] => vec![(
+            Swatch::Dashed(MUTED),
+            format!("pKa at {t} °C, I = 0: {}", list(&one.pks)),
+        )],
+        many => many
+            .iter()
+            .map(|sys| {
+                (
+                    Swatch::Dashed(MUTED),
+                    format!("pKa {} ({t} °C, I = 0): {}", sys.name, list(&sys.pks)),
+                )
+            })
+            .collect(),
+    }
+}
+
+/// Text of the pK legend for summaries.
+fn pk_text(data: &PlotData) -> String {
+    pk_legend(data)
+        .into_iter()
+        .map(|e| e.1)
+        .collect::<Vec<_>>()
+        .join("; ")
+}
 
 /// Text for the canvas `aria-label` of the species plot.
 pub fn species_summary(data: &PlotData) -> String {

@@ -5,20 +5,15 @@
 //! `Memo` and writes the design from its handlers.
 
 use crate::state::use_app;
-use crate::widgets::format::{error_field, error_message, fmt_ph, fmt_sig, Rule};
-use crate::widgets::inputs::{Choice, ChoiceOption, NumberField};
+use crate::widgets::field::{Plausible, UnitOpt};
+use crate::widgets::format::{error_field, error_message, fmt_ph, fmt_sig};
+use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, StoredUnits};
 use leptos::prelude::*;
 use solver::field::carbonate::{Alkalinity, AlkalinityUnit};
 use solver::field::limit::{Limit, LimitResult, LimitUnit};
 use solver::field::{target_species, FieldResult, FieldSpec, FieldSpecies};
+use solver::system::formula::basis_mass;
 use solver::SolverError;
-
-/// Practical salinity, PSU.
-pub const SALINITY: Rule = solver::limits::SALINITY_PSU;
-/// Alkalinity (mg/L as CaCO₃ or meq/L).
-pub const ALKALINITY: Rule = solver::limits::ALKALINITY_VALUE;
-/// A user's limit (above zero).
-pub const LIMIT_VALUE: Rule = solver::limits::LIMIT_VALUE;
 
 /// Limit units that fit a system, in display order.
 pub fn limit_units(system: &str) -> Vec<LimitUnit> {
@@ -104,106 +99,179 @@ fn err_signal(
     })
 }
 
-/// Alkalinity value and unit (carbonate, in place of a total).
+/// The alkalinity units, each with its factor to meq/L (the solver's
+/// `Alkalinity::to_eq_per_l`: 50.04 mg of CaCO₃ per meq).
+pub fn alkalinity_units() -> Vec<UnitOpt> {
+    let meq = |unit| {
+        Alkalinity { value: 1.0, unit }
+            .to_eq_per_l()
+            .map_or(f64::NAN, |eq| eq * 1000.0)
+    };
+    vec![
+        UnitOpt::new(
+            "mg_caco3",
+            "mg/L as CaCO₃",
+            meq(AlkalinityUnit::MgPerLCaco3),
+        ),
+        UnitOpt::new("meq", "meq/L", meq(AlkalinityUnit::MeqPerL)),
+    ]
+}
+
+/// Where the alkalinity of natural and process waters usually lies, meq/L
+/// (common practice: rarely above 20 meq/L, i.e. about 1000 mg/L as CaCO₃;
+/// value from memory): past it the page asks to check the unit.
+pub const ALKALINITY_USUAL: Plausible = Plausible {
+    lo: 0.0,
+    hi: 20.0,
+    what: "natural waters",
+};
+
+/// The limit units of a system, each with its factor to mmol/L of the form
+/// that matters (mass per unit over the basis's molar mass, the solver's
+/// `basis_mass`), so that picking one converts the limit.
+pub fn limit_unit_options(system: &str) -> Vec<UnitOpt> {
+    limit_units(system)
+        .into_iter()
+        .map(|u| {
+            let (_, _, formula, mg) = u.parts();
+            let factor = basis_mass(formula).map_or(f64::NAN, |m| mg / m);
+            UnitOpt::new(u.key(), u.label(), factor)
+        })
+        .collect()
+}
+
+/// The limit choice: none, or a limit (the one put away last if it fits the
+/// system, else 1 in the system's first limit unit). `last` keeps a limit
+/// that is put away.
+pub fn set_limit_kind(f: &mut FieldSpec, set: bool, last: &mut Option<Limit>) {
+    if let Some(l) = f.limit {
+        *last = Some(l);
+    }
+    let first = limit_units(&f.system).first().copied();
+    f.limit = match (set, first) {
+        (true, Some(unit)) => Some(
+            f.limit
+                .or_else(|| last.filter(|l| l.unit.parts().0 == unit.parts().0))
+                .unwrap_or(Limit { value: 1.0, unit }),
+        ),
+        _ => None,
+    };
+}
+
+/// Alkalinity value and unit (carbonate, in place of a total). The field is
+/// built when the alkalinity appears, never on a keystroke.
 #[component]
 pub fn AlkalinityInputs(
     spec: Memo<FieldSpec>,
     result: Memo<Result<FieldResult, SolverError>>,
 ) -> impl IntoView {
     let design = use_app().design;
-    let unit_key = move || {
+    let has = Memo::new(move |_| spec.with(|s| s.alkalinity.is_some()));
+    let unit_key = Memo::new(move |_| {
         spec.with(|s| match s.alkalinity.map(|a| a.unit) {
             Some(AlkalinityUnit::MeqPerL) => "meq",
             _ => "mg_caco3",
         })
         .to_string()
+    });
+    let stored = StoredUnits {
+        options: Signal::stored(alkalinity_units()),
+        key: unit_key.into(),
+        on_unit: Callback::new(move |(k, v): (String, f64)| {
+            design.update(|d| {
+                let unit = if k == "meq" {
+                    AlkalinityUnit::MeqPerL
+                } else {
+                    AlkalinityUnit::MgPerLCaco3
+                };
+                d.field.alkalinity = Some(Alkalinity { value: v, unit });
+            })
+        }),
     };
     move || {
-        spec.with(|s| s.alkalinity.is_some()).then(|| {
+        has.get().then(|| {
             view! {
-                <div class="row-2">
-                    <NumberField
-                        id="field-alk"
-                        label="Alkalinity"
-                        value=Signal::derive(move || spec.with(|s| s.alkalinity.map_or(0.0, |a| a.value)))
-                        on_value=Callback::new(move |v| design.update(|d| {
-                            if let Some(a) = &mut d.field.alkalinity { a.value = v }
-                        }))
-                        rule=ALKALINITY
-                        error=err_signal(result, "alkalinity.value")
-                        hint="Total alkalinity, titrated to about pH 4.5"
-                    />
-                    <Choice
-                        name="field-alk-unit"
-                        legend="Alkalinity unit"
-                        options=vec![
-                            ChoiceOption::new("mg_caco3", "mg/L as CaCO₃"),
-                            ChoiceOption::new("meq", "meq/L"),
-                        ]
-                        selected=Signal::derive(unit_key)
-                        on_change=Callback::new(move |k: String| design.update(|d| {
-                            let unit = if k == "meq" { AlkalinityUnit::MeqPerL } else { AlkalinityUnit::MgPerLCaco3 };
-                            let value = d.field.alkalinity.map_or(100.0, |a| a.value);
-                            d.field.alkalinity = Some(Alkalinity { value, unit });
-                        }))
-                    />
-                </div>
+                <NumberField
+                    id="field-alk"
+                    label="Alkalinity"
+                    path="field.alkalinity.value"
+                    value=Signal::derive(move || spec.with(|s| s.alkalinity.map_or(0.0, |a| a.value)))
+                    on_value=Callback::new(move |v| design.update(|d| {
+                        if let Some(a) = &mut d.field.alkalinity { a.value = v }
+                    }))
+                    stored=stored
+                    plausible=ALKALINITY_USUAL
+                    error=err_signal(result, "alkalinity.value")
+                    hint="Total alkalinity, titrated to about pH 4.5"
+                />
             }
         })
     }
 }
 
-/// The user's limit: unit (or none) and value, with the plain line that limits are the user's.
+/// The user's limit: none or one, its value and unit, with the plain line
+/// that limits are the user's. Built per system, never on a keystroke.
 #[component]
 pub fn LimitInputs(
     spec: Memo<FieldSpec>,
     result: Memo<Result<FieldResult, SolverError>>,
 ) -> impl IntoView {
     let design = use_app().design;
-    let last_value = StoredValue::new(1.0_f64);
+    let last = StoredValue::new(None::<Limit>);
+    let system = Memo::new(move |_| spec.with(|s| s.system.clone()));
+    let has = Memo::new(move |_| spec.with(|s| s.limit.is_some()));
+    let unit_key = Memo::new(move |_| {
+        spec.with(|s| {
+            s.limit
+                .map(|l| l.unit.key().to_string())
+                .unwrap_or_default()
+        })
+    });
     move || {
-        let system = spec.with(|s| s.system.clone());
+        let system = system.get();
         let (_, why) = target_species(&system)?;
-        let mut options = vec![ChoiceOption::new("none", "No limit")];
-        for u in limit_units(&system) {
-            options.push(ChoiceOption::new(u.key(), u.label()));
-        }
-        let selected = Signal::derive(move || {
-            spec.with(|s| s.limit.map_or("none", |l| l.unit.key()).to_string())
-        });
+        limit_units(&system).first()?;
+        let options = vec![
+            ChoiceOption::new("none", "No limit"),
+            ChoiceOption::new("set", "Set a limit"),
+        ];
         let on_change = Callback::new(move |k: String| {
             design.update(|d| {
-                if let Some(l) = d.field.limit {
-                    last_value.set_value(l.value);
-                }
-                d.field.limit = LimitUnit::from_key(&k).map(|unit| Limit {
-                    value: d
-                        .field
-                        .limit
-                        .map_or_else(|| last_value.get_value(), |l| l.value),
-                    unit,
-                });
+                let mut l = last.get_value();
+                set_limit_kind(&mut d.field, k == "set", &mut l);
+                last.set_value(l);
             })
         });
+        let stored = StoredUnits {
+            options: Signal::stored(limit_unit_options(&system)),
+            key: unit_key.into(),
+            on_unit: Callback::new(move |(k, v): (String, f64)| {
+                design.update(|d| {
+                    if let Some(unit) = LimitUnit::from_key(&k) {
+                        d.field.limit = Some(Limit { value: v, unit });
+                    }
+                })
+            }),
+        };
         Some(view! {
             <div class="field-limit-inputs" data-testid="field-limit-inputs">
                 <Choice
-                    name="field-limit-unit"
+                    name="field-limit-kind"
                     legend=format!("Your limit for {}", why.to_ascii_lowercase())
                     options=options
-                    selected=selected
+                    selected=Signal::derive(move || if has.get() { "set" } else { "none" }.to_string())
                     on_change=on_change
                 />
-                {move || spec.with(|s| s.limit.map(|l| l.unit.label())).map(|suffix| view! {
+                {move || has.get().then(|| view! {
                     <NumberField
                         id="field-limit"
                         label="Limit"
+                        path="field.limit.value"
                         value=Signal::derive(move || spec.with(|s| s.limit.map_or(0.0, |l| l.value)))
                         on_value=Callback::new(move |v| design.update(|d| {
                             if let Some(l) = &mut d.field.limit { l.value = v }
                         }))
-                        rule=LIMIT_VALUE
-                        suffix=suffix
+                        stored=stored
                         error=err_signal(result, "limit.value")
                     />
                 })}

@@ -11,6 +11,7 @@
 //! untouched.
 
 use super::log_data::{append_csv, override_choice, roles_per_column, LogSummary, ShownRow};
+use super::log_keep;
 use crate::plots::canvas::{CanvasArea, PlotCanvas};
 use crate::plots::field::{draw_log, LogSeries};
 use crate::widgets::format::{fmt_pct, fmt_ph, fmt_sig};
@@ -230,6 +231,24 @@ pub fn DayLog(spec: Memo<FieldSpec>, custom: Memo<Vec<AcidSystem>>) -> impl Into
             ))),
         }
     };
+    // Kept for the page's life and across a reload (see `log_keep`).
+    let keep = move || {
+        source.with_value(|bytes| {
+            let text = (bytes.len() <= 4 * log_keep::KEEP_MAX_CHARS)
+                .then(|| String::from_utf8(bytes.clone()).ok())
+                .flatten()
+                .filter(|t| !t.is_empty());
+            let mut d = log_keep::LogDraft {
+                name: name.get_untracked(),
+                pasted: pasted.get_untracked(),
+                source_dropped: text.is_none() && !bytes.is_empty(),
+                source: text,
+                mapping: Vec::new(),
+            };
+            d.set_choices(&mapping.get_untracked());
+            log_keep::keep(&d, bytes);
+        });
+    };
     let load = move |bytes: Vec<u8>, file: String| {
         if bytes.len() > MAX_BYTES {
             message.set(Some(format!(
@@ -241,7 +260,24 @@ pub fn DayLog(spec: Memo<FieldSpec>, custom: Memo<Vec<AcidSystem>>) -> impl Into
         name.set(file);
         mapping.set(Vec::new());
         plan_and_run();
+        keep();
     };
+    if let Some((d, bytes)) = log_keep::restore() {
+        pasted.set(d.pasted.clone());
+        name.set(d.name.clone());
+        mapping.set(d.choices());
+        if bytes.is_empty() {
+            if d.source_dropped {
+                message.set(Some(format!(
+                    "The log “{}” was too large to keep across a reload: open it again (your column choices are kept).",
+                    d.name
+                )));
+            }
+        } else {
+            source.set_value(bytes);
+            plan_and_run();
+        }
+    }
     let on_file = move |ev: leptos::ev::Event| {
         let input = event_target::<web_sys::HtmlInputElement>(&ev);
         let Some(file) = input.files().and_then(|f| f.get(0)) else {
@@ -276,6 +312,7 @@ pub fn DayLog(spec: Memo<FieldSpec>, custom: Memo<Vec<AcidSystem>>) -> impl Into
         let role = Role::from_key(&value);
         mapping.update(|m| *m = override_choice(m, col, current, role));
         plan_and_run();
+        keep();
     };
     let export = move |_| {
         let text = run.csv.get_value();
@@ -321,7 +358,10 @@ pub fn DayLog(spec: Memo<FieldSpec>, custom: Memo<Vec<AcidSystem>>) -> impl Into
                 data-testid="field-log-text"
                 rows="5"
                 prop:value=move || pasted.get()
-                on:input=move |ev| pasted.set(event_target_value(&ev))
+                on:input=move |ev| {
+                    pasted.set(event_target_value(&ev));
+                    keep();
+                }
             ></textarea>
             <div class="log-actions">
                 <button

@@ -28,8 +28,7 @@ use crate::state::use_app;
 use crate::widgets::answer::AnswerBar;
 use crate::widgets::cautions::CautionPanel;
 use crate::widgets::format::{
-    error_field, error_message, fmt_sig, pretty_formula, BUFFER_CONC, CONCENTRATE, CONC_UNITS, PH,
-    STOCK, TEMPERATURE, TOLERANCE, VOLUME, VOLUME_UNITS,
+    error_field, error_message, fmt_sig, pretty_formula, CONC_UNITS, VOLUME_UNITS,
 };
 use crate::widgets::inputs::{Choice, ChoiceOption, NumberField, SystemPicker};
 use leptos::prelude::*;
@@ -121,7 +120,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     value=Signal::derive(move || spec.with(|s| s.target_ph))
                     on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.target_ph = v)))
                     on_commit=Callback::new(commit)
-                    rule=PH
+                    path="recipe.target_ph"
                     error=err_for("target_ph")
                 />
                 <NumberField
@@ -130,7 +129,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     value=temperature
                     on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.temperature_c = v)))
                     on_commit=Callback::new(commit)
-                    rule=TEMPERATURE
+                    path="recipe.temperature_c"
                     suffix="°C"
                     error=err_for("temperature_c")
                 />
@@ -141,7 +140,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     label="Buffer concentration"
                     value=Signal::derive(move || spec.with(|s| s.total_conc_m))
                     on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.total_conc_m = v)))
-                    rule=BUFFER_CONC
+                    path="recipe.total_conc_m"
                     units=CONC_UNITS
                     error=err_for("total_conc_m")
                 />
@@ -150,7 +149,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     label="Final volume"
                     value=Signal::derive(move || spec.with(|s| s.volume_l))
                     on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.volume_l = v)))
-                    rule=VOLUME
+                    path="recipe.volume_l"
                     units=VOLUME_UNITS
                     error=err_for("volume_l")
                 />
@@ -162,7 +161,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     hint="Where the meter reads it: usually the bench, 20–25 °C."
                     value=Signal::derive(move || spec.with(|s| s.prepare_temperature_c.unwrap_or(s.temperature_c)))
                     on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.prepare_temperature_c = Some(v))))
-                    rule=TEMPERATURE
+                    path="recipe.prepare_temperature_c"
                     suffix="°C"
                     error=err_for("prepare_temperature_c")
                 />
@@ -172,7 +171,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     hint="1 = working strength; 10 = a 10× stock diluted later."
                     value=Signal::derive(move || spec.with(|s| s.concentrate_factor))
                     on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.concentrate_factor = v)))
-                    rule=CONCENTRATE
+                    path="recipe.concentrate_factor"
                     suffix="×"
                     error=err_for("concentrate_factor")
                 />
@@ -202,7 +201,7 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     label="Tolerance window (± pH)"
                     value=Signal::derive(move || spec.with(|s| s.tolerance_ph))
                     on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.tolerance_ph = v)))
-                    rule=TOLERANCE
+                    path="recipe.tolerance_ph"
                     error=err_for("tolerance_ph")
                 />
             </details>
@@ -470,7 +469,11 @@ fn MethodInputs(
                             _ => {}
                         }))
                     })
-                    rule=STOCK
+                    path=match which {
+                        0 => "recipe.method.acid_stock_m",
+                        1 => "recipe.method.base_stock_m",
+                        _ => "recipe.method.titrant_m",
+                    }
                     units=CONC_UNITS
                     error=err
                 />

@@ -1,6 +1,7 @@
 //! The recipe card: amounts and steps from the solver, the headline, the
 //! plain-text copy, bench plausibility checks, cautions and the print sheet.
 
+use super::sheet::meter_of;
 use crate::state::use_app;
 use crate::widgets::cautions::{cautions_for, corrosive_only_if, Caution};
 use crate::widgets::format::{
@@ -40,13 +41,29 @@ pub fn answer_line(spec: &RecipeSpec, r: &RecipeResult) -> String {
         fmt_input(spec.temperature_c)
     );
     if (r.meter.temperature_c - spec.temperature_c).abs() > 1e-9 || r.concentrate.is_some() {
+        let of = meter_of(spec, r);
         line.push_str(&format!(
-            " · meter {} at {} °C",
+            " · meter {} at {} °C{}",
             fmt_ph(r.meter.ph),
-            fmt_input(r.meter.temperature_c)
+            fmt_input(r.meter.temperature_c),
+            if of.is_empty() {
+                String::new()
+            } else {
+                format!(" ({of})")
+            }
         ));
     }
     line
+}
+
+/// The concentrate's own figures: its pH where the activity model holds,
+/// and its ionic strength.
+pub(crate) fn concentrate_text(c: &solver::recipe::ConcentrateResult) -> String {
+    let ph = c.ph.map_or_else(
+        || "pH not predicted (past the activity model's range)".to_string(),
+        |p| format!("pH {}", fmt_ph(p)),
+    );
+    format!("{ph} · I {}", fmt_conc(c.ionic_strength))
 }
 
 /// Above these a bench recipe is probably a unit slip (common practice of
@@ -314,6 +331,22 @@ pub(crate) fn RecipeResultView(
                 }}
             </h2>
             <super::sheet::SheetTop spec=spec result=result pending=pending link=link />
+            // On paper the cautions come before the reagents and steps (the panel beside the
+            // result is for the screen; print.css hides it there).
+            {move || {
+                let list = spec.with(|s| custom.with(|c| recipe_cautions(s, c)));
+                (!list.is_empty()).then(|| view! {
+                    <aside class="print-only cautions sheet-cautions-first" data-testid="sheet-cautions" aria-hidden="true">
+                        <h3>"Cautions"</h3>
+                        <ul>
+                            {list.into_iter().map(|c| view! {
+                                <li><strong>{c.title()}": "</strong>{c.text()}</li>
+                            }).collect_view()}
+                        </ul>
+                        <p class="defer">{crate::widgets::cautions::DEFER}</p>
+                    </aside>
+                })
+            }}
             <div aria-live="polite">{body}</div>
             <super::sheet::SheetFill spec=spec result=result pending=pending link=link no_cautions=no_cautions />
             <p class="print-only print-model">
@@ -409,7 +442,14 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
             </div>
             {meter_shown.then(|| view! {
                 <div class="big-number meter">
-                    <span class="big-label">{format!("Meter should read, at {} °C", fmt_input(r.meter.temperature_c))}</span>
+                    <span class="big-label" data-testid="recipe-meter-label">{
+                        let of = meter_of(&spec, &r);
+                        if of.is_empty() {
+                            format!("Meter should read, at {} °C", fmt_input(r.meter.temperature_c))
+                        } else {
+                            format!("Meter should read, {of}, at {} °C", fmt_input(r.meter.temperature_c))
+                        }
+                    }</span>
                     <span class="big-value" data-testid="recipe-meter-ph">{fmt_ph(r.meter.ph)}</span>
                 </div>
             })}
@@ -433,7 +473,7 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
                     <div>
                         <dt>{format!("The {}× concentrate itself", fmt_input(c.factor))}</dt>
                         <dd data-testid="recipe-concentrate">
-                            {format!("pH {} · I {}", fmt_ph(c.ph), fmt_conc(c.ionic_strength))}
+                            {concentrate_text(&c)}
                         </dd>
                     </div>
                 })}

@@ -13,7 +13,7 @@ use solver::mixture::{Additive, AdditiveSpec};
 use solver::recipe::{RecipeResult, RecipeSpec};
 use solver::SolverError;
 
-/// Prefix of the salt rows' field ids (`recipe-salt-0-conc`, `recipe-salt-0-kind`).
+/// Prefix of the salt rows' field ids (`recipe-salt-<key>-conc`, `recipe-salt-<key>-kind`).
 pub const SALT_PREFIX: &str = "recipe-salt-";
 
 /// What the page says about duplicates, beside the list.
@@ -113,7 +113,8 @@ fn salt_label(a: Additive) -> &'static str {
     }
 }
 
-/// The salt rows with their add button and the duplicate rule.
+/// The salt rows with their add button and the duplicate rule. Rows are
+/// keyed by a stable id (see `widgets::rows`), never by position.
 #[component]
 pub(crate) fn SaltRows(
     spec: Memo<RecipeSpec>,
@@ -123,6 +124,7 @@ pub(crate) fn SaltRows(
     let design = app.design;
     let readonly = move || app.view.with(|v| v.readonly);
     let count = Memo::new(move |_| spec.with(|s| s.salts.len()));
+    let keys = crate::widgets::rows::keyed(SALT_PREFIX, count, app.rows, app.revision);
     let can_add = Memo::new(move |_| spec.with(|s| next_salt(&s.salts).is_some()));
     let on_add = move |_| {
         design.update(|d| {
@@ -133,11 +135,9 @@ pub(crate) fn SaltRows(
         <h3 id="recipe-salts-title">"Added salts"</h3>
         <p class="hint" data-testid="recipe-salts-rule">{DUPLICATE_RULE}</p>
         <div class="rows" role="group" aria-labelledby="recipe-salts-title" data-testid="recipe-salts">
-            {move || {
-                (0..count.get())
-                    .map(|i| view! { <SaltRow i=i spec=spec result=result /> })
-                    .collect_view()
-            }}
+            <crate::widgets::rows::KeyedRows keys=keys row=Callback::new(move |k| view! {
+                <SaltRow row=k pos=crate::widgets::rows::position(keys, k) spec=spec result=result />
+            }.into_any()) />
             {move || (count.get() == 0).then(|| view! { <p class="hint">"No salt added."</p> })}
         </div>
         <button type="button" class="btn secondary" data-testid="recipe-add-salt"
@@ -152,23 +152,27 @@ pub(crate) fn SaltRows(
 }
 
 /// One salt row: which salt, its concentration, remove; the solver's
-/// message for the row beside it.
+/// message for the row beside it. `row` is its stable key (its field ids),
+/// `pos` where it is now (its label and the solver's `salts[i]`).
 #[component]
 fn SaltRow(
-    i: usize,
+    row: u64,
+    pos: Memo<Option<usize>>,
     spec: Memo<RecipeSpec>,
     result: Memo<Result<RecipeResult, SolverError>>,
 ) -> impl IntoView {
     let app = use_app();
     let design = app.design;
     let readonly = move || app.view.with(|v| v.readonly);
-    let row = move || spec.with(|s| s.salts.get(i).copied());
-    let key = move || row().map_or("nacl", |a| salt_key(a.additive));
+    let salt = move || spec.with(|s| pos.get().and_then(|i| s.salts.get(i).copied()));
+    let key = move || salt().map_or("nacl", |a| salt_key(a.additive));
     let err = Signal::derive(move || {
+        let i = pos.get()?;
         result.with(|r| r.as_ref().err().and_then(|e| salt_row_error(e, i)))
     });
     // A duplicate names the row (`salts[i]`), not its amount: say it under the picker.
     let kind_err = Signal::derive(move || {
+        let i = pos.get()?;
         result.with(|r| match r {
             Err(e) if error_field(e).as_deref() == Some(&format!("salts[{i}]")) => {
                 Some(error_message(e))
@@ -177,18 +181,20 @@ fn SaltRow(
         })
     });
     let conc_err = Signal::derive(move || err.get().filter(|_| kind_err.get().is_none()));
-    let sel_id = format!("{SALT_PREFIX}{i}-kind");
+    let n = move || pos.get().map_or(0, |i| i + 1);
+    let sel_id = format!("{SALT_PREFIX}{row}-kind");
+    let kind_msg = format!("error-{SALT_PREFIX}{row}-kind");
     view! {
-        <div class="row-card" data-testid=format!("recipe-salt-{i}")>
+        <div class="row-card" data-testid=format!("{SALT_PREFIX}{row}")>
             <div class="field" class:invalid=move || kind_err.get().is_some()>
-                <label for=sel_id.clone()>{format!("Salt {}", i + 1)}</label>
+                <label for=sel_id.clone()>{move || format!("Salt {}", n())}</label>
                 <select
                     id=sel_id
                     disabled=readonly
                     prop:value=key
                     aria-invalid=move || if kind_err.get().is_some() { "true" } else { "false" }
                     on:change=move |ev| {
-                        if let Some(a) = salt_from_key(&event_target_value(&ev)) {
+                        if let (Some(a), Some(i)) = (salt_from_key(&event_target_value(&ev)), pos.get_untracked()) {
                             design.update(|d| set_salt_kind(&mut d.recipe.salts, i, a));
                         }
                     }
@@ -206,7 +212,7 @@ fn SaltRow(
                         .get()
                         .map(|m| {
                             view! {
-                                <p class="field-msg" data-testid=format!("error-recipe-salt-{i}-kind") role="alert">
+                                <p class="field-msg" data-testid=kind_msg.clone() role="alert">
                                     {m}
                                 </p>
                             }
@@ -215,11 +221,17 @@ fn SaltRow(
             </div>
             <crate::workspaces::flask::RowEnd
                 prefix=SALT_PREFIX
-                i=i
-                remove_label=format!("Remove salt {}", i + 1)
-                value=Signal::derive(move || row().map_or(0.0, |a| a.conc_m))
-                on_value=Callback::new(move |v| design.update(|d| set_salt_conc(&mut d.recipe.salts, i, v)))
-                on_remove=Callback::new(move |()| design.update(|d| remove_salt(&mut d.recipe.salts, i)))
+                row=row
+                pos=pos
+                path="recipe.salts[].conc_m"
+                remove_label=Signal::derive(move || format!("Remove salt {}", n()))
+                value=Signal::derive(move || salt().map_or(0.0, |a| a.conc_m))
+                on_value=Callback::new(move |v| {
+                    if let Some(i) = pos.get_untracked() {
+                        design.update(|d| set_salt_conc(&mut d.recipe.salts, i, v));
+                    }
+                })
+                on_remove=Callback::new(move |i: usize| design.update(|d| remove_salt(&mut d.recipe.salts, i)))
                 error=conc_err
             />
         </div>

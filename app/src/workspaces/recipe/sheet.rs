@@ -6,7 +6,7 @@
 //! designs panel shares (`designs::share`), so scanning the sheet reopens
 //! the design.
 
-use crate::designs::share::{page_base, share_url};
+use crate::designs::share::share_url;
 use crate::state::use_app;
 use crate::widgets::format::{fmt_input, fmt_ph, pretty_formula};
 use leptos::leptos_dom::helpers::{
@@ -14,7 +14,7 @@ use leptos::leptos_dom::helpers::{
 };
 use leptos::prelude::*;
 use qrcode::{Color, EcLevel, QrCode};
-use solver::recipe::{RecipeResult, RecipeSpec};
+use solver::recipe::{MeterSolution, RecipeResult, RecipeSpec};
 use solver::SolverError;
 use std::time::Duration;
 
@@ -66,14 +66,26 @@ pub fn qr_svg(text: &str) -> Result<QrSvg, String> {
     })
 }
 
+/// Which solution the meter reading is of, in words ("" for the buffer as
+/// made): every meter figure on the card and the sheet is labelled with it.
+pub(crate) fn meter_of(spec: &RecipeSpec, r: &RecipeResult) -> String {
+    let n = fmt_input(spec.concentrate_factor);
+    match r.meter.solution {
+        MeterSolution::WorkingBuffer => String::new(),
+        MeterSolution::Concentrate => format!("the {n}× concentrate"),
+        MeterSolution::DilutedPortion => format!("a portion diluted {n}-fold, not the concentrate"),
+    }
+}
+
 /// The meter line of the sheet: what the meter must read where the buffer
 /// is made, and the pH it has once in use.
 pub fn sheet_meter_text(spec: &RecipeSpec, r: &RecipeResult) -> (String, String) {
     let big = fmt_ph(r.meter.ph);
-    let what = if r.concentrate.is_some() {
-        "the concentrate"
+    let of = meter_of(spec, r);
+    let what = if of.is_empty() {
+        "the buffer".to_string()
     } else {
-        "the buffer"
+        of
     };
     let detail = format!(
         "Meter reading of {what} at {} °C. Once in use: pH {} at {} °C.",
@@ -88,10 +100,15 @@ pub fn sheet_meter_text(spec: &RecipeSpec, r: &RecipeResult) -> (String, String)
 /// full page's address), for the sheet's QR code and its small print.
 pub(crate) fn share_link() -> Memo<String> {
     let app = use_app();
+    let given = crate::designs::use_store().map(|s| s.page_address);
     Memo::new(move |_| {
         let d = app.design.get();
         let href = window().location().href().unwrap_or_default();
-        share_url(page_base(&href), &d)
+        let given = given.and_then(|g| g.get());
+        share_url(
+            &crate::designs::address::link_base(&href, given.as_deref()),
+            &d,
+        )
     })
 }
 
@@ -202,7 +219,7 @@ pub(crate) fn SheetFill(
 ) -> impl IntoView {
     let painted = use_app().painted;
     move || {
-        solved(spec, result, pending, painted).map(|(_, r)| {
+        solved(spec, result, pending, painted).map(|(sp, r)| {
             let lots = r
                 .ingredients
                 .iter()
@@ -215,10 +232,12 @@ pub(crate) fn SheetFill(
                     }
                 })
                 .collect_view();
+            let of = meter_of(&sp, &r);
             let target = format!(
-                "at ____ °C (meter must read {} at {} °C)",
+                "at ____ °C (meter must read {} at {} °C{})",
                 fmt_ph(r.meter.ph),
-                fmt_input(r.meter.temperature_c)
+                fmt_input(r.meter.temperature_c),
+                if of.is_empty() { String::new() } else { format!(", {of}") }
             );
             view! {
                 <section class="print-only bench-sheet" data-testid="recipe-sheet-fill" aria-label="Bench record">
@@ -240,7 +259,11 @@ pub(crate) fn SheetFill(
                         </div>
                         <div class="fill"><span class="fill-label">"Expiry"</span><span class="fill-line"></span></div>
                     </div>
+                    <crate::workspaces::meter::sheet::MeterSheet />
                     <p class="sheet-link" data-testid="sheet-link">{move || link.get()}</p>
+                    {move || link.with(|l| crate::designs::address::local_note(l)).map(|n| view! {
+                        <p class="sheet-link" data-testid="sheet-link-local">{n}</p>
+                    })}
                 </section>
             }
         })

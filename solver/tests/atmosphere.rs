@@ -1,5 +1,10 @@
 //! The CO₂ atmosphere (open carbonate system) against published solubilities, textbook relations and its own invariants.
-#![allow(clippy::unwrap_used, clippy::expect_used, clippy::indexing_slicing)]
+#![allow(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::indexing_slicing,
+    clippy::panic
+)]
 
 use proptest::prelude::*;
 use solver::atmosphere::field::field_gas;

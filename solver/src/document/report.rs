@@ -186,21 +186,6 @@ pub fn design_uncertainty(d: &Design, inputs: &UncertaintyInputs) -> DesignUncer
     }
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-    use crate::document::design::{parse_design, to_json_pretty};
-
-    #[test]
-    fn demo_round_trips_and_reports() {
-        let d = demo_design();
-        assert_eq!(parse_design(&to_json_pretty(&d)).unwrap(), d);
-        let r = report(&d);
-        assert!(r.recipe.is_ok() && r.mixture.is_ok() && r.field.is_ok());
-        assert!(r.what_if.is_ok() && r.curves.is_ok() && r.titration.is_ok());
-    }
-}
-
 /// A design with the gas `a` put over every workspace that holds carbonate
 /// (a carbonate recipe, a mixture listing carbonate, a carbonate field
 /// reading with an alkalinity), keeping a pressure already given there.
@@ -245,4 +230,19 @@ pub fn with_co2(d: &Design, a: &Atmosphere) -> Result<(Design, Vec<&'static str>
     }
     validate_design(&out)?;
     Ok((out, changed))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::document::design::{parse_design, to_json_pretty};
+
+    #[test]
+    fn demo_round_trips_and_reports() {
+        let d = demo_design();
+        assert_eq!(parse_design(&to_json_pretty(&d)).unwrap(), d);
+        let r = report(&d);
+        assert!(r.recipe.is_ok() && r.mixture.is_ok() && r.field.is_ok());
+        assert!(r.what_if.is_ok() && r.curves.is_ok() && r.titration.is_ok());
+    }
 }

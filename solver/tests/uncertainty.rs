@@ -328,6 +328,58 @@ fn budget_json_shape_and_table() {
     assert!((suggested_flask_ml(500.0) - 0.25).abs() < 1e-12);
 }
 
+/// Past the Davies range (I > 0.5 mol/L) the activity allowance takes in the
+/// whole electrostatic correction: a 0.5 M equimolar phosphate in 1 M NaCl
+/// (I ≈ 2.3 mol/L) gets a half-width A·3·√I/(1+√I) ≈ 0.9 pH at 25 °C
+/// (A = 0.5085, Davies 1962 form; phosphate's second step has
+/// |z_B² − z_HA²| = 3), where the Davies equation itself has turned over and
+/// differs from the ideal model by only a few hundredths. That the Davies
+/// equation fails past I ≈ 0.5 is common practice (concentrated phosphate
+/// reads several tenths below its dilute buffer at the bench). Within the
+/// range, the allowance stays base + per-I.
+#[test]
+fn past_the_davies_range_the_whole_electrostatic_correction_is_allowed() {
+    let flask = |nacl: f64, po4: f64| {
+        mixture(json!({
+            "temperature_c": 25.0, "activity": "davies",
+            "components": [
+                {"system": "phosphate", "form": "nah2po4_h2o", "conc_m": po4},
+                {"system": "phosphate", "form": "na2hpo4", "conc_m": po4}
+            ],
+            "additives": [{"additive": "nacl", "conc_m": nacl}]
+        }))
+    };
+    let term = |spec: &MixtureSpec| {
+        mixture_uncertainty(spec, &UncertaintyInputs::default(), &[], None)
+            .unwrap()
+            .budget
+            .into_iter()
+            .find(|b| b.input == "activity model")
+            .unwrap()
+    };
+    let high = flask(1.0, 0.25);
+    let eq = solver::mixture::solve_mixture(&high, &[])
+        .unwrap()
+        .equilibrium;
+    let i = eq.ionic_strength;
+    assert!(i > 2.0, "{i}");
+    let s = i.sqrt();
+    let half = 0.5085 * 3.0 * s / (1.0 + s);
+    assert!(half > 0.85, "{half}");
+    let t = term(&high);
+    let want = 0.005 + 0.05 * i + half / 3f64.sqrt();
+    assert!((t.u_input - want).abs() < 2e-3, "{} vs {want}", t.u_input);
+    assert!(t.source.contains("past the Davies range"), "{}", t.source);
+    // A dilute flask keeps the usual allowance.
+    let low = flask(0.0, 0.025);
+    let i = solver::mixture::solve_mixture(&low, &[])
+        .unwrap()
+        .equilibrium
+        .ionic_strength;
+    assert!(i < 0.5);
+    assert!((term(&low).u_input - (0.005 + 0.05 * i)).abs() < 1e-12);
+}
+
 proptest! {
     #![proptest_config(ProptestConfig { cases: 24, ..ProptestConfig::default() })]
 

@@ -106,7 +106,7 @@ test('meter reading, concentrate and two salts on the page equal the CLI for the
           formula: r.querySelector('.formula').textContent,
           amount: r.querySelector('.amount').textContent,
         }));
-      return { meter: t('recipe-meter-ph'), label: t('recipe-meter-label'), conc: t('recipe-concentrate'), rows, steps: t('recipe-steps') };
+      return { meter: t('recipe-meter-ph'), label: t('recipe-meter-label'), headline: t('recipe-headline'), conc: t('recipe-concentrate'), rows, steps: t('recipe-steps') };
     });
     await screenshot(page, 'bench-two-salts-desktop');
 
@@ -138,6 +138,7 @@ test('meter reading, concentrate and two salts on the page equal the CLI for the
     assert.equal(r.concentrate.ph, null, 'the CLI gives no pH for the concentrate either');
     assert.equal(r.meter.solution, 'diluted_portion');
     assert.match(shown.label, /a portion diluted 10-fold, not the concentrate/);
+    assert.match(shown.headline, /^10× concentrate of 50 mM .* once diluted/, 'the headline says a concentrate is made');
     assert.match(shown.steps, /Check: dilute a portion 1 \+ 9 with water/);
     assert.doesNotMatch(shown.steps, /titrating until the meter reads/);
     const ionic = Number(m[1]) * (m[2] === 'mM' ? 1e-3 : 1);

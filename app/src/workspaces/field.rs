@@ -218,7 +218,17 @@ pub fn FieldWorkspace() -> impl IntoView {
     let err_for = move |path: &'static str| -> Signal<Option<String>> {
         Signal::derive(move || {
             result.with(|r| match r {
-                Err(e) if error_field(e).as_deref() == Some(path) => Some(error_message(e)),
+                // The solver names document paths ("field.ionic.psu") or, in
+                // older messages, paths inside the reading ("total"): both
+                // land beside the same input.
+                Err(e)
+                    if error_field(e)
+                        .as_deref()
+                        .map(|f| f.strip_prefix("field.").unwrap_or(f))
+                        == Some(path) =>
+                {
+                    Some(error_message(e))
+                }
                 _ => None,
             })
         })

@@ -5,7 +5,7 @@ use super::pk::{pk_uncertainty, DEFAULT_U_PK};
 use super::terms::{
     BudgetRow, Distribution, Uncertainty, UncertaintyWarning, COVERAGE_FACTOR, SQRT3,
 };
-use crate::equilibrium::activity::ActivityModel;
+use crate::equilibrium::activity::{ActivityModel, DAVIES_LIMIT};
 use crate::equilibrium::solve;
 use crate::error::{in_range, Result};
 use crate::mixture::{lookup, prepare, MixtureSpec};
@@ -251,6 +251,28 @@ fn common_inputs(
     }
     if inputs.activity_allowance {
         let (u, source) = match spec.activity {
+            ActivityModel::Davies if ionic > DAVIES_LIMIT => {
+                // Past its range Davies turns over (its linear term takes
+                // over) and can be wrong in sign: a 10× saline phosphate
+                // reads well below its 1× buffer at the bench while Davies
+                // puts it above. Allow the electrostatic correction itself,
+                // A·|z_B² − z_HA²|·√I/(1+√I) for the step nearest the pH (the
+                // Davies equation without its linear term), as a rectangular
+                // half-width on top of the usual allowance.
+                let half = electrostatic_shift(&p.composition, ph0, ionic);
+                (
+                    inputs.activity_base_ph + inputs.activity_per_ionic * ionic + half / SQRT3,
+                    format!(
+                        "estimate: past the Davies range (I {} > {DAVIES_LIMIT} mol/L) ±{} pH, \
+                         the whole electrostatic correction A·Δz²·√I/(1+√I), is allowed on \
+                         top of {} + {}·I pH",
+                        crate::fmt::sig(ionic, 3),
+                        crate::fmt::sig(half, 2),
+                        inputs.activity_base_ph,
+                        inputs.activity_per_ionic
+                    ),
+                )
+            }
             ActivityModel::Davies => (
                 inputs.activity_base_ph + inputs.activity_per_ionic * ionic,
                 format!(
@@ -292,6 +314,31 @@ fn common_inputs(
         grams: None,
     });
     Ok(out)
+}
+
+/// The largest pH shift the Debye–Hückel charge term makes at `ionic` for
+/// the dissociation step nearest `ph` of any acid in the composition:
+/// `A·|z_B² − z_HA²|·√I/(1+√I)`, with z_HA = z0 − s and z_B = z0 − s − 1
+/// (so |z_B² − z_HA²| = |2(z0 − s) − 1|: 3 for phosphate's second step, 1
+/// for Tris). Zero without acids.
+fn electrostatic_shift(c: &crate::equilibrium::Composition, ph: f64, ionic: f64) -> f64 {
+    let s = ionic.max(0.0).sqrt();
+    let b = s / (1.0 + s);
+    c.acids
+        .iter()
+        .filter_map(|a| {
+            (0..a.n.min(a.ka.len()))
+                .filter_map(|k| {
+                    let ka = *a.ka.get(k)?;
+                    (ka > 0.0).then(|| ((-ka.log10() - ph).abs(), k))
+                })
+                .min_by(|x, y| x.0.total_cmp(&y.0))
+                .map(|(_, k)| {
+                    let z_ha = a.z0 - k as i32;
+                    f64::from((2 * z_ha - 1).abs()) * c.a_dh * b
+                })
+        })
+        .fold(0.0, f64::max)
 }
 
 fn keep_nonzero(v: Vec<Input>) -> Vec<Input> {

@@ -319,8 +319,15 @@ pub(crate) fn RecipeResultView(
             <h2 class="card-title" id="recipe-result-title" data-testid="recipe-headline">
                 {move || {
                     spec.with(|s| {
+                        // Say plainly what is made: a concentrate is N times
+                        // the working buffer, at its pH only once diluted.
+                        let (made, once) = if s.concentrate_factor > 1.0 {
+                            (format!("{}× concentrate of ", fmt_input(s.concentrate_factor)), " once diluted")
+                        } else {
+                            (String::new(), "")
+                        };
                         format!(
-                            "{} {} · pH {} at {} °C · {}",
+                            "{made}{} {} · pH {} at {} °C{once} · {}",
                             fmt_conc(s.total_conc_m),
                             system_name.get(),
                             fmt_ph(s.target_ph),

@@ -220,7 +220,7 @@ fn reporting_bases_follow_molar_masses() {
     assert_eq!(nh3.amounts[1].basis, "NH₃");
     assert!((nh3.amounts[0].mg_l - f).abs() < 1e-12);
     assert!((nh3.amounts[1].mg_l - f * (N + 3.0 * H) / N).abs() < 1e-9);
-    // Sulfide as S and as H2S; carbonate as C, CaCO3, CO2 (molar basis).
+    // Sulfide as S and as H2S; carbonate as C and CO2 (molar basis) and CaCO3.
     let r = field_reading(
         &spec("sulfide", 7.0, 20.0, Some(2.0), IonicSource::Zero),
         &[],
@@ -233,9 +233,23 @@ fn reporting_bases_follow_molar_masses() {
         &[],
     )
     .unwrap();
-    let total_caco3: f64 = r.species.iter().map(|s| s.amounts[1].mg_l).sum();
     let total_co2: f64 = r.species.iter().map(|s| s.amounts[2].mg_l).sum();
-    assert!((total_caco3 - (CA + C + 3.0 * O)).abs() < 1e-6);
+    // As CaCO₃ each species is on its equivalents, with the trade's usual
+    // factors (common practice): CO₂ × 2.27, HCO₃⁻ × 0.82, CO₃²⁻ × 1.67 mg
+    // per mg of the species itself (two decimals: 1 % tolerance).
+    for (j, factor, own) in [
+        (0, 2.27, C + 2.0 * O),
+        (1, 0.82, H + C + 3.0 * O),
+        (2, 1.67, C + 3.0 * O),
+    ] {
+        let sp = &r.species[j];
+        let own_mg = sp.conc_m.unwrap() * own * 1000.0;
+        let got = sp.amounts[1].mg_l / own_mg;
+        assert!(
+            (got / factor - 1.0).abs() < 0.01,
+            "species {j}: {got} vs {factor}"
+        );
+    }
     assert!((total_co2 - (C + 2.0 * O)).abs() < 1e-6);
     // Chlorine as Cl2 only.
     let r = field_reading(
@@ -355,10 +369,26 @@ fn free_co2_agrees_with_standard_methods_calculation() {
         let eq_caco3 = (CA + C + 3.0 * O) / 2.0;
         let hco3_as_caco3 = c.hco3_mg_l / (H + C + 3.0 * O) * eq_caco3;
         assert!(((hco3_as_caco3 - b) / b).abs() < 0.03, "pH {ph}");
+        // The species rows "as CaCO₃" report the same alkalinity figures the
+        // method does (HCO₃⁻ on its one equivalent, not one CaCO₃ per carbon).
+        let as_caco3 = |j: usize| {
+            r.species[j]
+                .amounts
+                .iter()
+                .find(|a| a.basis == "CaCO₃")
+                .unwrap()
+                .mg_l
+        };
+        assert!(
+            ((as_caco3(1) - b) / b).abs() < 0.03,
+            "pH {ph}: {} vs {b}",
+            as_caco3(1)
+        );
         if ph >= 8.5 {
             let co3_as_caco3 = c.co3_mg_l / (C + 3.0 * O) * 2.0 * eq_caco3;
             let sm = 0.94 * b * x;
             assert!(((co3_as_caco3 - sm) / sm).abs() < 0.03, "pH {ph}");
+            assert!(((as_caco3(2) - sm) / sm).abs() < 0.03, "pH {ph}");
         }
     }
 }

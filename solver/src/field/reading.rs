@@ -171,10 +171,10 @@ pub fn reporting_basis(system_id: &str) -> (&'static str, &'static str) {
 ///
 /// One formula unit of the basis per unit of the system (1 mol N per mol
 /// ammonia, 1 mol CaCO₃ or CO₂ per mol carbon, 1 mol Cl₂ per mol free
-/// chlorine). The first entry is the basis of `total` in mg/L. Note that
-/// "carbonate as CaCO₃" here is on this molar basis; an *alkalinity* as
-/// CaCO₃ is on the equivalent basis (50.04 g/eq), see
-/// [`crate::field::carbonate`].
+/// chlorine). The first entry is the basis of `total` in mg/L. A *total*
+/// "carbonate as CaCO₃" is on this molar basis; an *alkalinity* as CaCO₃ is
+/// on the equivalent basis (50.04 g/eq), see [`crate::field::carbonate`],
+/// and so is each species' own amount "as CaCO₃" (HCO₃⁻ counts half a CaCO₃).
 pub fn reporting_bases(system_id: &str) -> &'static [(&'static str, &'static str)] {
     match system_id {
         "ammonium" => &[("N", "N"), ("NH₃", "NH3")],
@@ -184,6 +184,20 @@ pub fn reporting_bases(system_id: &str) -> &'static [(&'static str, &'static str
         "phosphate" => &[("P", "P")],
         "borate" => &[("B", "B")],
         _ => &[],
+    }
+}
+
+/// How many CaCO₃ one mole of carbonate species `j` counts as when a species
+/// is reported "as CaCO₃": on the equivalent basis of the alkalinity and
+/// free-CO₂ methods (common practice, the usual conversion factors: CO₂ × 2.27,
+/// HCO₃⁻ × 0.82, CO₃²⁻ × 1.67 mg per mg), that is one for CO₂ and CO₃²⁻ (two
+/// equivalents, like CaCO₃) and one half for HCO₃⁻ (one equivalent). Every
+/// other basis and system: one (the molar basis of the total).
+fn caco3_share(system_id: &str, basis: &str, j: usize) -> f64 {
+    if system_id == "carbonate" && basis == "CaCO₃" && j == 1 {
+        0.5
+    } else {
+        1.0
     }
 }
 
@@ -400,7 +414,7 @@ fn reading(
                     .iter()
                     .map(|(l, m)| BasisAmount {
                         basis: (*l).to_string(),
-                        mg_l: c * m * 1000.0,
+                        mg_l: c * m * 1000.0 * caco3_share(&sys.id, l, j),
                     })
                     .collect(),
                 None => Vec::new(),

@@ -50,6 +50,7 @@ pub fn phosphate_recipe() -> RecipeSpec {
         tolerance_ph: 0.05,
         prepare_temperature_c: None,
         concentrate_factor: 1.0,
+        store_temperature_c: None,
     }
 }
 

@@ -93,6 +93,7 @@ fn recipe(method: Method, system: &str, target: f64, t: f64) -> RecipeSpec {
         tolerance_ph: 0.05,
         prepare_temperature_c: None,
         concentrate_factor: 1.0,
+        store_temperature_c: None,
     }
 }
 

@@ -31,6 +31,7 @@ fn tris_titrated(total_m: f64, factor: f64, titrant_m: f64, target: f64) -> Reci
         tolerance_ph: 0.05,
         prepare_temperature_c: None,
         concentrate_factor: factor,
+        store_temperature_c: None,
     }
 }
 

@@ -45,6 +45,7 @@ pub fn demo_design() -> Design {
             // Made and checked at the bench, used in the 37 °C assay.
             prepare_temperature_c: Some(22.0),
             concentrate_factor: 1.0,
+            store_temperature_c: None,
         },
         mixture: MixtureSpec {
             temperature_c: 20.0,

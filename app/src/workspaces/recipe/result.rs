@@ -575,7 +575,7 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
             .then(|| {
                 view! {
                     <ul class="warnings" data-testid="recipe-warnings">
-                        {notes.into_iter().map(|n| view! { <li>{n}</li> }).collect_view()}
+                        {notes.into_iter().map(|n| view! { <li>{pretty_formula(&n)}</li> }).collect_view()}
                     </ul>
                 }
             })}

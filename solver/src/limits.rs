@@ -97,6 +97,8 @@ pub const TARGET_PH: Limit = Limit::new("recipe.target_ph", 0.0, 14.0, "pH", PH_
 pub const TEMPERATURE_C: Limit = Limit::new("recipe.temperature_c", 0.0, 60.0, "°C", T_MESSAGE);
 /// Temperature the recipe is made and checked at (also within the system's own data).
 pub const PREPARE_TEMPERATURE_C: Limit = TEMPERATURE_C.for_path("recipe.prepare_temperature_c");
+/// Temperature a stock or concentrate is kept at, °C.
+pub const STORE_TEMPERATURE_C: Limit = TEMPERATURE_C.for_path("recipe.store_temperature_c");
 /// Total buffer concentration, mol/L (above zero).
 pub const TOTAL_CONC_M: Limit = Limit::new(
     "recipe.total_conc_m",
@@ -337,6 +339,7 @@ pub const ALL: &[Limit] = &[
     TARGET_PH,
     TEMPERATURE_C,
     PREPARE_TEMPERATURE_C,
+    STORE_TEMPERATURE_C,
     TOTAL_CONC_M,
     VOLUME_L,
     TOLERANCE_PH,

@@ -52,6 +52,7 @@ pub fn phosphate_recipe() -> RecipeSpec {
         prepare_temperature_c: None,
         concentrate_factor: 1.0,
         atmosphere: None,
+        store_temperature_c: None,
     }
 }
 

@@ -188,6 +188,7 @@ fn recipe_under_5_percent() {
         tolerance_ph: 0.05,
         prepare_temperature_c: None,
         concentrate_factor: 1.0,
+        store_temperature_c: None,
         atmosphere: Some(Atmosphere::percent(5.0)),
     };
     let r = solve_recipe(&spec, &[]).unwrap();

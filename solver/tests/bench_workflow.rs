@@ -26,6 +26,7 @@ fn spec(system: &str, method: Method, target: f64, t: f64) -> RecipeSpec {
         prepare_temperature_c: None,
         concentrate_factor: 1.0,
         atmosphere: None,
+        store_temperature_c: None,
     }
 }
 
@@ -510,4 +511,121 @@ proptest! {
         prop_assert_eq!(&r.mixture, &today.mixture);
         prop_assert_eq!(&r.equilibrium, &today.equilibrium);
     }
+}
+
+/// A 10× of 100 mM phosphate kept in the cold room: about 0.76 M of
+/// Na₂HPO₄ (as the heptahydrate) is far more than the roughly 17 g/L that
+/// dissolves near 0–4 °C (handbook solubility about 1.7–2.5 g per 100 g
+/// water, from memory) — warned with the figures at the storage
+/// temperature, none where it is made at 37 °C... and none for the 1×
+/// working buffer. Values: see `recipe/solubility.rs` (from memory).
+#[test]
+fn a_cold_stored_phosphate_concentrate_is_warned_it_will_crystallise() {
+    let mut s = spec(
+        "phosphate",
+        Method::TwoForms {
+            acid_form: "nah2po4_h2o".into(),
+            base_form: "na2hpo4_7h2o".into(),
+        },
+        7.4,
+        25.0,
+    );
+    s.total_conc_m = 0.1;
+    s.concentrate_factor = 10.0;
+    s.prepare_temperature_c = Some(37.0);
+    s.store_temperature_c = Some(4.0);
+    let r = solve_recipe(&s, &[]).unwrap();
+    let sol: Vec<&RecipeWarning> = r
+        .warnings
+        .iter()
+        .filter(|w| matches!(w, RecipeWarning::Solubility { .. }))
+        .collect();
+    assert_eq!(sol.len(), 1, "{sol:?}");
+    let RecipeWarning::Solubility {
+        formula,
+        conc_m,
+        needed_g_l,
+        soluble_g_l,
+        stored,
+        ..
+    } = sol[0]
+    else {
+        unreachable!()
+    };
+    assert_eq!(formula, "Na2HPO4·7H2O");
+    assert!(*stored);
+    // 0.1 M phosphate at pH 7.4, 25 °C is about 0.076 M HPO₄²⁻; ×10 = 0.76 M,
+    // i.e. about 108 g/L as anhydrous Na₂HPO₄ (141.96 g/mol).
+    assert!((conc_m - 0.76).abs() < 0.05, "{conc_m}");
+    assert!((needed_g_l - conc_m * 141.96).abs() < 0.1);
+    assert!(*soluble_g_l < 40.0, "{soluble_g_l}");
+    let text = sol[0].message();
+    assert!(
+        text.contains("where it is kept") && text.contains("weaker stock"),
+        "{text}"
+    );
+    // The same concentrate kept where it is made: no warning. The 1×: none.
+    s.store_temperature_c = None;
+    let r = solve_recipe(&s, &[]).unwrap();
+    assert!(!r
+        .warnings
+        .iter()
+        .any(|w| matches!(w, RecipeWarning::Solubility { .. })));
+    s.concentrate_factor = 1.0;
+    s.store_temperature_c = Some(4.0);
+    let r = solve_recipe(&s, &[]).unwrap();
+    assert!(!r
+        .warnings
+        .iter()
+        .any(|w| matches!(w, RecipeWarning::Solubility { .. })));
+}
+
+/// Made at the bench (22 °C) the same 10× needs warming: the warning says
+/// from about which temperature it dissolves; a 40× would not dissolve at
+/// any temperature of the table and is refused on the factor.
+#[test]
+fn a_phosphate_concentrate_made_cold_says_it_needs_warming_or_is_refused() {
+    let mut s = spec(
+        "phosphate",
+        Method::TwoForms {
+            acid_form: "nah2po4_h2o".into(),
+            base_form: "na2hpo4_7h2o".into(),
+        },
+        7.4,
+        25.0,
+    );
+    s.total_conc_m = 0.1;
+    s.concentrate_factor = 10.0;
+    s.prepare_temperature_c = Some(22.0);
+    let r = solve_recipe(&s, &[]).unwrap();
+    let w = r
+        .warnings
+        .iter()
+        .find(|w| matches!(w, RecipeWarning::Solubility { stored: false, .. }))
+        .unwrap();
+    let text = w.message();
+    assert!(text.contains("dissolves only above about"), "{text}");
+    s.concentrate_factor = 40.0;
+    let e = solve_recipe(&s, &[]).unwrap_err();
+    assert_eq!(e.field(), Some("concentrate_factor"));
+    assert!(
+        e.to_string()
+            .contains("more than dissolves at any temperature"),
+        "{e}"
+    );
+}
+
+#[test]
+fn a_storage_temperature_outside_0_to_60_is_refused_by_name() {
+    let mut s = spec("tris", tris_pair(), 8.0, 25.0);
+    s.store_temperature_c = Some(-5.0);
+    let e = solve_recipe(&s, &[]).unwrap_err();
+    assert!(e.to_string().starts_with("store_temperature_c"), "{e}");
+    let mut d = solver::document::demo_design();
+    d.recipe.store_temperature_c = Some(70.0);
+    let e = solver::document::parse_design(&solver::document::to_json(&d)).unwrap_err();
+    assert!(
+        e.to_string().starts_with("recipe.store_temperature_c"),
+        "{e}"
+    );
 }

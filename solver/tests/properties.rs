@@ -138,8 +138,7 @@ proptest! {
             system: sys.id.clone(), target_ph: target, temperature_c: t,
             total_conc_m: 10f64.powf(lc), volume_l: 1.0, salts: vec![],
             activity: ActivityModel::Davies, method: m, tolerance_ph: 0.05,
-            prepare_temperature_c: None, concentrate_factor: 1.0,
-            atmosphere: None,
+            prepare_temperature_c: None, concentrate_factor: 1.0, store_temperature_c: None, atmosphere: None,
         };
         // Some targets are legitimately infeasible (e.g. beyond what the pair spans);
         // those must be errors, and every success must round-trip.
@@ -167,6 +166,7 @@ proptest! {
             prepare_temperature_c: None,
             concentrate_factor: 1.0,
             atmosphere: None,
+            store_temperature_c: None,
         };
         let _ = solve_recipe(&r, &[]);
         r.system = "no_such".into();

@@ -94,6 +94,7 @@ fn recipe(method: Method, system: &str, target: f64, t: f64) -> RecipeSpec {
         prepare_temperature_c: None,
         concentrate_factor: 1.0,
         atmosphere: None,
+        store_temperature_c: None,
     }
 }
 

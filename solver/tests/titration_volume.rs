@@ -32,6 +32,7 @@ fn tris_titrated(total_m: f64, factor: f64, titrant_m: f64, target: f64) -> Reci
         prepare_temperature_c: None,
         concentrate_factor: factor,
         atmosphere: None,
+        store_temperature_c: None,
     }
 }
 

@@ -297,3 +297,40 @@ test('a schema-1 share link and a schema-1 exported file still open', async () =
     await s.close();
   }
 });
+
+test('a concentrate kept in the cold room is warned beside the salt that will crystallise, as the CLI says', async () => {
+  const s = await openSession({ allowedOrigin: srv.origin, view: 'tablet' });
+  try {
+    const page = await openPage(s, srv.url('/'));
+    await type(page, '#recipe-prep-temp', '22');
+    await type(page, '#recipe-concentrate', '10');
+    await page.waitForSelector(tid('recipe-meter-ph'));
+    const none = await page.$$('[data-testid$="-solubility"]');
+    assert.equal(none.length, 0, 'made and kept at 22 °C: nothing to say');
+    // Typed as people type: "4,0" is 4 °C.
+    await type(page, '#recipe-store-temp', '4,0');
+    await page.waitForSelector('[data-testid$="-solubility"]');
+    const rows = await page.$$eval('tr[data-testid^="recipe-ingredient-"]', (trs) =>
+      trs.map((tr) => ({ formula: tr.querySelector('.formula')?.textContent, note: tr.querySelector('[data-testid$="-solubility"]')?.textContent ?? '' })));
+    const flagged = rows.filter((r) => r.note);
+    assert.equal(flagged.length, 1, JSON.stringify(rows));
+    assert.match(flagged[0].formula, /Na₂HPO₄/);
+    assert.match(flagged[0].note, /at 4 °C, where it is kept/);
+    // The same design through the CLI gives the same warning.
+    const [dl] = await Promise.all([page.waitForEvent('download'), page.click(tid('export-design'))]);
+    const doc = JSON.parse(readFileSync(await dl.path(), 'utf8'));
+    assert.equal(doc.recipe.store_temperature_c, 4);
+    mkdirSync(ARTIFACTS, { recursive: true });
+    const file = join(ARTIFACTS, 'cold-room.bwdesign.json');
+    writeFileSync(file, JSON.stringify(doc));
+    const r = cli(file);
+    const w = r.warnings.filter((x) => x.kind === 'solubility');
+    assert.equal(w.length, 1);
+    assert.equal(w[0].stored, true);
+    assert.equal(w[0].formula, 'Na2HPO4·7H2O');
+    await screenshot(page, 'cold-room-concentrate-tablet');
+    s.assertClean('cold room');
+  } finally {
+    await s.close();
+  }
+});

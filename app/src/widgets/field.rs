@@ -134,6 +134,7 @@ mod tests {
         "recipe.target_ph",
         "recipe.temperature_c",
         "recipe.prepare_temperature_c",
+        "recipe.store_temperature_c",
         "recipe.total_conc_m",
         "recipe.volume_l",
         "recipe.concentrate_factor",

@@ -74,6 +74,7 @@ fn design_with(limit: &Limit, v: f64) -> Design {
         "recipe.volume_l" => r.volume_l = v,
         "recipe.tolerance_ph" => r.tolerance_ph = v,
         "recipe.concentrate_factor" => r.concentrate_factor = v,
+        "recipe.store_temperature_c" => r.store_temperature_c = Some(v),
         "recipe.salts[].conc_m" => {
             r.salts = vec![AdditiveSpec {
                 additive: Additive::Nacl,

@@ -232,6 +232,9 @@ pub fn validate_design(d: &Design) -> Result<()> {
     if let Some(t) = r.prepare_temperature_c {
         limits::PREPARE_TEMPERATURE_C.check(t).map_err(rp)?;
     }
+    if let Some(t) = r.store_temperature_c {
+        limits::STORE_TEMPERATURE_C.check(t).map_err(rp)?;
+    }
     limits::CONCENTRATE_FACTOR
         .check(r.concentrate_factor)
         .map_err(rp)?;

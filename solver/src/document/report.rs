@@ -49,6 +49,7 @@ pub fn demo_design() -> Design {
             prepare_temperature_c: Some(22.0),
             concentrate_factor: 1.0,
             atmosphere: None,
+            store_temperature_c: None,
         },
         mixture: MixtureSpec {
             temperature_c: 20.0,

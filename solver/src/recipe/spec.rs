@@ -83,6 +83,11 @@ pub struct RecipeSpec {
     /// carbonate form becomes the unknown. Absent: the closed recipe.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub atmosphere: Option<crate::equilibrium::gas::Atmosphere>,
+    /// Temperature the solution (stock or concentrate) is kept at, °C, 0–60;
+    /// absent means it is kept where it is made. Its salts are checked
+    /// against their solubility there ([`crate::recipe::solubility`]).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub store_temperature_c: Option<f64>,
 }
 
 pub(crate) fn default_tolerance() -> f64 {
@@ -201,6 +206,25 @@ pub enum RecipeWarning {
         /// Ionic strength of the concentrate, mol/L.
         ionic_strength: f64,
     },
+    /// A salt of the solution made needs about as much as (or more than)
+    /// dissolves at the temperature it is made or kept at (handbook
+    /// solubility, from memory: see [`crate::recipe::solubility`]).
+    Solubility {
+        /// Formula weighed (`Na2HPO4·7H2O`).
+        formula: String,
+        /// Its concentration in the solution made, mol/L.
+        conc_m: f64,
+        /// g/L of the anhydrous salt needed.
+        needed_g_l: f64,
+        /// Estimated g/L of the anhydrous salt that dissolves there.
+        soluble_g_l: f64,
+        /// The temperature, °C.
+        temperature_c: f64,
+        /// `true` at the storage temperature, `false` where it is made.
+        stored: bool,
+        /// Lowest temperature of the table at which it would dissolve, °C.
+        dissolves_above_c: Option<f64>,
+    },
 }
 
 impl RecipeWarning {
@@ -226,6 +250,33 @@ impl RecipeWarning {
                 sig_trim(*factor, 3),
                 sig(*ionic_strength, 3)
             ),
+            Self::Solubility {
+                formula,
+                conc_m,
+                needed_g_l,
+                soluble_g_l,
+                temperature_c,
+                stored,
+                dissolves_above_c,
+            } => {
+                let base = super::solubility::anhydrous(formula);
+                let advice = match (stored, dissolves_above_c) {
+                    (true, _) => "store it warmer (at room temperature) or make a weaker stock".to_string(),
+                    (false, Some(t)) => format!(
+                        "it dissolves only above about {} °C and may crystallise as it cools: make a weaker stock or warm it and keep it warm",
+                        sig_trim(*t, 2)
+                    ),
+                    (false, None) => "make a weaker stock".to_string(),
+                };
+                format!(
+                    "About {} M {formula} is needed ({} g/L as {base}); only about {} g/L of {base} dissolves at {} °C{} (handbook solubility, approximate): {advice}.",
+                    sig(*conc_m, 2),
+                    sig(*needed_g_l, 3),
+                    sig(*soluble_g_l, 2),
+                    sig_trim(*temperature_c, 3),
+                    if *stored { ", where it is kept" } else { ", where it is made" },
+                )
+            }
         }
     }
 }

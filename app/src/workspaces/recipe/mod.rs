@@ -176,6 +176,18 @@ pub fn RecipeWorkspace() -> impl IntoView {
                     error=err_for("concentrate_factor")
                 />
             </div>
+            <div class="row-2">
+                <NumberField
+                    id="recipe-store-temp"
+                    label="Kept at"
+                    hint="Where the bottle is stored (a cold room is about 4 °C): its salts are checked against what dissolves there."
+                    value=Signal::derive(move || spec.with(|s| s.store_temperature_c.or(s.prepare_temperature_c).unwrap_or(s.temperature_c)))
+                    on_value=Callback::new(move |v| set_raw(Box::new(move |s: &mut RecipeSpec| s.store_temperature_c = Some(v))))
+                    path="recipe.store_temperature_c"
+                    suffix="°C"
+                    error=err_for("store_temperature_c")
+                />
+            </div>
             <MethodInputs spec=spec custom=custom result=result notice=notice />
             <details class="more">
                 <summary>"Salts (NaCl, KCl), activity model and tolerance"</summary>

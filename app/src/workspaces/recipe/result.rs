@@ -56,6 +56,17 @@ pub fn answer_line(spec: &RecipeSpec, r: &RecipeResult) -> String {
     line
 }
 
+/// The solubility warnings of one weighed formula, shown in its own row
+/// (beside the amount, not only among the notes).
+fn undissolved(warnings: &[RecipeWarning], formula: &str) -> Option<String> {
+    let t: Vec<String> = warnings
+        .iter()
+        .filter(|w| matches!(w, RecipeWarning::Solubility { formula: f, .. } if f == formula))
+        .map(RecipeWarning::message)
+        .collect();
+    (!t.is_empty()).then(|| t.join(" "))
+}
+
 /// The concentrate's own figures: its pH where the activity model holds,
 /// and its ionic strength.
 pub(crate) fn concentrate_text(c: &solver::recipe::ConcentrateResult) -> String {
@@ -120,7 +131,9 @@ pub fn warning_text(w: &RecipeWarning) -> String {
             "The Henderson–Hasselbalch estimate would miss the target by {} pH: weigh the exact amounts above.",
             fmt_dph(*difference)
         ),
-        RecipeWarning::ConcentrateBeyondModel { .. } => w.message(),
+        RecipeWarning::ConcentrateBeyondModel { .. } | RecipeWarning::Solubility { .. } => {
+            w.message()
+        }
     }
 }
 
@@ -514,6 +527,11 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
                                 <td>
                                     <span class="formula">{pretty_formula(&ing.formula)}</span>
                                     <span class="sub">{ing.name.clone()}</span>
+                                    {undissolved(&r.warnings, &ing.formula).map(|t| view! {
+                                        <span class="sub warn-inline" data-testid=format!("recipe-ingredient-{i}-solubility") role="note">
+                                            {pretty_formula(&t)}
+                                        </span>
+                                    })}
                                 </td>
                                 <td class="num amount" data-testid=format!("recipe-ingredient-{i}-amount")>
                                     {amount_text(ing)}
@@ -557,7 +575,7 @@ pub(crate) fn RecipeDetails(spec: RecipeSpec, result: RecipeResult) -> impl Into
             .then(|| {
                 view! {
                     <ul class="warnings" data-testid="recipe-warnings">
-                        {notes.into_iter().map(|n| view! { <li>{n}</li> }).collect_view()}
+                        {notes.into_iter().map(|n| view! { <li>{pretty_formula(&n)}</li> }).collect_view()}
                     </ul>
                 }
             })}

@@ -33,8 +33,8 @@ fn sea(psu: f64) -> IonicSource {
 
 /// Dickson (1990) J. Chem. Thermodyn. 22, 113: K(HSO₄⁻) on the free scale,
 /// mol/kg-H₂O converted to mol/kg-seawater by (1 − 0.001005 S); I from
-/// Dickson, Sabine & Christian (2007). Read as carried by published
-/// marine-chemistry code (CO₂SYS family).
+/// Dickson, Sabine & Christian (2007). Coefficients not checked against the
+/// printed paper.
 fn k_hso4_free(t_c: f64, s: f64) -> f64 {
     let t = t_c + 273.15;
     let i: f64 = 19.924 * s / (1000.0 - 1.005 * s);
@@ -47,8 +47,8 @@ fn k_hso4_free(t_c: f64, s: f64) -> f64 {
     ln_k.exp() * (1.0 - 0.001005 * s)
 }
 
-/// Total sulfate, mol/kg-seawater, Morris & Riley (1966) Deep-Sea Res. 13, 699,
-/// as carried by the same code: (0.14/96.062)·S/1.80655.
+/// Total sulfate, mol/kg-seawater, Morris & Riley (1966) Deep-Sea Res. 13, 699
+/// (not checked against the printed paper): (0.14/96.062)·S/1.80655.
 fn sulfate_total(s: f64) -> f64 {
     0.14 / 96.062 * s / 1.80655
 }
@@ -110,8 +110,8 @@ fn the_scale_conversion_is_what_makes_the_table_agree() {
 
 /// Yao & Millero (1995) Aquatic Geochem. 1, 53 (also Millero 1995 Geochim.
 /// Cosmochim. Acta 59, 661): ln K(NH₄⁺) on the seawater scale, mol/kg-
-/// seawater, an independent fit to other measurements; read as carried by
-/// published marine-chemistry code.
+/// seawater, an independent fit to other measurements (coefficients not
+/// checked against the printed paper).
 fn pk_yao_millero(t_c: f64, s: f64) -> f64 {
     let t = t_c + 273.15;
     let ln_k = -6285.33 / t + 0.0001635 * t - 0.25444

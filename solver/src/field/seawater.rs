@@ -21,9 +21,8 @@
 //! model's own accuracy in K* is stated as better than 5 %). It is converted
 //! to mol/kg of seawater by the factor (1 − 0.001005 S), the usual
 //! convention for seawater constants, so that it pairs with a pH on the total
-//! scale per kg of seawater. The coefficients were read in the equation as
-//! carried by published marine-chemistry code (CO₂SYS family), identical in
-//! four independent implementations; the paper's own tables were not read.
+//! scale per kg of seawater. The coefficients have not been checked against the printed
+//! paper (they are marked unverified in the tests' README); the paper's own tables were not read.
 //!
 //! The fraction of un-ionized ammonia is then `1 / (1 + 10^(pK* − pH_T))`:
 //! no activity coefficient enters, the salt effect is in K*. The reading's

@@ -2,7 +2,7 @@
 //!
 //! [`cases`] is the single list. The page's self-check panel, the
 //! `bufferwright self-check` command and the native test suite
-//! (`tests/selfcheck.rs`) all iterate it, so they cannot disagree. Every
+//! (`tests/it/selfcheck.rs`) all iterate it, so they cannot disagree. Every
 //! case carries its published value, the citation, a status word
 //! (confirmed / computed / from memory / common practice, as in
 //! `tests/README.md`) and the tolerance with which the engine must agree.

@@ -112,7 +112,7 @@ fn doc_err(field: &str, reason: impl Into<String>) -> SolverError {
 ///
 /// Each version adds one arm here that rewrites the JSON value from `n` to
 /// `n + 1`, and a test with stored version-`n` documents
-/// (`solver/tests/data/schema1/`, `solver/tests/migration.rs`).
+/// (`solver/tests/data/schema1/`, `solver/tests/it/migration.rs`).
 pub(crate) fn migrate(mut value: serde_json::Value) -> Result<serde_json::Value> {
     let version = value
         .get("schema")

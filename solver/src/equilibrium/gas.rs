@@ -18,7 +18,7 @@
 //!   `ln K₀ = A₁ + A₂(100/T) + A₃ ln(T/100) + S[B₁ + B₂(T/100) + B₃(T/100)²]`,
 //!   A₁ = −58.0931, A₂ = 90.5069, A₃ = 22.2940, B₁ = 0.027766,
 //!   B₂ = −0.025888, B₃ = 0.0050578 (coefficients as widely quoted; checked
-//!   in `solver/tests/atmosphere.rs` against measured solubilities).
+//!   in `solver/tests/it/atmosphere.rs` against measured solubilities).
 //! * p_w: water vapour over the solution, Weiss, R. F. & Price, B. A. (1980)
 //!   Mar. Chem. 8, 347–359:
 //!   `ln(p_w/atm) = 24.4543 − 67.4509(100/T) − 4.8489 ln(T/100) − 0.000544 S`.

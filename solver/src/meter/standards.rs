@@ -6,7 +6,7 @@
 //! calcium hydroxide, which the 2002 recommendations list among the secondary
 //! standards). Every cell carries its status (`confirmed` where the value was
 //! re-read in a published source, `from memory` where it was recalled and not
-//! re-read); `solver/tests/meter.rs` checks the cells against the sources and
+//! re-read); `solver/tests/it/meter.rs` checks the cells against the sources and
 //! against each other. Between table temperatures the value is interpolated
 //! linearly (the tables are spaced 5 °C, 2–3 °C around 37 °C, and their second
 //! differences are a few thousandths, so the interpolation error is below the

@@ -17,7 +17,7 @@
 //! full solver (prepare the perturbed mixture, solve the charge balance with
 //! the ionic strength iterated): the same engine that gives the pH. For a
 //! strong-base titrant the result equals the analytic `1/β` of the solver
-//! (checked in `tests/uncertainty.rs`); central differences are used
+//! (checked in `tests/it/uncertainty.rs`); central differences are used
 //! throughout so that every input, including masses of salts that change
 //! both the buffer total and the ionic strength, goes through one path.
 //! The activity allowance enters with `c = 1`.

@@ -17,7 +17,7 @@ use solver::recipe::{solve_recipe, Method, RecipeSpec};
 /// in ONE list, `solver::selfcheck::cases()`, with value, source, status and
 /// tolerance each. The page's self-check and `bufferwright self-check` run
 /// the same list; here the engine-level cases are run again by name so that
-/// `cargo test --test standards borax` still finds them.
+/// `cargo test --test it borax` still finds them.
 fn run_cases(prefix: &str) {
     let list: Vec<_> = solver::selfcheck::cases()
         .into_iter()

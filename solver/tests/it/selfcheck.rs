@@ -43,7 +43,7 @@ fn ids_are_unique_and_every_case_names_its_source() {
 
 #[test]
 fn every_case_is_documented_in_the_tests_readme() {
-    let readme = include_str!("README.md");
+    let readme = include_str!("../README.md");
     for c in cases() {
         assert!(
             readme.contains(&format!("`{}`", c.id)),

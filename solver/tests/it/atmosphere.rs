@@ -451,7 +451,7 @@ proptest! {
 /// The incubator example with `v` in the atmosphere field (or gas what-if) a limit of
 /// `solver::limits::GAS` names.
 fn incubator_with(path: &str, v: f64) -> solver::document::Design {
-    let mut d = parse_design(include_str!("../examples/incubator.json")).unwrap();
+    let mut d = parse_design(include_str!("../../examples/incubator.json")).unwrap();
     let (part, key) = path.rsplit_once('.').unwrap();
     let slot = match part {
         "recipe.atmosphere" => &mut d.recipe.atmosphere,

@@ -187,6 +187,11 @@ pub fn solve_gas_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<Reci
         ph: meter_ph,
         solution: MeterSolution::WorkingBuffer,
     };
+    warnings.extend(super::solubility::recipe_warnings(
+        spec,
+        &ingredients,
+        t_prep,
+    )?);
     let steps = gas_steps(spec, &ingredients, &gas, &atm, &meter);
     Ok(RecipeResult {
         ingredients,

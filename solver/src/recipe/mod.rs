@@ -458,58 +458,6 @@ fn finish(
     Ok((mix, ing))
 }
 
-/// Each weighed salt of the solution made checked against its solubility
-/// where it is made (`t_prep`) and, when given, where it is kept.
-///
-/// # Errors
-///
-/// [`SolverError::Infeasible`] on `concentrate_factor` for a concentrate
-/// with a salt that would not dissolve at any temperature of its table.
-fn solubility_warnings(
-    spec: &RecipeSpec,
-    ingredients: &[Ingredient],
-    t_prep: f64,
-) -> Result<Vec<RecipeWarning>> {
-    let mut out = Vec::new();
-    for i in ingredients.iter().filter(|i| i.grams.is_some()) {
-        let c = i.mol / spec.volume_l;
-        let made = solubility::check_salt(&i.formula, c, t_prep);
-        if let Some(m) = &made {
-            if spec.concentrate_factor > 1.0 && m.dissolves_above_c.is_none() {
-                return Err(SolverError::Infeasible {
-                    field: "concentrate_factor".into(),
-                    reason: format!(
-                        "the {}× concentrate needs about {} g/L of {}, more than dissolves at any temperature of its solubility table (about {} g/L at {} °C); choose a smaller factor",
-                        sig_trim(spec.concentrate_factor, 3),
-                        sig(m.needed_g_l, 3),
-                        solubility::anhydrous(&i.formula),
-                        sig(m.soluble_g_l, 2),
-                        sig_trim(t_prep, 3)
-                    ),
-                });
-            }
-        }
-        let stored = spec
-            .store_temperature_c
-            .filter(|t| *t != t_prep)
-            .and_then(|t| solubility::check_salt(&i.formula, c, t));
-        for (check, is_stored) in [(made, false), (stored, true)] {
-            if let Some(k) = check {
-                out.push(RecipeWarning::Solubility {
-                    formula: k.formula,
-                    conc_m: k.conc_m,
-                    needed_g_l: k.needed_g_l,
-                    soluble_g_l: k.soluble_g_l,
-                    temperature_c: k.temperature_c,
-                    stored: is_stored,
-                    dissolves_above_c: k.dissolves_above_c,
-                });
-            }
-        }
-    }
-    Ok(out)
-}
-
 /// The refusal of a concentrate holding `c` mol/L of `what`.
 fn too_concentrated(factor: f64, what: &str, c: f64) -> SolverError {
     SolverError::Infeasible {
@@ -729,7 +677,7 @@ pub fn solve_recipe(spec: &RecipeSpec, custom: &[AcidSystem]) -> Result<RecipeRe
             ionic_strength: c.ionic_strength,
         });
     }
-    let undissolved = solubility_warnings(spec, &ingredients, t_prep)?;
+    let undissolved = solubility::recipe_warnings(spec, &ingredients, t_prep)?;
     warnings.extend(undissolved);
     let steps = if concentrate.is_none() && t_prep == spec.temperature_c {
         steps_text(spec, &ingredients)

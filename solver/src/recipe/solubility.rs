@@ -19,6 +19,9 @@
 //! estimate for a warning, not a density model. Several salts in one
 //! solution are checked one by one (no common-ion effect).
 
+use super::spec::{Ingredient, RecipeSpec, RecipeWarning};
+use crate::error::{Result, SolverError};
+use crate::fmt::{sig, sig_trim};
 use crate::system::formula::molar_mass;
 
 /// One salt's solubility table.
@@ -252,6 +255,58 @@ pub fn check_salt(formula: &str, conc_m: f64, t: f64) -> Option<SolubilityCheck>
 pub fn has_table(formula: &str) -> bool {
     let base = anhydrous(formula);
     SOLUBILITY.iter().any(|s| s.formula == base)
+}
+
+/// Each weighed salt of the solution made checked against its solubility
+/// where it is made (`t_prep`) and, when given, where it is kept.
+///
+/// # Errors
+///
+/// [`SolverError::Infeasible`] on `concentrate_factor` for a concentrate
+/// with a salt that would not dissolve at any temperature of its table.
+pub(crate) fn recipe_warnings(
+    spec: &RecipeSpec,
+    ingredients: &[Ingredient],
+    t_prep: f64,
+) -> Result<Vec<RecipeWarning>> {
+    let mut out = Vec::new();
+    for i in ingredients.iter().filter(|i| i.grams.is_some()) {
+        let c = i.mol / spec.volume_l;
+        let made = check_salt(&i.formula, c, t_prep);
+        if let Some(m) = &made {
+            if spec.concentrate_factor > 1.0 && m.dissolves_above_c.is_none() {
+                return Err(SolverError::Infeasible {
+                    field: "concentrate_factor".into(),
+                    reason: format!(
+                        "the {}× concentrate needs about {} g/L of {}, more than dissolves at any temperature of its solubility table (about {} g/L at {} °C); choose a smaller factor",
+                        sig_trim(spec.concentrate_factor, 3),
+                        sig(m.needed_g_l, 3),
+                        anhydrous(&i.formula),
+                        sig(m.soluble_g_l, 2),
+                        sig_trim(t_prep, 3)
+                    ),
+                });
+            }
+        }
+        let stored = spec
+            .store_temperature_c
+            .filter(|t| *t != t_prep)
+            .and_then(|t| check_salt(&i.formula, c, t));
+        for (check, is_stored) in [(made, false), (stored, true)] {
+            if let Some(k) = check {
+                out.push(RecipeWarning::Solubility {
+                    formula: k.formula,
+                    conc_m: k.conc_m,
+                    needed_g_l: k.needed_g_l,
+                    soluble_g_l: k.soluble_g_l,
+                    temperature_c: k.temperature_c,
+                    stored: is_stored,
+                    dissolves_above_c: k.dissolves_above_c,
+                });
+            }
+        }
+    }
+    Ok(out)
 }
 
 #[cfg(test)]

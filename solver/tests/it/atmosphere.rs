@@ -511,3 +511,43 @@ fn the_gas_limits_of_the_rulebook_are_the_readers() {
         }
     }
 }
+
+/// The gas recipe runs the same solubility check as the others: a strong
+/// bicarbonate (target pH 8.6 under 10 % CO₂ needs roughly 0.7 M NaHCO₃,
+/// about 60 g/L) dissolves at 37 °C but not in a fridge at 0 °C, where
+/// about 7 g per 100 g water dissolves (handbook value from memory, see
+/// `recipe/solubility.rs`): warned at the storage temperature only.
+#[test]
+fn the_gas_recipe_checks_solubility_where_it_is_kept() {
+    let mut spec = RecipeSpec {
+        system: "carbonate".into(),
+        target_ph: 8.6,
+        temperature_c: 37.0,
+        total_conc_m: 0.026,
+        volume_l: 1.0,
+        salts: vec![],
+        activity: ActivityModel::Davies,
+        method: Method::Titrate {
+            form: "nahco3".into(),
+            titrant: Additive::Hcl,
+            titrant_m: 1.0,
+        },
+        tolerance_ph: 0.05,
+        prepare_temperature_c: None,
+        concentrate_factor: 1.0,
+        store_temperature_c: Some(0.0),
+        atmosphere: Some(Atmosphere::percent(10.0)),
+    };
+    let sol = |r: &solver::recipe::RecipeResult| {
+        r.warnings
+            .iter()
+            .filter(|w| matches!(w, solver::recipe::RecipeWarning::Solubility { .. }))
+            .count()
+    };
+    let r = solve_recipe(&spec, &[]).unwrap();
+    let g = r.ingredients[0].grams.unwrap();
+    assert!((40.0..90.0).contains(&g), "{g} g NaHCO₃");
+    assert_eq!(sol(&r), 1, "{:?}", r.warnings);
+    spec.store_temperature_c = None;
+    assert_eq!(sol(&solve_recipe(&spec, &[]).unwrap()), 0);
+}

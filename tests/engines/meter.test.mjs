@@ -19,7 +19,7 @@ const rowIds = (page) =>
     [...document.querySelectorAll('[data-testid^="meter-row-"]')].map((e) => e.getAttribute('data-testid').slice('meter-row-'.length)),
   );
 
-journey('the meter bench typed as people type equals `bufferwright calibrate`', async ({ serve, open }) => {
+journey('the meter bench typed as people type equals `bufferwright calibrate`', async ({ serve, open, engine, t }) => {
   const cli = calibrate(['--temp', '25', '--point', 'phosphate_1_1=4.2', '--point', 'phthalate=168.9', '--point', 'borax=-130.4', '--sample-mv', '55']);
   const srv = await serve();
   const page = await open(srv.url('/?ws=meter'), { width: 768, height: 1024 });
@@ -41,7 +41,16 @@ journey('the meter bench typed as people type equals `bufferwright calibrate`', 
   assert.equal(await text(page, tid('meter-sample-ph')), `pH ${cli.sample.ph.toFixed(2)}`);
 
   // "1,000" could be a thousand or one: refused beside the field with both readings, no fit shown.
-  await retype(page, `#meter-pt-${b}-mv`, '1,000', 'Tab');
+  // WebKitWebDriver now and then drops key actions sent right after the fit re-renders (seen
+  // once in CI: no message after 60 s); the field's own value says whether the keys arrived,
+  // and a retype is reported, never silent.
+  for (let i = 0; ; i++) {
+    await retype(page, `#meter-pt-${b}-mv`, '1,000', 'Tab');
+    const got = await value(page, `#meter-pt-${b}-mv`);
+    if (got === '1,000') break;
+    t.diagnostic(`${engine}: the field held "${got}" after typing "1,000"; typed again`);
+    assert.ok(i < 2, `the keys never arrived: the field holds "${got}"`);
+  }
   const msg = await textOf(page, tid(`error-meter-pt-${b}-mv`));
   assert.match(msg, /1000/, msg);
   assert.match(msg, /1\.0/, msg);

@@ -22,6 +22,7 @@
 use super::spec::{Ingredient, RecipeSpec, RecipeWarning};
 use crate::error::{Result, SolverError};
 use crate::fmt::{sig, sig_trim};
+pub use crate::system::formula::anhydrous;
 use crate::system::formula::molar_mass;
 
 /// One salt's solubility table.
@@ -172,12 +173,6 @@ pub const SOLUBILITY: &[SolubilityTable] = &[
 
 /// Fraction of the estimated capacity from which a solution is flagged.
 pub const SOLUBILITY_MARGIN: f64 = 0.85;
-
-/// The anhydrous part of a formula as written on a label (`Na2HPO4·7H2O` →
-/// `Na2HPO4`).
-pub fn anhydrous(formula: &str) -> &str {
-    formula.split('·').next().unwrap_or(formula).trim()
-}
 
 /// g of anhydrous salt per 100 g water at `t` °C, interpolated; `None` when
 /// the salt has no table or `t` is outside it.

@@ -259,7 +259,7 @@ impl RecipeWarning {
                 stored,
                 dissolves_above_c,
             } => {
-                let base = formula.split('·').next().unwrap_or(formula).trim();
+                let base = crate::system::formula::anhydrous(formula);
                 let advice = match (stored, dissolves_above_c) {
                     (true, _) => "store it warmer (at room temperature) or make a weaker stock".to_string(),
                     (false, Some(t)) => format!(

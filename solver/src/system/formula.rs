@@ -49,6 +49,12 @@ pub fn atomic_weight(symbol: &str) -> Option<f64> {
         .map(|&(_, w)| w)
 }
 
+/// The anhydrous part of a formula as written on a label (`Na2HPO4·7H2O` →
+/// `Na2HPO4`).
+pub fn anhydrous(formula: &str) -> &str {
+    formula.split('·').next().unwrap_or(formula).trim()
+}
+
 /// Molar mass in g/mol of a formula such as `Na2HPO4·7H2O`, `(NH4)2SO4`
 /// or `C6H6Na2O7·1.5H2O`.
 ///
